@@ -1,0 +1,7 @@
+package plumb.cli;
+
+public final class Main {
+    public static void main(String[] args) {
+        System.out.println("plumb");
+    }
+}
