@@ -1,0 +1,433 @@
+package plumb.engine.compile;
+
+import plumb.engine.model.Channel;
+import plumb.engine.model.Model;
+import plumb.engine.model.ModelOptions;
+import plumb.engine.model.ParameterSpec;
+import plumb.engine.model.Sample;
+import plumb.engine.model.Variation;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.TreeSet;
+
+/**
+ * Compiles a validated {@link Model} into a {@link CompiledModel}: defaults applied, parameters
+ * numbered, MC-statistics parameters generated, variations turned into per-bin coefficients and
+ * negligible ones pruned (docs/model-format.md).
+ */
+public final class ModelCompiler {
+
+    /** Range and nominal of generated MC-statistics parameters (docs/model-format.md). */
+    static final double GAMMA_LOWER = 1e-10;
+    static final double GAMMA_UPPER = 10;
+
+    private ModelCompiler() {
+    }
+
+    /** Compiles a model the reader has validated. */
+    public static CompiledModel compile(Model model) {
+        CompiledModel.Builder b = new CompiledModel.Builder();
+        b.name = model.name();
+        b.labels = model.labels();
+        b.pruned = new ArrayList<>();
+        b.warnings = new ArrayList<>();
+        ModelOptions options = model.options();
+
+        // 1. Parameters in order of first appearance; a name in a variation takes the variation defaults.
+        Map<String, ParameterKind> kinds = new LinkedHashMap<>();
+        for (Channel ch : model.channels()) {
+            for (Sample s : ch.samples()) {
+                for (String f : s.factors()) kinds.putIfAbsent(f, ParameterKind.FACTOR);
+                for (Variation v : s.variations()) kinds.put(v.parameter(), ParameterKind.NUISANCE);
+            }
+        }
+        List<String> names = new ArrayList<>(kinds.keySet());
+        b.nParams = names.size();
+
+        // 2. MC-statistics parameters, one per bin whose relative error exceeds the threshold.
+        int nChannels = model.channels().size();
+        b.channelBinStart = new int[nChannels + 1];
+        for (int c = 0; c < nChannels; c++) {
+            b.channelBinStart[c + 1] = b.channelBinStart[c] + model.channels().get(c).bins();
+        }
+        int nBins = b.channelBinStart[nChannels];
+        b.binGamma = new int[nBins];
+        Arrays.fill(b.binGamma, -1);
+        List<Integer> gammaBins = new ArrayList<>();
+        List<Double> gammaDelta = new ArrayList<>();
+        for (int c = 0; c < nChannels; c++) {
+            Channel ch = model.channels().get(c);
+            for (int bin = 0; bin < ch.bins(); bin++) {
+                double delta = mcStatRelativeError(ch, bin);
+                if (delta > options.mcStatThreshold()) {
+                    int global = b.channelBinStart[c] + bin;
+                    b.binGamma[global] = gammaBins.size();
+                    gammaBins.add(global);
+                    gammaDelta.add(delta);
+                    names.add(mcStatName(ch.name(), bin));
+                }
+            }
+        }
+        b.nGamma = gammaBins.size();
+        b.gammaBin = gammaBins.stream().mapToInt(Integer::intValue).toArray();
+        int nAll = names.size();
+        b.parameterNames = names.toArray(new String[0]);
+        allocateParameters(b, nAll);
+        for (int i = 0; i < b.nParams; i++) {
+            b.kind[i] = kinds.get(names.get(i));
+            if (b.kind[i] == ParameterKind.FACTOR) {
+                setDefaults(b, i, 1, 0, 10, ConstraintType.NONE, Double.NaN);
+            } else {
+                setDefaults(b, i, 0, -5, 5, ConstraintType.GAUSSIAN, 1);
+            }
+        }
+        for (int g = 0; g < b.nGamma; g++) {
+            int i = b.nParams + g;
+            b.kind[i] = ParameterKind.MCSTAT;
+            double delta = gammaDelta.get(g);
+            if (options.mcStatConstraint() == ModelOptions.McStatConstraint.POISSON) {
+                setDefaults(b, i, 1, GAMMA_LOWER, GAMMA_UPPER, ConstraintType.POISSON, delta);
+            } else {
+                setDefaults(b, i, 1, GAMMA_LOWER, GAMMA_UPPER, ConstraintType.GAUSSIAN, delta);
+            }
+        }
+        Map<String, Integer> index = new LinkedHashMap<>();
+        for (int i = 0; i < nAll; i++) index.put(names.get(i), i);
+        for (ParameterSpec spec : model.parameters()) {
+            Integer i = index.get(spec.name());
+            if (i != null) applyOverride(b, i, spec);
+        }
+        b.poi = model.poi() == null ? -1 : index.getOrDefault(model.poi(), -1);
+
+        // 3. Channels, samples and their terms.
+        compileChannels(model, b, index, options.pruneBelow());
+
+        // 4. Groups.
+        b.groupNames = model.groups().keySet().toArray(new String[0]);
+        b.groupMembers = new int[b.groupNames.length][];
+        for (int gi = 0; gi < b.groupNames.length; gi++) {
+            List<String> members = model.groups().get(b.groupNames[gi]);
+            b.groupMembers[gi] = members.stream().mapToInt(n -> index.getOrDefault(n, -1)).filter(i -> i >= 0).toArray();
+        }
+        return new CompiledModel(b);
+    }
+
+    /** The generated name of the MC-statistics parameter of a bin (docs/model-format.md). */
+    public static String mcStatName(String channel, int bin) {
+        return "mcstat:" + channel + ":" + bin;
+    }
+
+    /**
+     * δ_b = sqrt(Σ mcError²) / Σ n over the samples that give {@code mcError}, or 0 when the bin
+     * has no such sample or their nominal sum is not positive (the bin then gets no γ).
+     */
+    public static double mcStatRelativeError(Channel ch, int bin) {
+        double sumSq = 0;
+        double sumN = 0;
+        boolean any = false;
+        for (Sample s : ch.samples()) {
+            if (s.mcError() == null) continue;
+            any = true;
+            sumSq += s.mcError()[bin] * s.mcError()[bin];
+            sumN += s.yields()[bin];
+        }
+        if (!any || !(sumN > 0)) return 0;
+        return Math.sqrt(sumSq) / sumN;
+    }
+
+    private static void allocateParameters(CompiledModel.Builder b, int n) {
+        b.kind = new ParameterKind[n];
+        b.nominal = new double[n];
+        b.lower = new double[n];
+        b.upper = new double[n];
+        b.fixed = new boolean[n];
+        b.constraintType = new int[n];
+        b.auxNominal = new double[n];
+        b.width = new double[n];
+        b.tau = new double[n];
+        b.prefitWidth = new double[n];
+    }
+
+    /** For Gaussian: {@code w} is the width; for Poisson: the relative error r. */
+    private static void setDefaults(CompiledModel.Builder b, int i, double value, double lo, double hi,
+                                    int constraint, double w) {
+        b.nominal[i] = value;
+        b.lower[i] = lo;
+        b.upper[i] = hi;
+        setConstraint(b, i, constraint, value, w);
+    }
+
+    private static void setConstraint(CompiledModel.Builder b, int i, int constraint, double center, double w) {
+        b.constraintType[i] = constraint;
+        b.width[i] = Double.NaN;
+        b.tau[i] = Double.NaN;
+        b.auxNominal[i] = Double.NaN;
+        b.prefitWidth[i] = Double.NaN;
+        if (constraint == ConstraintType.GAUSSIAN) {
+            b.width[i] = w;
+            b.auxNominal[i] = center;
+            b.prefitWidth[i] = w;
+        } else if (constraint == ConstraintType.POISSON) {
+            double tau = 1 / (w * w);
+            b.tau[i] = tau;
+            b.auxNominal[i] = tau; // m = τ: the parameter's nominal value 1 times τ
+            b.prefitWidth[i] = w;
+        }
+    }
+
+    private static void applyOverride(CompiledModel.Builder b, int i, ParameterSpec spec) {
+        if (spec.value() != null) b.nominal[i] = spec.value();
+        if (spec.range() != null) {
+            b.lower[i] = spec.range()[0];
+            b.upper[i] = spec.range()[1];
+        }
+        if (spec.fixed() != null) b.fixed[i] = spec.fixed();
+        if (spec.constraintGiven()) {
+            ParameterSpec.Constraint c = spec.constraint();
+            if (c == null) {
+                setConstraint(b, i, ConstraintType.NONE, 0, 0);
+            } else if (c instanceof ParameterSpec.Gaussian g) {
+                double center = g.center() == null ? b.nominal[i] : g.center();
+                double width = g.width() == null ? 1 : g.width();
+                setConstraint(b, i, ConstraintType.GAUSSIAN, center, width);
+            } else if (c instanceof ParameterSpec.Poisson p) {
+                setConstraint(b, i, ConstraintType.POISSON, 0, p.relative());
+            }
+        } else if (spec.value() != null && b.constraintType[i] == ConstraintType.GAUSSIAN
+                   && b.kind[i] != ParameterKind.MCSTAT) {
+            // A default Gaussian constraint is centred on the parameter's value.
+            b.auxNominal[i] = b.nominal[i];
+        }
+    }
+
+    private static void compileChannels(Model model, CompiledModel.Builder b, Map<String, Integer> index,
+                                        double pruneBelow) {
+        List<Channel> channels = model.channels();
+        int nChannels = channels.size();
+        b.channelNames = new String[nChannels];
+        b.observables = new String[nChannels];
+        b.edges = new double[nChannels][];
+        b.observed = new double[nChannels][];
+        b.channelParams = new int[nChannels][];
+
+        List<String> sampleNames = new ArrayList<>();
+        IntList sampleChannel = new IntList();
+        List<Boolean> sampleMc = new ArrayList<>();
+        IntList entryStart = new IntList();
+        DoubleList nominal = new DoubleList();
+        IntList mulStart = new IntList();
+        IntList mulParam = new IntList();
+        IntList mulLocal = new IntList();
+        DoubleList mulCoeffs = new DoubleList();
+        IntList shapeStart = new IntList();
+        IntList shapeParam = new IntList();
+        IntList shapeLocal = new IntList();
+        IntList shapeMode = new IntList();
+        IntList shapeCoeffStart = new IntList();
+        DoubleList shapeS = new DoubleList();
+        DoubleList shapeA = new DoubleList();
+        double[] coeffs = new double[NormInterpolation.COEFFS];
+
+        for (int c = 0; c < nChannels; c++) {
+            Channel ch = channels.get(c);
+            b.channelNames[c] = ch.name();
+            b.observables[c] = ch.observable();
+            b.edges[c] = ch.edges() == null ? null : ch.edges().clone();
+            b.observed[c] = ch.observed() == null ? null : ch.observed().clone();
+            int nb = ch.bins();
+
+            // First pass: which terms survive pruning, and so which parameters act on the channel.
+            TreeSet<Integer> params = new TreeSet<>();
+            for (Sample s : ch.samples()) {
+                for (String f : s.factors()) params.add(index.get(f));
+                for (Variation v : s.variations()) {
+                    if (keepNorm(v, pruneBelow) || keepShape(v, s, pruneBelow)) params.add(index.get(v.parameter()));
+                }
+            }
+            int[] local = params.stream().mapToInt(Integer::intValue).toArray();
+            b.channelParams[c] = local;
+
+            for (Sample s : ch.samples()) {
+                sampleNames.add(s.name());
+                sampleChannel.add(c);
+                sampleMc.add(s.mcError() != null);
+                entryStart.add(nominal.size());
+                for (int bin = 0; bin < nb; bin++) nominal.add(s.yields()[bin]);
+                mulStart.add(mulParam.size());
+                shapeStart.add(shapeParam.size());
+                String where = ch.name() + "/" + s.name();
+                for (Variation v : s.variations()) {
+                    int p = index.get(v.parameter());
+                    warnAbout(b.warnings, where, v, s);
+                    if (v.norm() != null) {
+                        if (keepNorm(v, pruneBelow)) {
+                            NormInterpolation.coefficients(normMode(v), v.norm().up(), v.norm().down(), coeffs, 0);
+                            mulParam.add(p);
+                            mulLocal.add(Arrays.binarySearch(local, p));
+                            mulCoeffs.addAll(coeffs);
+                        } else {
+                            b.pruned.add(String.format(Locale.ROOT, "%s: norm part of %s (largest effect %.3g)",
+                                    where, v.parameter(), normEffect(v)));
+                        }
+                    }
+                    if (v.shape() != null) {
+                        if (keepShape(v, s, pruneBelow)) {
+                            shapeParam.add(p);
+                            shapeLocal.add(Arrays.binarySearch(local, p));
+                            shapeMode.add(v.shapeMode() == plumb.engine.model.Interpolation.LINEAR
+                                    ? ShapeInterpolation.LINEAR : ShapeInterpolation.SMOOTH);
+                            shapeCoeffStart.add(shapeS.size());
+                            double[] n = s.yields(), up = v.shape().up(), down = v.shape().down();
+                            for (int bin = 0; bin < nb; bin++) {
+                                shapeS.add((up[bin] - down[bin]) / 2);
+                                shapeA.add((up[bin] + down[bin] - 2 * n[bin]) / 16);
+                            }
+                        } else {
+                            b.pruned.add(String.format(Locale.ROOT, "%s: shape part of %s (largest effect %.3g)",
+                                    where, v.parameter(), shapeEffect(v, s)));
+                        }
+                    }
+                }
+                for (String f : s.factors()) {
+                    int p = index.get(f);
+                    Arrays.fill(coeffs, 0);
+                    coeffs[0] = NormInterpolation.FACTOR;
+                    mulParam.add(p);
+                    mulLocal.add(Arrays.binarySearch(local, p));
+                    mulCoeffs.addAll(coeffs);
+                }
+            }
+        }
+        entryStart.add(nominal.size());
+        mulStart.add(mulParam.size());
+        shapeStart.add(shapeParam.size());
+
+        b.sampleNames = sampleNames.toArray(new String[0]);
+        b.sampleChannel = sampleChannel.toArray();
+        b.sampleMcStat = new boolean[sampleMc.size()];
+        for (int s = 0; s < sampleMc.size(); s++) b.sampleMcStat[s] = sampleMc.get(s);
+        b.sampleEntryStart = entryStart.toArray();
+        b.nominalYield = nominal.toArray();
+        b.sampleMulStart = mulStart.toArray();
+        b.mulParam = mulParam.toArray();
+        b.mulLocal = mulLocal.toArray();
+        b.mulCoeffs = mulCoeffs.toArray();
+        b.sampleShapeStart = shapeStart.toArray();
+        b.shapeParam = shapeParam.toArray();
+        b.shapeLocal = shapeLocal.toArray();
+        b.shapeMode = shapeMode.toArray();
+        b.shapeCoeffStart = shapeCoeffStart.toArray();
+        b.shapeS = shapeS.toArray();
+        b.shapeA = shapeA.toArray();
+    }
+
+    private static int normMode(Variation v) {
+        return switch (v.normMode()) {
+            case EXPONENTIAL -> NormInterpolation.EXPONENTIAL;
+            case LINEAR -> NormInterpolation.LINEAR;
+            case SMOOTH -> NormInterpolation.SMOOTH;
+        };
+    }
+
+    private static double normEffect(Variation v) {
+        return Math.max(Math.abs(v.norm().up() - 1), Math.abs(v.norm().down() - 1));
+    }
+
+    private static double shapeEffect(Variation v, Sample s) {
+        double largest = 0;
+        double[] n = s.yields();
+        for (int bin = 0; bin < n.length; bin++) {
+            if (n[bin] > 0) {
+                largest = Math.max(largest, Math.abs(v.shape().up()[bin] - n[bin]) / n[bin]);
+                largest = Math.max(largest, Math.abs(v.shape().down()[bin] - n[bin]) / n[bin]);
+            }
+        }
+        return largest;
+    }
+
+    private static boolean keepNorm(Variation v, double pruneBelow) {
+        return v.norm() != null && !(normEffect(v) < pruneBelow);
+    }
+
+    private static boolean keepShape(Variation v, Sample s, double pruneBelow) {
+        return v.shape() != null && !(shapeEffect(v, s) < pruneBelow);
+    }
+
+    /** Warnings an analyst wants to see before fitting: one-sided and over-100 % variations. */
+    private static void warnAbout(List<String> warnings, String where, Variation v, Sample s) {
+        if (v.norm() != null) {
+            double up = v.norm().up() - 1, down = v.norm().down() - 1;
+            if (up * down > 0) {
+                warnings.add(String.format(Locale.ROOT, "%s: norm variation of %s is one-sided (up %.3g, down %.3g)",
+                        where, v.parameter(), v.norm().up(), v.norm().down()));
+            }
+            if (Math.abs(up) > 1 || Math.abs(down) > 1) {
+                warnings.add(String.format(Locale.ROOT, "%s: norm variation of %s exceeds 100%%", where, v.parameter()));
+            }
+        }
+        if (v.shape() != null) {
+            double[] n = s.yields();
+            int sameSide = 0, moving = 0;
+            for (int bin = 0; bin < n.length; bin++) {
+                double up = v.shape().up()[bin] - n[bin], down = v.shape().down()[bin] - n[bin];
+                if (up != 0 || down != 0) moving++;
+                if (up * down > 0) sameSide++;
+            }
+            if (moving > 0 && 2 * sameSide > moving) {
+                warnings.add(String.format(Locale.ROOT, "%s: shape variation of %s is one-sided in %d of %d bins",
+                        where, v.parameter(), sameSide, moving));
+            }
+            if (shapeEffect(v, s) > 1) {
+                warnings.add(String.format(Locale.ROOT, "%s: shape variation of %s exceeds 100%% in some bin",
+                        where, v.parameter()));
+            }
+        }
+    }
+
+    /** Growable int array for the compiler (not used in hot paths). */
+    static final class IntList {
+        private int[] data = new int[16];
+        private int size;
+
+        void add(int v) {
+            if (size == data.length) data = Arrays.copyOf(data, size * 2);
+            data[size++] = v;
+        }
+
+        int size() {
+            return size;
+        }
+
+        int[] toArray() {
+            return Arrays.copyOf(data, size);
+        }
+    }
+
+    /** Growable double array for the compiler (not used in hot paths). */
+    static final class DoubleList {
+        private double[] data = new double[16];
+        private int size;
+
+        void add(double v) {
+            if (size == data.length) data = Arrays.copyOf(data, size * 2);
+            data[size++] = v;
+        }
+
+        void addAll(double[] v) {
+            for (double x : v) add(x);
+        }
+
+        int size() {
+            return size;
+        }
+
+        double[] toArray() {
+            return Arrays.copyOf(data, size);
+        }
+    }
+}

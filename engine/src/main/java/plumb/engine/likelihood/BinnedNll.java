@@ -1,0 +1,593 @@
+package plumb.engine.likelihood;
+
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.compile.ConstraintType;
+import plumb.engine.compile.NormInterpolation;
+import plumb.engine.compile.ShapeInterpolation;
+import plumb.engine.minimise.Objective;
+
+import java.util.Arrays;
+
+/**
+ * −ln L of docs/model-format.md, constants included, with its analytic gradient and Hessian.
+ *
+ * <p>Two layouts of the variables. <b>Profiled</b> (default): the variables are the model
+ * parameters only; each bin's MC-statistics parameter γ_b is set to its conditional minimum in
+ * closed form inside every evaluation (engine-notes §1, Conway arXiv:1103.0354), so the value is
+ * the profiled −ln L, its gradient is the ordinary gradient at γ* (envelope theorem) and its
+ * Hessian the Schur complement H_θθ − Σ_b h_b h_bᵀ / H_γbγb. <b>Explicit</b>: the γ_b follow the
+ * model parameters as ordinary variables (indices nParams .. nAll−1).
+ *
+ * <p>Structure of the expectation used throughout: ν_sb = base_sb(θ) · C_s(θ) · γ_b, where
+ * base_sb = max(0, n_sb + Σ shape terms) depends on the bin and C_s = Π (norm terms, factors)
+ * does not. So the gradient with respect to a norm parameter needs one sum per sample, and a shape
+ * entry costs two multiply-adds in the value pass and two in the gradient pass.
+ *
+ * <p>Not thread-safe: one instance per thread; all work arrays are allocated here, none per
+ * evaluation.
+ */
+public final class BinnedNll implements Objective {
+
+    /** Floor of a channel's expectation in a bin (docs/model-format.md). */
+    public static final double NU_FLOOR = 1e-10;
+
+    private final CompiledModel m;
+    private final boolean explicitGamma;
+    private final int dim;
+    private final int[] channelSampleStart;
+    private DataSet data;
+
+    /** Held value of each γ in the profiled layout, NaN where it is solved. */
+    private final double[] gammaHeld;
+
+    // ---- work arrays, sized once ----
+    private final double[] base;
+    private final boolean[] clipped;
+    private final double[] mulValue;   // g, g', g'' per multiplicative term
+    private final double[] dC;         // ∂C_s/∂(term k) per term
+    private final double[] sampleC;
+    private final double[] shapeP;     // P, P', P'' per shape term
+    private final double[] aPart;      // per bin: expectation of samples outside the MC-statistics term
+    private final double[] cPart;      // per bin: expectation of samples inside it (γ = 1)
+    private final double[] binGammaValue; // γ used per bin (1 where none)
+    private final double[] nu;
+    private final double[] w;          // 1 − n/ν, 0 where the bin does not count
+    private final double[] q;          // n/ν²
+    private final double[] gammaValue; // per γ
+    private final boolean[] gammaInterior; // solved and inside its range: Schur term applies
+    private final double[] tmp3 = new double[3];
+    private final double[] prefix;
+    private final double[] suffix;
+    private final double[] hvec;
+    private final double[] gLoc;
+    private final double[] gcLoc;
+    private final double[] hLoc;
+    private final double[] hMat;
+    private final double[] extended;
+    private final double[] extendedGrad;
+
+    /** A likelihood in the profiled layout. */
+    public BinnedNll(CompiledModel model, DataSet data) {
+        this(model, data, false);
+    }
+
+    /** A likelihood in the profiled ({@code explicitGamma = false}) or explicit layout. */
+    public BinnedNll(CompiledModel model, DataSet data, boolean explicitGamma) {
+        this.m = model;
+        this.data = data;
+        this.explicitGamma = explicitGamma;
+        this.dim = explicitGamma ? model.nAll : model.nParams;
+        channelSampleStart = new int[model.nChannels + 1];
+        for (int s = 0, c = 0; c < model.nChannels; c++) {
+            channelSampleStart[c] = s;
+            while (s < model.nSamples && model.sampleChannel[s] == c) s++;
+            channelSampleStart[c + 1] = s;
+        }
+        gammaHeld = new double[model.nGamma];
+        Arrays.fill(gammaHeld, Double.NaN);
+        for (int g = 0; g < model.nGamma; g++) {
+            if (model.fixed[model.nParams + g]) gammaHeld[g] = model.nominal[model.nParams + g];
+        }
+        int entries = model.nominalYield.length;
+        base = new double[entries];
+        clipped = new boolean[entries];
+        int nMul = model.mulParam.length;
+        mulValue = new double[3 * nMul];
+        dC = new double[nMul];
+        sampleC = new double[model.nSamples];
+        shapeP = new double[3 * model.shapeParam.length];
+        aPart = new double[model.nBins];
+        cPart = new double[model.nBins];
+        binGammaValue = new double[model.nBins];
+        nu = new double[model.nBins];
+        w = new double[model.nBins];
+        q = new double[model.nBins];
+        gammaValue = new double[model.nGamma];
+        gammaInterior = new boolean[model.nGamma];
+        int maxMul = 0;
+        for (int s = 0; s < model.nSamples; s++) {
+            maxMul = Math.max(maxMul, model.sampleMulStart[s + 1] - model.sampleMulStart[s]);
+        }
+        prefix = new double[maxMul + 1];
+        suffix = new double[maxMul + 1];
+        hvec = new double[maxMul + 1];
+        int maxLocal = 0;
+        for (int[] p : model.channelParams) maxLocal = Math.max(maxLocal, p.length);
+        gLoc = new double[maxLocal];
+        gcLoc = new double[maxLocal];
+        hLoc = new double[maxLocal];
+        hMat = new double[maxLocal * maxLocal];
+        extended = new double[model.nAll];
+        extendedGrad = new double[model.nAll];
+    }
+
+    public CompiledModel model() {
+        return m;
+    }
+
+    public DataSet data() {
+        return data;
+    }
+
+    /** Evaluates on other data from now on (toys): the work arrays are reused. */
+    public void setData(DataSet data) {
+        this.data = data;
+    }
+
+    public boolean explicitGamma() {
+        return explicitGamma;
+    }
+
+    /** Holds γ number g at a value (profiled layout), or releases it with NaN. */
+    public void holdGamma(int g, double value) {
+        gammaHeld[g] = value;
+    }
+
+    @Override
+    public int dimension() {
+        return dim;
+    }
+
+    @Override
+    public double value(double[] x) {
+        return evaluate(x, null, null, explicitGamma);
+    }
+
+    @Override
+    public double valueAndGradient(double[] x, double[] gradient) {
+        return evaluate(x, gradient, null, explicitGamma);
+    }
+
+    @Override
+    public double valueGradientHessian(double[] x, double[] gradient, double[] hessian) {
+        return evaluate(x, gradient, hessian, explicitGamma);
+    }
+
+    /**
+     * The Hessian over all nAll parameters (γ included as ordinary coordinates) at the model
+     * parameters x (profiled layout: γ at their conditional minimum; explicit: as in x). Used for
+     * the full post-fit covariance, e.g. the errors of γ and of post-fit yields.
+     *
+     * @return −ln L at that point
+     */
+    public double fullHessian(double[] x, double[] hessian) {
+        if (!explicitGamma) {
+            evaluate(x, null, null, false);
+            System.arraycopy(x, 0, extended, 0, m.nParams);
+            System.arraycopy(gammaValue, 0, extended, m.nParams, m.nGamma);
+        } else {
+            System.arraycopy(x, 0, extended, 0, m.nAll);
+        }
+        return evaluate(extended, extendedGrad, hessian, true);
+    }
+
+    /**
+     * Values of all nAll parameters at x: the model parameters copied, the γ as solved (profiled
+     * layout) or taken from x (explicit).
+     */
+    public void allValues(double[] x, double[] out) {
+        evaluate(x, null, null, explicitGamma);
+        System.arraycopy(x, 0, out, 0, m.nParams);
+        System.arraycopy(gammaValue, 0, out, m.nParams, m.nGamma);
+    }
+
+    /** Expected yield ν_sb of every (sample, bin) entry at x, γ applied, into {@code out}. */
+    public void expectedEntries(double[] x, double[] out) {
+        evaluate(x, null, null, explicitGamma);
+        for (int s = 0; s < m.nSamples; s++) {
+            int from = m.sampleEntryStart[s], to = m.sampleEntryStart[s + 1];
+            int gb = m.channelBinStart[m.sampleChannel[s]] - from;
+            double cs = sampleC[s];
+            boolean mc = m.sampleMcStat[s];
+            for (int e = from; e < to; e++) out[e] = base[e] * cs * (mc ? binGammaValue[gb + e] : 1);
+        }
+    }
+
+    /** Expected count ν_b of every bin at x (floored as in the likelihood), into {@code out}. */
+    public void expectedBins(double[] x, double[] out) {
+        evaluate(x, null, null, explicitGamma);
+        for (int c = 0; c < m.nChannels; c++) {
+            for (int b = m.channelBinStart[c]; b < m.channelBinStart[c + 1]; b++) {
+                out[b] = Math.max(aPart[b] + binGammaValue[b] * cPart[b], NU_FLOOR);
+            }
+        }
+    }
+
+    private double evaluate(double[] x, double[] grad, double[] hess, boolean explicit) {
+        final CompiledModel m = this.m;
+        final double[] counts = data.counts();
+        final double[] aux = data.aux();
+        final int nP = m.nParams;
+        final int n = explicit ? m.nAll : nP;
+        if (grad != null) Arrays.fill(grad, 0, n, 0);
+        if (hess != null) Arrays.fill(hess, 0, n * n, 0);
+
+        multiplicativeTerms(x);
+        shapeTerms(x);
+        baseYields(x);
+
+        double nll = data.constant();
+        for (int c = 0; c < m.nChannels; c++) {
+            nll += channelTerms(c, x, explicit);
+        }
+        nll += constraintTerms(x, grad, hess, explicit, n);
+
+        if (grad != null) {
+            gradientTerms(grad, hess, n, explicit);
+            if (hess != null) {
+                for (int c = 0; c < m.nChannels; c++) {
+                    if (data.channelIncluded()[c]) binOuterProducts(c, hess, n, explicit);
+                }
+            }
+        }
+        return nll;
+    }
+
+    /** g, g', g'' of every multiplicative term; C_s and ∂C_s/∂(term) without division (g may be 0). */
+    private void multiplicativeTerms(double[] x) {
+        final int[] mulParam = m.mulParam;
+        final double[] coeffs = m.mulCoeffs;
+        for (int s = 0; s < m.nSamples; s++) {
+            int from = m.sampleMulStart[s], to = m.sampleMulStart[s + 1];
+            int len = to - from;
+            prefix[0] = 1;
+            for (int k = 0; k < len; k++) {
+                int t = from + k;
+                NormInterpolation.evaluate(coeffs, t * NormInterpolation.COEFFS, x[mulParam[t]], tmp3);
+                mulValue[3 * t] = tmp3[0];
+                mulValue[3 * t + 1] = tmp3[1];
+                mulValue[3 * t + 2] = tmp3[2];
+                prefix[k + 1] = prefix[k] * tmp3[0];
+            }
+            suffix[len] = 1;
+            for (int k = len - 1; k >= 0; k--) suffix[k] = suffix[k + 1] * mulValue[3 * (from + k)];
+            sampleC[s] = prefix[len];
+            for (int k = 0; k < len; k++) dC[from + k] = mulValue[3 * (from + k) + 1] * prefix[k] * suffix[k + 1];
+        }
+    }
+
+    private void shapeTerms(double[] x) {
+        final int[] shapeParam = m.shapeParam;
+        for (int k = 0; k < shapeParam.length; k++) {
+            ShapeInterpolation.evaluate(m.shapeMode[k], x[shapeParam[k]], tmp3);
+            shapeP[3 * k] = tmp3[0];
+            shapeP[3 * k + 1] = tmp3[1];
+            shapeP[3 * k + 2] = tmp3[2];
+        }
+    }
+
+    /** base_sb = max(0, n_sb + Σ_k S·θ_k + A·P(θ_k)). */
+    private void baseYields(double[] x) {
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        for (int s = 0; s < m.nSamples; s++) {
+            int from = m.sampleEntryStart[s], len = m.sampleEntryStart[s + 1] - from;
+            System.arraycopy(m.nominalYield, from, base, from, len);
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                double p1 = x[m.shapeParam[k]], p2 = shapeP[3 * k];
+                int so = m.shapeCoeffStart[k];
+                for (int b = 0; b < len; b++) base[from + b] += shapeS[so + b] * p1 + shapeA[so + b] * p2;
+            }
+            for (int e = from; e < from + len; e++) {
+                boolean neg = base[e] < 0;
+                clipped[e] = neg;
+                if (neg) base[e] = 0;
+            }
+        }
+    }
+
+    /** Splits each bin's expectation, sets its γ, and returns the channel's Poisson terms. */
+    private double channelTerms(int c, double[] x, boolean explicit) {
+        final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+        final boolean included = data.channelIncluded()[c];
+        final double[] counts = data.counts();
+        Arrays.fill(aPart, b0, b1, 0);
+        Arrays.fill(cPart, b0, b1, 0);
+        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+            double cs = sampleC[s];
+            int e0 = m.sampleEntryStart[s] - b0;
+            double[] part = m.sampleMcStat[s] ? cPart : aPart;
+            for (int b = b0; b < b1; b++) part[b] += base[e0 + b] * cs;
+        }
+        double sum = 0;
+        for (int b = b0; b < b1; b++) {
+            int g = m.binGamma[b];
+            double gamma = 1;
+            if (g >= 0) {
+                gamma = gammaFor(g, b, x, explicit, included);
+                gammaValue[g] = gamma;
+            }
+            binGammaValue[b] = gamma;
+            double v = aPart[b] + gamma * cPart[b];
+            if (!included) {
+                w[b] = 0;
+                q[b] = 0;
+                continue;
+            }
+            double nb = counts[b];
+            if (v < NU_FLOOR) {
+                v = NU_FLOOR;
+                w[b] = 0;   // the floor does not move with the parameters
+                q[b] = 0;
+            } else {
+                w[b] = 1 - nb / v;
+                q[b] = nb / (v * v);
+            }
+            nu[b] = v;
+            // ν − n ln ν minus its value at ν = n (which sits in the data constant): no cancellation.
+            sum += nb > 0 ? v - nb - nb * Math.log(v / nb) : v;
+        }
+        return sum;
+    }
+
+    private double gammaFor(int g, int b, double[] x, boolean explicit, boolean included) {
+        int idx = m.nParams + g;
+        if (explicit) {
+            gammaInterior[g] = false;
+            return x[idx];
+        }
+        if (!Double.isNaN(gammaHeld[g])) {
+            gammaInterior[g] = false;
+            return gammaHeld[g];
+        }
+        double gamma = included
+                ? solveGamma(aPart[b], cPart[b], data.counts()[b], idx)
+                : constraintMinimum(idx);
+        double lo = m.lower[idx], hi = m.upper[idx];
+        boolean inside = gamma > lo && gamma < hi;
+        gammaInterior[g] = inside;
+        return inside ? gamma : (gamma <= lo ? lo : hi);
+    }
+
+    /**
+     * The γ minimising the bin's terms plus its constraint, ν = a + γc: the positive root of
+     * Aγ² + Bγ + C = 0 (engine-notes §1), taken in the form without cancellation.
+     */
+    private double solveGamma(double a, double c, double n, int idx) {
+        double aux = data.aux()[idx];
+        if (!(c > 0)) return constraintMinimum(idx);
+        double qa, qb, qc;
+        switch (m.constraintType[idx]) {
+            case ConstraintType.GAUSSIAN -> {
+                double w2 = m.width[idx] * m.width[idx];
+                qa = c;
+                qb = c * c * w2 + a - aux * c;
+                qc = c * w2 * (a - n) - aux * a;
+            }
+            case ConstraintType.POISSON -> {
+                double tau = m.tau[idx];
+                qa = c * (c + tau);
+                qb = a * (c + tau) - c * (n + aux);
+                qc = -aux * a;
+            }
+            default -> {
+                return (n - a) / c;
+            }
+        }
+        double disc = Math.max(qb * qb - 4 * qa * qc, 0);
+        double root = Math.sqrt(disc);
+        return qb > 0 ? 2 * qc / (-qb - root) : (-qb + root) / (2 * qa);
+    }
+
+    /** Where the constraint alone is smallest: a bin that does not count, or one γ cannot move. */
+    private double constraintMinimum(int idx) {
+        double aux = data.aux()[idx];
+        return switch (m.constraintType[idx]) {
+            case ConstraintType.GAUSSIAN -> aux;
+            case ConstraintType.POISSON -> aux / m.tau[idx];
+            default -> m.nominal[idx];
+        };
+    }
+
+    private double constraintTerms(double[] x, double[] grad, double[] hess, boolean explicit, int n) {
+        final double[] aux = data.aux();
+        double sum = 0;
+        for (int i = 0; i < m.nAll; i++) {
+            int type = m.constraintType[i];
+            if (type == ConstraintType.NONE) continue;
+            boolean isGamma = i >= m.nParams;
+            double v = isGamma ? gammaValue[i - m.nParams] : x[i];
+            boolean derivatives = !isGamma || explicit;
+            if (type == ConstraintType.GAUSSIAN) {
+                double inv = 1 / (m.width[i] * m.width[i]);
+                double d = v - aux[i];
+                sum += 0.5 * d * d * inv;
+                if (derivatives && grad != null) grad[i] += d * inv;
+                if (derivatives && hess != null) hess[i * n + i] += inv;
+            } else {
+                double mAux = aux[i], tau = m.tau[i];
+                sum += tau * v - (mAux > 0 ? mAux * Math.log(v) : 0);
+                if (derivatives && grad != null) grad[i] += tau - mAux / v;
+                if (derivatives && hess != null) hess[i * n + i] += mAux / (v * v);
+            }
+        }
+        return sum;
+    }
+
+    /**
+     * Gradient, and the Hessian terms that need only per-sample sums: the w_b ∇²ν_b part of
+     * engine-notes §2, split by the product structure of ν_sb.
+     */
+    private void gradientTerms(double[] grad, double[] hess, int n, boolean explicit) {
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        for (int s = 0; s < m.nSamples; s++) {
+            int c = m.sampleChannel[s];
+            if (!data.channelIncluded()[c]) continue;
+            int b0 = m.channelBinStart[c];
+            int e0 = m.sampleEntryStart[s], len = m.sampleEntryStart[s + 1] - e0;
+            boolean mc = m.sampleMcStat[s];
+            double cs = sampleC[s];
+            // T_s = Σ_b w_b γ_sb base_sb: the derivative of −ln L by C_s.
+            double t = 0;
+            for (int b = 0; b < len; b++) {
+                double rho = mc ? w[b0 + b] * binGammaValue[b0 + b] : w[b0 + b];
+                t += rho * base[e0 + b];
+            }
+            int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
+            for (int k = mulFrom; k < mulTo; k++) grad[m.mulParam[k]] += dC[k] * t;
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                int so = m.shapeCoeffStart[k];
+                double u1 = 0, u2 = 0;
+                for (int b = 0; b < len; b++) {
+                    if (clipped[e0 + b]) continue;
+                    double rho = mc ? w[b0 + b] * binGammaValue[b0 + b] : w[b0 + b];
+                    u1 += rho * shapeS[so + b];
+                    u2 += rho * shapeA[so + b];
+                }
+                int p = m.shapeParam[k];
+                double dBase = u1 + u2 * shapeP[3 * k + 1]; // Σ_b ρ ∂base/∂θ
+                grad[p] += cs * dBase;
+                if (hess != null) {
+                    hess[p * n + p] += cs * u2 * shapeP[3 * k + 2];
+                    for (int l = mulFrom; l < mulTo; l++) {
+                        int pl = m.mulParam[l];
+                        double v = dBase * dC[l];
+                        hess[p * n + pl] += v;
+                        hess[pl * n + p] += v;
+                    }
+                }
+            }
+            if (hess != null) mulSecondDerivatives(s, t, hess, n);
+        }
+        if (explicit) {
+            for (int g = 0; g < m.nGamma; g++) {
+                int b = m.gammaBin[g];
+                grad[m.nParams + g] += w[b] * cPart[b];
+            }
+        }
+    }
+
+    /** T_s · ∂²C_s/∂θ_k∂θ_l over the sample's multiplicative terms, without division. */
+    private void mulSecondDerivatives(int s, double t, double[] hess, int n) {
+        int from = m.sampleMulStart[s], len = m.sampleMulStart[s + 1] - from;
+        for (int k = 0; k < len; k++) {
+            int pk = m.mulParam[from + k];
+            // h_j = g_j with term k replaced by its derivative; ∂²C/∂k∂l = g_l' Π_{j≠l} h_j.
+            for (int j = 0; j < len; j++) hvec[j] = j == k ? mulValue[3 * (from + j) + 1] : mulValue[3 * (from + j)];
+            prefix[0] = 1;
+            for (int j = 0; j < len; j++) prefix[j + 1] = prefix[j] * hvec[j];
+            suffix[len] = 1;
+            for (int j = len - 1; j >= 0; j--) suffix[j] = suffix[j + 1] * hvec[j];
+            for (int l = 0; l < len; l++) {
+                int pl = m.mulParam[from + l];
+                double d2;
+                if (l == k) {
+                    d2 = mulValue[3 * (from + k) + 2] * productWithout(from, len, k);
+                } else {
+                    d2 = mulValue[3 * (from + l) + 1] * prefix[l] * suffix[l + 1];
+                }
+                hess[pk * n + pl] += t * d2;
+            }
+        }
+    }
+
+    private double productWithout(int from, int len, int k) {
+        double p = 1;
+        for (int j = 0; j < len; j++) if (j != k) p *= mulValue[3 * (from + j)];
+        return p;
+    }
+
+    /**
+     * Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ over the channel's bins, in the channel's local parameter
+     * indices, minus the Schur terms of the profiled γ_b (profiled layout) or plus the γ rows and
+     * columns (explicit layout).
+     */
+    private void binOuterProducts(int c, double[] hess, int n, boolean explicit) {
+        final int[] local = m.channelParams[c];
+        final int L = local.length;
+        final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        Arrays.fill(hMat, 0, L * L, 0);
+        for (int b = b0; b < b1; b++) {
+            double qb = q[b];
+            double wb = w[b];
+            if (qb == 0 && wb == 0) continue;
+            Arrays.fill(gLoc, 0, L, 0);
+            Arrays.fill(gcLoc, 0, L, 0);
+            double gammaB = binGammaValue[b];
+            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+                boolean mc = m.sampleMcStat[s];
+                int e = m.sampleEntryStart[s] + (b - b0);
+                double bs = base[e];
+                double scale = mc ? gammaB : 1;
+                for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
+                    double d = bs * dC[k];
+                    gLoc[m.mulLocal[k]] += scale * d;
+                    if (mc) gcLoc[m.mulLocal[k]] += d;
+                }
+                if (clipped[e]) continue;
+                double cs = sampleC[s];
+                for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                    int so = m.shapeCoeffStart[k] + (b - b0);
+                    double d = cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
+                    gLoc[m.shapeLocal[k]] += scale * d;
+                    if (mc) gcLoc[m.shapeLocal[k]] += d;
+                }
+            }
+            rankOne(gLoc, qb, L);
+            int g = m.binGamma[b];
+            if (g < 0) continue;
+            double cb = cPart[b];
+            for (int i = 0; i < L; i++) hLoc[i] = wb * gcLoc[i] + qb * cb * gLoc[i];
+            int gi = m.nParams + g;
+            if (explicit) {
+                hess[gi * n + gi] += qb * cb * cb;
+                for (int i = 0; i < L; i++) {
+                    int p = local[i];
+                    hess[p * n + gi] += hLoc[i];
+                    hess[gi * n + p] += hLoc[i];
+                }
+            } else if (gammaInterior[g]) {
+                double hgg = qb * cb * cb + constraintCurvature(gi, gammaValue[g]);
+                if (hgg > 0) rankOne(hLoc, -1 / hgg, L);
+            }
+        }
+        for (int i = 0; i < L; i++) {
+            int pi = local[i];
+            for (int j = i; j < L; j++) {
+                double v = hMat[i * L + j];
+                int pj = local[j];
+                hess[pi * n + pj] += v;
+                if (i != j) hess[pj * n + pi] += v;
+            }
+        }
+    }
+
+    /** Upper triangle of hMat += f · v vᵀ. */
+    private void rankOne(double[] v, double f, int L) {
+        if (f == 0) return;
+        for (int i = 0; i < L; i++) {
+            double vi = f * v[i];
+            if (vi == 0) continue;
+            final int row = i * L;
+            for (int j = i; j < L; j++) hMat[row + j] += vi * v[j];
+        }
+    }
+
+    private double constraintCurvature(int idx, double v) {
+        return switch (m.constraintType[idx]) {
+            case ConstraintType.GAUSSIAN -> 1 / (m.width[idx] * m.width[idx]);
+            case ConstraintType.POISSON -> data.aux()[idx] / (v * v);
+            default -> 0;
+        };
+    }
+}
