@@ -1,7 +1,68 @@
 package plumb.cli;
 
-public final class Main {
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+import java.io.PrintWriter;
+
+/** The {@code plumb} command: subcommands, and one place that turns failures into exit codes. */
+@Command(name = "plumb", mixinStandardHelpOptions = true, version = "plumb " + Main.VERSION,
+        description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
+        subcommands = {CheckCommand.class, FitCommand.class})
+public final class Main implements Runnable {
+
+    public static final String VERSION = "0.1.0";
+
+    @Option(names = "--debug", scope = CommandLine.ScopeType.INHERIT,
+            description = "Print stack traces of failures.")
+    boolean debug;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
+
+    @Override
+    public void run() {
+        spec.commandLine().usage(spec.commandLine().getOut());
+    }
+
     public static void main(String[] args) {
-        System.out.println("plumb");
+        System.setProperty("java.awt.headless", "true");
+        System.exit(execute(args, new PrintWriter(System.out, true), new PrintWriter(System.err, true)));
+    }
+
+    /** Runs one command line with the given writers; returns the exit status (used by tests). */
+    public static int execute(String[] args, PrintWriter out, PrintWriter err) {
+        CommandLine cl = commandLine();
+        cl.setOut(out);
+        cl.setErr(err);
+        return cl.execute(args);
+    }
+
+    /** The configured command line: exit codes and error handling of docs/cli-contract.md. */
+    public static CommandLine commandLine() {
+        CommandLine cl = new CommandLine(new Main());
+        cl.setCaseInsensitiveEnumValuesAllowed(true);
+        cl.setParameterExceptionHandler((ex, args) -> {
+            CommandLine c = ex.getCommandLine();
+            c.getErr().println("plumb " + c.getCommandName() + ": " + ex.getMessage());
+            c.getErr().flush();
+            return ExitCodes.BAD_INPUT;
+        });
+        cl.setExecutionExceptionHandler((ex, c, parseResult) -> {
+            boolean debug = parseResult.hasMatchedOption("--debug")
+                    || parseResult.subcommands().stream().anyMatch(p -> p.hasMatchedOption("--debug"));
+            int code = ex instanceof plumb.engine.model.ModelException || ex instanceof InputException
+                    ? ExitCodes.BAD_INPUT : ExitCodes.FAILED;
+            String what = ex.getMessage() == null ? ex.getClass().getSimpleName() : ex.getMessage();
+            if (code == ExitCodes.FAILED && !(ex instanceof ComputationException)) {
+                what = "internal error: " + what + " (run with --debug for details)";
+            }
+            c.getErr().println("plumb " + c.getCommandName() + ": " + what);
+            if (debug) ex.printStackTrace(c.getErr());
+            c.getErr().flush();
+            return code;
+        });
+        return cl;
     }
 }

@@ -515,34 +515,12 @@ public final class BinnedNll implements Objective {
         final int[] local = m.channelParams[c];
         final int L = local.length;
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
         Arrays.fill(hMat, 0, L * L, 0);
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
             double wb = w[b];
             if (qb == 0 && wb == 0) continue;
-            Arrays.fill(gLoc, 0, L, 0);
-            Arrays.fill(gcLoc, 0, L, 0);
-            double gammaB = binGammaValue[b];
-            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
-                boolean mc = m.sampleMcStat[s];
-                int e = m.sampleEntryStart[s] + (b - b0);
-                double bs = base[e];
-                double scale = mc ? gammaB : 1;
-                for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
-                    double d = bs * dC[k];
-                    gLoc[m.mulLocal[k]] += scale * d;
-                    if (mc) gcLoc[m.mulLocal[k]] += d;
-                }
-                if (clipped[e]) continue;
-                double cs = sampleC[s];
-                for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
-                    int so = m.shapeCoeffStart[k] + (b - b0);
-                    double d = cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
-                    gLoc[m.shapeLocal[k]] += scale * d;
-                    if (mc) gcLoc[m.shapeLocal[k]] += d;
-                }
-            }
+            binGradients(c, b);
             rankOne(gLoc, qb, L);
             int g = m.binGamma[b];
             if (g < 0) continue;
@@ -570,6 +548,82 @@ public final class BinnedNll implements Objective {
                 if (i != j) hess[pj * n + pi] += v;
             }
         }
+    }
+
+    /** Fills gLoc with ∇ν_b and gcLoc with ∇c_b (c_b: the part γ_b scales) in local indices. */
+    private void binGradients(int c, int b) {
+        final int L = m.channelParams[c].length;
+        final int b0 = m.channelBinStart[c];
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        Arrays.fill(gLoc, 0, L, 0);
+        Arrays.fill(gcLoc, 0, L, 0);
+        double gammaB = binGammaValue[b];
+        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+            boolean mc = m.sampleMcStat[s];
+            int e = m.sampleEntryStart[s] + (b - b0);
+            double bs = base[e];
+            double scale = mc ? gammaB : 1;
+            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
+                double d = bs * dC[k];
+                gLoc[m.mulLocal[k]] += scale * d;
+                if (mc) gcLoc[m.mulLocal[k]] += d;
+            }
+            if (clipped[e]) continue;
+            double cs = sampleC[s];
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                int so = m.shapeCoeffStart[k] + (b - b0);
+                double d = cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
+                gLoc[m.shapeLocal[k]] += scale * d;
+                if (mc) gcLoc[m.shapeLocal[k]] += d;
+            }
+        }
+    }
+
+    /**
+     * Variances of the profiled γ at the model parameters x, given the covariance of the model
+     * parameters (nParams², row-major) from the profiled Hessian: with d_b = ∂²f/∂γ_b² and h_b the
+     * mixed derivatives, the block inverse gives var γ_b = 1/d_b + h_bᵀ Σ h_b / d_b² (engine-notes
+     * §1). Held γ get 0. Writes nGamma values into {@code out}.
+     */
+    public void gammaVariances(double[] x, double[] covariance, double[] out) {
+        evaluate(x, null, null, false);
+        final int nP = m.nParams;
+        for (int g = 0; g < m.nGamma; g++) {
+            int b = m.gammaBin[g];
+            int c = channelOf(b);
+            int gi = nP + g;
+            if (!Double.isNaN(gammaHeld[g]) || (explicitGamma && m.fixed[gi])) {
+                out[g] = 0;
+                continue;
+            }
+            double cb = cPart[b];
+            double d = q[b] * cb * cb + constraintCurvature(gi, gammaValue[g]);
+            if (!(d > 0)) {
+                out[g] = Double.NaN;
+                continue;
+            }
+            int[] local = m.channelParams[c];
+            int L = local.length;
+            double quad = 0;
+            if (data.channelIncluded()[c]) {
+                binGradients(c, b);
+                for (int i = 0; i < L; i++) hLoc[i] = w[b] * gcLoc[i] + q[b] * cb * gLoc[i];
+                for (int i = 0; i < L; i++) {
+                    if (hLoc[i] == 0) continue;
+                    int row = local[i] * nP;
+                    double acc = 0;
+                    for (int j = 0; j < L; j++) acc += covariance[row + local[j]] * hLoc[j];
+                    quad += hLoc[i] * acc;
+                }
+            }
+            out[g] = 1 / d + quad / (d * d);
+        }
+    }
+
+    private int channelOf(int bin) {
+        int c = 0;
+        while (m.channelBinStart[c + 1] <= bin) c++;
+        return c;
     }
 
     /** Upper triangle of hMat += f · v vᵀ. */

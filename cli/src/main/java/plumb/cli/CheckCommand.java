@@ -1,0 +1,75 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.compile.ParameterKind;
+
+import java.io.PrintWriter;
+import java.util.concurrent.Callable;
+
+/** {@code plumb check MODEL}: validates a model and summarises it. */
+@Command(name = "check", mixinStandardHelpOptions = true,
+        description = "Validate a model file and summarise it: channels, bins, samples, parameters, warnings.")
+final class CheckCommand implements Callable<Integer> {
+
+    @Mixin ModelInput input;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the summary as JSON ('-' for standard output).")
+    String json;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        ModelInput.Loaded loaded = input.load();
+        CompiledModel m = loaded.compiled();
+        PrintWriter out = spec.commandLine().getOut();
+        int factors = 0, nuisances = 0;
+        for (int i = 0; i < m.nParams; i++) {
+            if (m.kind[i] == ParameterKind.FACTOR) factors++;
+            else nuisances++;
+        }
+        if (json != null) {
+            ObjectNode root = Json.result(m.labels, m.anyBlinded() ? "blinded" : "observed");
+            root.put("valid", true);
+            root.put("channels", m.nChannels);
+            root.put("bins", m.nBins);
+            root.put("samples", m.nSamples);
+            root.put("parameters", m.nAll);
+            root.put("freeFactors", factors);
+            root.put("nuisanceParameters", nuisances);
+            root.put("mcStatParameters", m.nGamma);
+            root.put("poi", m.poi < 0 ? null : m.parameterNames[m.poi]);
+            var pruned = root.putArray("pruned");
+            m.pruned.forEach(pruned::add);
+            var warnings = root.putArray("warnings");
+            m.warnings.forEach(warnings::add);
+            Outputs.write(json, Json.write(root), out);
+            if ("-".equals(json)) return ExitCodes.OK;
+        }
+        out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
+        out.printf("  %d channels, %d bins, %d samples%n", m.nChannels, m.nBins, m.nSamples);
+        out.printf("  %d parameters: %d free factors, %d nuisance parameters, %d MC-statistics parameters%n",
+                m.nAll, factors, nuisances, m.nGamma);
+        out.printf("  parameter of interest: %s%n", m.poi < 0 ? "(none)" : m.parameterNames[m.poi]);
+        for (int c = 0; c < m.nChannels; c++) {
+            out.printf("  channel %-20s %4d bins%s%n", m.channelNames[c], m.bins(c),
+                    m.observed[c] == null ? "  (blinded)" : "");
+        }
+        if (!m.pruned.isEmpty()) {
+            out.printf("  pruned %d variation parts (options.pruneBelow):%n", m.pruned.size());
+            m.pruned.forEach(p -> out.println("    " + p));
+        }
+        if (!m.warnings.isEmpty()) {
+            out.printf("  %d warnings:%n", m.warnings.size());
+            m.warnings.forEach(w -> out.println("    warning: " + w));
+        }
+        out.flush();
+        return ExitCodes.OK;
+    }
+}

@@ -1,0 +1,127 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.compile.ParameterKind;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.Fitter;
+
+import java.io.PrintWriter;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+
+/** {@code plumb fit MODEL}: maximum-likelihood fit with pulls and constraints. */
+@Command(name = "fit", mixinStandardHelpOptions = true,
+        description = "Maximum-likelihood fit: every parameter's value, error, pull and constraint.")
+final class FitCommand implements Callable<Integer> {
+
+    @Mixin ModelInput input;
+    @Mixin FitOptions fit;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Option(names = "--show-mcstat", description = "List the MC-statistics parameters in the table too.")
+    boolean showMcStat;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        CompiledModel m = input.load().compiled();
+        FitOptions.Prepared p = fit.prepare(m, 1.0);
+        FitResult r = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, r)), out);
+        if (!"-".equals(json)) printTable(out, m, p, r);
+        if (!r.converged()) {
+            spec.commandLine().getErr().printf("plumb fit: the fit did not converge (%s)%n", r.status());
+            return ExitCodes.FAILED;
+        }
+        return ExitCodes.OK;
+    }
+
+    /** The fit result file of docs/cli-contract.md. */
+    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, FitResult r) {
+        ObjectNode root = Json.result(m.labels, p.kind());
+        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
+        root.put("converged", r.converged());
+        root.put("status", r.status().name());
+        Json.put(root, "nll", r.nll());
+        ArrayNode params = root.putArray("parameters");
+        for (int i = 0; i < m.nAll; i++) {
+            ObjectNode o = params.addObject();
+            o.put("name", m.parameterNames[i]);
+            o.put("kind", m.kind[i].name().toLowerCase(Locale.ROOT));
+            Json.put(o, "value", r.values()[i]);
+            Json.put(o, "error", r.errors()[i]);
+            Json.put(o, "prefitValue", m.nominal[i]);
+            Json.put(o, "prefitWidth", m.prefitWidth[i]);
+            Json.put(o, "pull", pull(m, r, i));
+            Json.put(o, "constraint", constraint(m, r, i));
+            o.put("fixed", r.held()[i]);
+        }
+        ObjectNode corr = root.putObject("correlation");
+        List<Integer> free = new ArrayList<>();
+        for (int i = 0; i < m.nParams; i++) if (!r.held()[i]) free.add(i);
+        ArrayNode names = corr.putArray("names");
+        free.forEach(i -> names.add(m.parameterNames[i]));
+        ArrayNode matrix = corr.putArray("matrix");
+        for (int i : free) {
+            ArrayNode row = matrix.addArray();
+            for (int j : free) Json.add(row, r.correlation(i, j, m.nParams));
+        }
+        ObjectNode timing = root.putObject("timing");
+        timing.put("seconds", r.seconds());
+        timing.put("evaluations", r.evaluations());
+        return root;
+    }
+
+    /** (value − prefitValue)/prefitWidth, NaN for free parameters. */
+    static double pull(CompiledModel m, FitResult r, int i) {
+        return (r.values()[i] - m.nominal[i]) / m.prefitWidth[i];
+    }
+
+    /** error/prefitWidth, NaN for free parameters. */
+    static double constraint(CompiledModel m, FitResult r, int i) {
+        return r.errors()[i] / m.prefitWidth[i];
+    }
+
+    private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult r) {
+        out.printf(Locale.ROOT, "Maximum-likelihood fit of '%s' to the %s data%s%n", m.name, p.kind(),
+                p.asimovPoi() == null ? "" : String.format(Locale.ROOT, " (Asimov at %s = %s)",
+                        m.poi >= 0 ? m.parameterNames[m.poi] : "poi", Numbers.plain(p.asimovPoi())));
+        out.printf(Locale.ROOT, "  status %s, -ln L = %.6f, %d evaluations, %.1f ms%n", r.status(), r.nll(),
+                r.evaluations(), r.seconds() * 1e3);
+        out.printf("%n  %-28s %12s %10s %8s %10s%n", "parameter", "value", "error", "pull", "constraint");
+        int hiddenGamma = 0, flaggedGamma = 0;
+        for (int i = 0; i < m.nAll; i++) {
+            double pull = pull(m, r, i), cons = constraint(m, r, i);
+            boolean flag = Math.abs(pull) > 1 || cons < 0.5;
+            if (m.kind[i] == ParameterKind.MCSTAT && !showMcStat) {
+                hiddenGamma++;
+                if (flag) flaggedGamma++;
+                continue;
+            }
+            out.printf(Locale.ROOT, "  %-28s %12s %10s %8s %10s%s%s%n", m.parameterNames[i],
+                    Numbers.plain(r.values()[i]), r.held()[i] ? "fixed" : Numbers.plain(r.errors()[i]),
+                    Numbers.fixed(pull, 2), Numbers.fixed(cons, 2), i == m.poi ? "  POI" : "",
+                    flag ? "  <- " + (Math.abs(pull) > 1 ? "pulled" : "") + (Math.abs(pull) > 1 && cons < 0.5 ? ", " : "")
+                            + (cons < 0.5 ? "constrained" : "") : "");
+        }
+        if (hiddenGamma > 0) {
+            out.printf("  (%d MC-statistics parameters not listed, %d of them flagged; --show-mcstat lists them)%n",
+                    hiddenGamma, flaggedGamma);
+        }
+        out.println("  flags: |pull| > 1 (pulled), error/prefit width < 0.5 (constrained)");
+        out.flush();
+    }
+}

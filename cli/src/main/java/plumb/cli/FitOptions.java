@@ -1,0 +1,129 @@
+package plumb.cli;
+
+import picocli.CommandLine.Option;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.DataSets;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.FitSettings;
+import plumb.engine.likelihood.DataSet;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/** Options shared by the fitting commands (docs/cli-contract.md). */
+public final class FitOptions {
+
+    /** Which data a command fits. */
+    public enum DataChoice { observed, asimov }
+
+    /** Where the nuisance values of an Asimov data set come from. */
+    public enum AsimovFrom { postfit, prefit }
+
+    @Option(names = "--data", defaultValue = "observed", paramLabel = "observed|asimov",
+            description = "Fit the observed data or the Asimov data set (default: ${DEFAULT-VALUE}).")
+    public DataChoice data;
+
+    @Option(names = "--asimov-poi", paramLabel = "X",
+            description = "POI value of the Asimov data set (default: 1 for fits, 0 for limits).")
+    public Double asimovPoi;
+
+    @Option(names = "--asimov-from", paramLabel = "postfit|prefit",
+            description = "Nuisance values of the Asimov data set (default: postfit when observed data exist).")
+    public AsimovFrom asimovFrom;
+
+    @Option(names = "--fix", paramLabel = "NAME=X", description = "Hold a parameter at X (repeatable).")
+    public List<String> fix = new ArrayList<>();
+
+    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (default: all cores).")
+    public Integer threads;
+
+    @Option(names = "--seed", paramLabel = "N", defaultValue = "1",
+            description = "Seed of every random number used (default: ${DEFAULT-VALUE}).")
+    public long seed;
+
+    @Option(names = "--optimizer", paramLabel = "newton|reference", defaultValue = "newton",
+            description = "Minimiser: newton (default) or reference (derivative-free BOBYQA, a cross-check).")
+    public String optimizer;
+
+    @Option(names = "--explicit-mcstat",
+            description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
+    public boolean explicitMcStat;
+
+    /** Worker threads to use: --threads, or all cores. */
+    public int threadCount() {
+        if (threads == null) return Runtime.getRuntime().availableProcessors();
+        if (threads < 1) throw new InputException("--threads must be at least 1, got " + threads);
+        return threads;
+    }
+
+    public FitSettings settings() {
+        FitSettings.Optimizer o = switch (optimizer.toLowerCase(Locale.ROOT)) {
+            case "newton" -> FitSettings.Optimizer.NEWTON;
+            case "reference" -> FitSettings.Optimizer.REFERENCE;
+            default -> throw new InputException("--optimizer: unknown minimiser '" + optimizer + "', expected newton or reference");
+        };
+        return FitSettings.defaults().withOptimizer(o).withExplicitGamma(explicitMcStat);
+    }
+
+    /** The --fix options resolved against the model: parameter index to value, in the order given. */
+    public Map<Integer, Double> fixes(CompiledModel m) {
+        Map<Integer, Double> out = new LinkedHashMap<>();
+        for (String f : fix) {
+            int eq = f.lastIndexOf('=');
+            if (eq <= 0) throw new InputException("--fix " + f + ": expected NAME=X");
+            String name = f.substring(0, eq);
+            int i = m.indexOf(name);
+            if (i < 0) throw new InputException("--fix " + f + ": the model has no parameter '" + name + "'");
+            double v;
+            try {
+                v = Double.parseDouble(f.substring(eq + 1));
+            } catch (NumberFormatException e) {
+                throw new InputException("--fix " + f + ": '" + f.substring(eq + 1) + "' is not a number");
+            }
+            if (!(v >= m.lower[i] && v <= m.upper[i])) {
+                throw new InputException(String.format(Locale.ROOT, "--fix %s: %s is outside the range [%s, %s] of %s",
+                        f, v, m.lower[i], m.upper[i], name));
+            }
+            out.put(i, v);
+        }
+        return out;
+    }
+
+    /** The data set a command fits, with everything the result must report about it. */
+    public record Prepared(DataSet data, int[] held, double[] heldValues, FitSettings settings,
+                           FitResult asimovConditionalFit, Double asimovPoi) {
+        public String kind() {
+            return data.kind();
+        }
+    }
+
+    /**
+     * Resolves the options on a model: the data set (observed, or Asimov at --asimov-poi, default
+     * {@code defaultAsimovPoi}), the held parameters and the fit settings.
+     */
+    public Prepared prepare(CompiledModel m, double defaultAsimovPoi) {
+        Map<Integer, Double> f = fixes(m);
+        int[] held = f.keySet().stream().mapToInt(Integer::intValue).toArray();
+        double[] values = f.values().stream().mapToDouble(Double::doubleValue).toArray();
+        FitSettings settings = settings();
+        if (data == DataChoice.observed) {
+            DataSet observed = DataSet.observed(m);
+            if (!observed.anyChannel()) {
+                throw new InputException("--data observed: every channel of the model is blinded; use --data asimov");
+            }
+            return new Prepared(observed, held, values, settings, null, null);
+        }
+        if (m.poi < 0) throw new InputException("--data asimov: the model names no parameter of interest (poi)");
+        double mu = asimovPoi == null ? defaultAsimovPoi : asimovPoi;
+        if (!(mu >= m.lower[m.poi] && mu <= m.upper[m.poi])) {
+            throw new InputException(String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range [%s, %s]",
+                    mu, m.lower[m.poi], m.upper[m.poi]));
+        }
+        boolean postfit = asimovFrom != AsimovFrom.prefit;
+        DataSets.Generated g = DataSets.asimovAt(m, mu, held, values, postfit, settings);
+        return new Prepared(g.data(), held, values, settings, g.conditionalFit(), mu);
+    }
+}

@@ -1,0 +1,8 @@
+package plumb.cli;
+
+/** Bad input found after option parsing (an unknown parameter in --fix, say): exit status 2. */
+public final class InputException extends RuntimeException {
+    public InputException(String message) {
+        super(message);
+    }
+}
