@@ -105,8 +105,17 @@ abstract class BoxMinimiser implements Minimiser {
         return MinimumStatus.CONVERGED;
     }
 
+    /** Whether {@link #h} holds the Hessian at the current x (a quasi-Newton x may be ahead). */
+    boolean hessianAtX() {
+        return true;
+    }
+
     MinimumResult result(MinimumStatus status) {
-        return new MinimumResult(status, x.clone(), f, g.clone(), h.clone(), box.held.clone(),
+        final double[] hessian = h.clone();
+        if (!hessianAtX()) {
+            java.util.Arrays.fill(hessian, Double.NaN);
+        }
+        return new MinimumResult(status, x.clone(), f, g.clone(), hessian, box.held.clone(),
                 decrement, iterations, evaluations);
     }
 
