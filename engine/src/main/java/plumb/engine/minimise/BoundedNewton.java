@@ -1,0 +1,224 @@
+package plumb.engine.minimise;
+
+/**
+ * Projected Newton minimiser with an active set for bound constraints, using the objective's exact
+ * Hessian (engine-notes.md section 3).
+ *
+ * <p>Each iteration: variables held fixed, or sitting on a bound with the gradient pointing out of
+ * the box, stay put; the Newton system over the others is solved by Cholesky. The iteration stops
+ * when the Newton decrement gᵀH⁻¹g of that free set is below {@link MinimiserOptions#tolerance()}.
+ * Otherwise the step is taken on the face it can follow (free variables on a bound whose step
+ * points outward are dropped and the system re-solved). Where the Hessian is not positive definite,
+ * Levenberg damping λ·diag(H) is added and λ raised tenfold until Cholesky succeeds. A backtracking
+ * line search along the projected path x(α) = clip(x + α·d) accepts the first α meeting Armijo's
+ * condition; if none does, λ is raised a hundredfold and the search repeated. λ falls tenfold after
+ * each full step. The first trial of a search asks for f, gradient and Hessian together when the
+ * previous full step was accepted (then that call serves the next iteration), f alone otherwise.
+ *
+ * <p>A failed attempt is followed by one restart from a deterministic perturbation of its best
+ * point. Work arrays are sized at construction; one instance serves many fits by one thread.
+ */
+public final class BoundedNewton extends BoxMinimiser {
+
+    /** Armijo's sufficient-decrease fraction (common practice: 1e-4, Nocedal and Wright). */
+    private static final double ARMIJO = 1e-4;
+    private static final int MAX_BACKTRACKS = 12;
+    private static final double LAMBDA_START = 1e-3;
+    private static final double LAMBDA_MAX = 1e12;
+
+    private final double[] step;
+    private double alphaAccepted;
+
+    /** A minimiser for objectives of the given dimension with {@link MinimiserOptions#defaults()}. */
+    public BoundedNewton(int dimension) {
+        this(dimension, MinimiserOptions.defaults());
+    }
+
+    /**
+     * @param dimension number of variables n ≥ 0; work arrays of size n² are allocated here
+     * @param options settings
+     */
+    public BoundedNewton(int dimension, MinimiserOptions options) {
+        super(dimension, options);
+        this.step = new double[dimension];
+    }
+
+    @Override
+    MinimumStatus attempt() {
+        final int iterationLimit = iterations + options.maxIterations();
+        if (outOfBudget()) {
+            return MinimumStatus.MAX_EVALUATIONS;
+        }
+        f = evaluateAll(x, g, h);
+        if (!finitePoint(f, g, h)) {
+            decrement = Double.NaN;
+            return MinimumStatus.NON_FINITE;
+        }
+        double lambda = 0;
+        boolean hessianFirst = true;
+        while (true) {
+            final int k = system.selectFree(box, x, g);
+            final boolean newtonDefinite = k == 0 || system.factor(h, 0);
+            decrement = k == 0 ? 0 : newtonDefinite ? system.solve(g) : Double.NaN;
+            if (newtonDefinite && decrement < options.tolerance()) {
+                return finish();
+            }
+            if (iterations >= iterationLimit) {
+                return MinimumStatus.MAX_ITERATIONS;
+            }
+            final double previous = f;
+            double lam = newtonDefinite ? 0 : Math.max(lambda, LAMBDA_START);
+            boolean reuseFactor = newtonDefinite;
+            boolean accepted = false;
+            while (lam <= LAMBDA_MAX) {
+                if (!reuseFactor) {
+                    system.selectFree(box, x, g);
+                }
+                lam = direction(lam, reuseFactor);
+                reuseFactor = false;
+                if (lam < 0) {
+                    break;
+                }
+                final int outcome = lineSearch(hessianFirst);
+                if (outcome == BUDGET) {
+                    return MinimumStatus.MAX_EVALUATIONS;
+                }
+                if (outcome == ACCEPTED) {
+                    accepted = true;
+                    break;
+                }
+                if (newtonDefinite && decrement <= options.fallbackTolerance()) {
+                    // f cannot be lowered at machine precision and the point is within the
+                    // fallback tolerance of the minimum of its quadratic model.
+                    return finish();
+                }
+                lam = lam == 0 ? LAMBDA_START : lam * 100;
+            }
+            if (!accepted) {
+                return MinimumStatus.LINE_SEARCH_FAILED;
+            }
+            iterations++;
+            final boolean fullStep = alphaAccepted == 1;
+            hessianFirst = fullStep;
+            lambda = fullStep ? (lam < 1e-8 ? 0 : lam * 0.1) : lam;
+            if (previous - f <= 4 * Math.ulp(Math.max(1.0, Math.abs(f)))
+                    && newtonDefinite && decrement <= options.fallbackTolerance()) {
+                return finish();
+            }
+        }
+    }
+
+    /**
+     * Fills {@link #step} with the (damped) Newton step over the selected free set, raising λ until
+     * the damped Hessian factors. Returns the λ used, or −1 if none up to {@link #LAMBDA_MAX} works.
+     */
+    private double direction(double lambda, boolean factored) {
+        double lam = lambda;
+        while (true) {
+            if (!factored) {
+                while (!system.factor(h, lam)) {
+                    lam = lam == 0 ? LAMBDA_START : lam * 10;
+                    if (lam > LAMBDA_MAX) {
+                        return -1;
+                    }
+                }
+                system.solve(g);
+            }
+            factored = false;
+            if (!system.dropOutward(box, x)) {
+                break;
+            }
+            if (system.size == 0) {
+                scaledSteepestDescent();
+                return lam;
+            }
+        }
+        java.util.Arrays.fill(step, 0);
+        for (int a = 0; a < system.size; a++) {
+            step[system.index[a]] = -system.solution[a];
+        }
+        return lam;
+    }
+
+    /**
+     * Fallback when every Newton component would leave the box through the face the variable sits
+     * on: −g_i / |H_ii| on the free set, which moves each variable into the box.
+     */
+    private void scaledSteepestDescent() {
+        java.util.Arrays.fill(step, 0);
+        final int k = system.selectFree(box, x, g);
+        for (int a = 0; a < k; a++) {
+            final int i = system.index[a];
+            final double d = Math.abs(h[i * n + i]);
+            step[i] = -g[i] / (d > 0 ? d : 1);
+        }
+    }
+
+    private static final int ACCEPTED = 1;
+    private static final int FAILED = 0;
+    private static final int BUDGET = -1;
+
+    /**
+     * Backtracks along x(α) = clip(x + α·step) from α = 1 until f(x(α)) ≤ f + c·gᵀ(x(α) − x) and
+     * f(x(α)) < f. Steps are shortened by safeguarded quadratic interpolation (factor in
+     * [0.1, 0.5]), or by 4 after a non-finite value.
+     */
+    private int lineSearch(boolean hessianFirst) {
+        double slope0 = 0;
+        for (int i = 0; i < n; i++) {
+            slope0 += g[i] * step[i];
+        }
+        double alpha = 1;
+        for (int trial = 0; trial < MAX_BACKTRACKS; trial++) {
+            double slope = 0;
+            double moved = 0;
+            for (int i = 0; i < n; i++) {
+                final double si = step[i];
+                if (si == 0) {
+                    xt[i] = x[i];
+                } else {
+                    final double v = box.clip(i, x[i] + alpha * si);
+                    xt[i] = v;
+                    final double dx = v - x[i];
+                    slope += g[i] * dx;
+                    moved = Math.max(moved, Math.abs(dx));
+                }
+            }
+            if (moved == 0) {
+                return FAILED;
+            }
+            if (outOfBudget()) {
+                return BUDGET;
+            }
+            final boolean full = hessianFirst && trial == 0;
+            double ft = full ? evaluateAll(xt, gt, ht) : evaluateValue(xt);
+            boolean ok = ft < f && ft <= f + ARMIJO * slope && (!full || finitePoint(ft, gt, ht));
+            if (ok && !full) {
+                if (outOfBudget()) {
+                    return BUDGET;
+                }
+                ft = evaluateAll(xt, gt, ht);
+                ok = ft < f && finitePoint(ft, gt, ht);
+            }
+            if (ok) {
+                acceptTrial(ft, true);
+                alphaAccepted = alpha;
+                return ACCEPTED;
+            }
+            alpha = nextAlpha(alpha, ft, slope0);
+        }
+        return FAILED;
+    }
+
+    private double nextAlpha(double alpha, double ft, double slope0) {
+        if (!Double.isFinite(ft)) {
+            return alpha * 0.25;
+        }
+        final double curvature = ft - f - slope0 * alpha;
+        if (slope0 < 0 && curvature > 0) {
+            final double minimum = -slope0 * alpha * alpha / (2 * curvature);
+            return Math.min(0.5 * alpha, Math.max(0.1 * alpha, minimum));
+        }
+        return 0.5 * alpha;
+    }
+}

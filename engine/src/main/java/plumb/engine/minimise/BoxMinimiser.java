@@ -1,0 +1,164 @@
+package plumb.engine.minimise;
+
+/**
+ * What the bounded minimisers share: work arrays for the current and trial points, evaluation
+ * counting, the restart after a failed attempt, and the final check of the Hessian. Subclasses
+ * implement one attempt from {@link #x}.
+ */
+abstract class BoxMinimiser implements Minimiser {
+
+    final int n;
+    final MinimiserOptions options;
+    final ReducedSystem system;
+    /** Current point and its derivatives; swapped with the trial arrays on acceptance. */
+    double[] x;
+    double[] g;
+    double[] h;
+    double[] xt;
+    double[] gt;
+    double[] ht;
+    double f;
+    double decrement;
+    Objective objective;
+    Box box;
+    int evaluations;
+    int iterations;
+
+    BoxMinimiser(int dimension, MinimiserOptions options) {
+        if (dimension < 0) {
+            throw new IllegalArgumentException("dimension " + dimension + " is negative");
+        }
+        this.n = dimension;
+        this.options = java.util.Objects.requireNonNull(options, "options");
+        this.system = new ReducedSystem(n);
+        this.x = new double[n];
+        this.g = new double[n];
+        this.h = new double[n * n];
+        this.xt = new double[n];
+        this.gt = new double[n];
+        this.ht = new double[n * n];
+    }
+
+    /** The settings this minimiser was built with. */
+    public final MinimiserOptions options() {
+        return options;
+    }
+
+    /** Number of variables this minimiser was built for. */
+    public final int dimension() {
+        return n;
+    }
+
+    /** One attempt from {@link #x}; leaves the best point found in x, g, h, f. */
+    abstract MinimumStatus attempt();
+
+    @Override
+    public final MinimumResult minimise(Objective objective, double[] start, double[] lower,
+            double[] upper, boolean[] fixed) {
+        this.box = Box.of(n, objective, start, lower, upper, fixed);
+        this.objective = objective;
+        evaluations = 0;
+        iterations = 0;
+        box.startPoint(start, x);
+        f = Double.NaN;
+        decrement = Double.NaN;
+        java.util.Arrays.fill(g, Double.NaN);
+        java.util.Arrays.fill(h, Double.NaN);
+        try {
+            MinimumStatus status = attempt();
+            if (status == MinimumStatus.CONVERGED || status == MinimumStatus.MAX_EVALUATIONS
+                    || !options.restart()) {
+                return result(status);
+            }
+            final MinimumResult first = result(status);
+            // Restart once from a deterministic nearby point: the best point so far (or the start)
+            // moved a little, which gets out of a stalled line search or a saddle.
+            box.perturb(first.x(), x);
+            f = Double.NaN;
+            status = attempt();
+            final MinimumResult second = result(status);
+            if (second.converged() || !(first.value() <= second.value())) {
+                return second;
+            }
+            return new MinimumResult(first.status(), first.x(), first.value(), first.gradient(),
+                    first.hessian(), first.fixed(), first.decrement(), iterations, evaluations);
+        } finally {
+            this.objective = null;
+        }
+    }
+
+    boolean outOfBudget() {
+        return evaluations >= options.maxEvaluations();
+    }
+
+    /**
+     * Status of a point that passed the stopping test: recomputes the decrement reported and
+     * checks that the Hessian over all non-held variables (those at bounds included) is positive
+     * definite, as the covariance needs. Requires h to hold the Hessian at x.
+     */
+    MinimumStatus finish() {
+        final int k = system.selectFree(box, x, g);
+        decrement = k == 0 ? 0 : system.factor(h, 0) ? system.solve(g) : Double.NaN;
+        if (system.selectNotHeld(box) > 0 && !system.factor(h, 0)) {
+            return MinimumStatus.NOT_POSITIVE_DEFINITE_AT_MINIMUM;
+        }
+        return MinimumStatus.CONVERGED;
+    }
+
+    /** Whether {@link #h} holds the Hessian at the current x (a quasi-Newton x may be ahead). */
+    boolean hessianAtX() {
+        return true;
+    }
+
+    MinimumResult result(MinimumStatus status) {
+        final double[] hessian = h.clone();
+        if (!hessianAtX()) {
+            java.util.Arrays.fill(hessian, Double.NaN);
+        }
+        return new MinimumResult(status, x.clone(), f, g.clone(), hessian, box.held.clone(),
+                decrement, iterations, evaluations);
+    }
+
+    double evaluateAll(double[] at, double[] gradient, double[] hessian) {
+        evaluations++;
+        return objective.valueGradientHessian(at, gradient, hessian);
+    }
+
+    double evaluateGradient(double[] at, double[] gradient) {
+        evaluations++;
+        return objective.valueAndGradient(at, gradient);
+    }
+
+    double evaluateValue(double[] at) {
+        evaluations++;
+        return objective.value(at);
+    }
+
+    void acceptTrial(double value, boolean withHessian) {
+        double[] t = x;
+        x = xt;
+        xt = t;
+        t = g;
+        g = gt;
+        gt = t;
+        if (withHessian) {
+            t = h;
+            h = ht;
+            ht = t;
+        }
+        f = value;
+    }
+
+    static boolean allFinite(double[] a, int length) {
+        for (int i = 0; i < length; i++) {
+            if (!Double.isFinite(a[i])) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    boolean finitePoint(double value, double[] gradient, double[] hessian) {
+        return Double.isFinite(value) && allFinite(gradient, n) && (hessian == null || allFinite(hessian, n * n));
+    }
+}

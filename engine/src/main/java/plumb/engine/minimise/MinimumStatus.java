@@ -1,0 +1,25 @@
+package plumb.engine.minimise;
+
+/** How a minimisation ended. Only {@link #CONVERGED} means the result is a trustworthy minimum. */
+public enum MinimumStatus {
+    /**
+     * The stopping test passed (Newton decrement of the free variables below the tolerance, or f
+     * stopped changing at machine precision with a decrement below the fallback tolerance), no
+     * bound is violated and the Hessian over the non-fixed variables is positive definite.
+     */
+    CONVERGED,
+    /** The iteration limit was reached (after the restart). */
+    MAX_ITERATIONS,
+    /** The evaluation limit was reached. */
+    MAX_EVALUATIONS,
+    /** No step decreased f even with heavy damping, and the point is not a minimum. */
+    LINE_SEARCH_FAILED,
+    /**
+     * The stopping test passed but the Hessian over the non-fixed variables is not positive
+     * definite there (a saddle, a flat direction, or a bound minimum with negative curvature):
+     * no covariance.
+     */
+    NOT_POSITIVE_DEFINITE_AT_MINIMUM,
+    /** f, its gradient or Hessian was NaN or infinite at the starting point of every attempt. */
+    NON_FINITE
+}
