@@ -57,6 +57,8 @@ public final class ModelReader {
 
     /** Jackson's wording for a repeated key (JsonReadContext); a test guards it. */
     private static final String DUPLICATE_PREFIX = "Duplicate field '";
+    /** Starts of Jackson's hints about its lenient features, cut from messages (no use to a modeller). */
+    private static final String[] ADVICE = {": enable `", " (not recognized as one since Feature"};
 
     private ModelReader() {
     }
@@ -112,7 +114,7 @@ public final class ModelReader {
         } catch (StreamConstraintsException e) {
             JsonLocation at = p.currentLocation();
             throw new ModelException(source, "", "line %d, column %d: input limit exceeded: %s",
-                    at.getLineNr(), at.getColumnNr(), oneLine(e.getOriginalMessage()));
+                    at.getLineNr(), at.getColumnNr(), plain(e.getOriginalMessage()));
         } catch (JsonParseException e) {
             throw notJson(p, e, source);
         }
@@ -125,8 +127,9 @@ public final class ModelReader {
         JsonStreamContext ctx = p.getParsingContext();
         if (what != null && what.startsWith(DUPLICATE_PREFIX) && ctx != null && ctx.inObject()) {
             // the context already holds the repeated name, so its path names the duplicate key
-            return new ModelException(source, contextPath(ctx), "duplicate key");
+            return new ModelException(source, contextPath(ctx), "duplicate key, a key may appear once per object");
         }
+        // where Jackson stopped reading: just past an offending literal such as NaN
         JsonLocation at = e.getLocation() != null ? e.getLocation() : p.currentLocation();
         return new ModelException(source, "", "line %d, column %d: not JSON: %s",
                 at.getLineNr(), at.getColumnNr(), plain(what));
@@ -147,8 +150,11 @@ public final class ModelReader {
     private static String plain(String message) {
         if (message == null) return "unreadable";
         String line = oneLine(message);
-        int advice = line.indexOf(": enable `");
-        return advice > 0 ? line.substring(0, advice) : line;
+        for (String advice : ADVICE) {
+            int at = line.indexOf(advice);
+            if (at > 0) line = line.substring(0, at);
+        }
+        return line.replaceAll(", from `[^`]*`", "");
     }
 
     private static String oneLine(String s) {
