@@ -45,7 +45,7 @@ public final class ModelReader {
      * and the stream limits. Non-numeric literals, comments, single quotes and trailing commas stay
      * at Jackson's strict defaults.
      */
-    private static final JsonFactory JSON = JsonFactory.builder()
+    static final JsonFactory JSON = JsonFactory.builder()
             .enable(StreamReadFeature.STRICT_DUPLICATE_DETECTION)
             .streamReadConstraints(StreamReadConstraints.builder()
                     .maxNestingDepth(MAX_DEPTH)
