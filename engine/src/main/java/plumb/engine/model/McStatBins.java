@@ -45,6 +45,31 @@ public final class McStatBins {
         return any && sumYields > 0 ? Math.sqrt(sumSquares) / sumYields : Double.NaN;
     }
 
+    /**
+     * δ_b of every bin of {@code channel}, equal to {@link #relativeError} bin by bin (same
+     * summation order), computed sample by sample so that each array is walked once in order.
+     */
+    public static double[] relativeErrors(Channel channel) {
+        int bins = channel.bins();
+        double[] sumSquares = new double[bins];
+        double[] sumYields = new double[bins];
+        boolean any = false;
+        for (Sample s : channel.samples()) {
+            double[] e = s.mcError();
+            if (e == null) continue;
+            any = true;
+            double[] n = s.yields();
+            for (int b = 0; b < bins; b++) {
+                sumSquares[b] += e[b] * e[b];
+                sumYields[b] += n[b];
+            }
+        }
+        for (int b = 0; b < bins; b++) {
+            sumSquares[b] = any && sumYields[b] > 0 ? Math.sqrt(sumSquares[b]) / sumYields[b] : Double.NaN;
+        }
+        return sumSquares;
+    }
+
     /** Whether {@code bin} of {@code channel} gets a γ: δ_b &gt; mcStatThreshold (NaN never does). */
     public static boolean exists(Channel channel, int bin, ModelOptions options) {
         return relativeError(channel, bin) > options.mcStatThreshold();
@@ -54,8 +79,10 @@ public final class McStatBins {
     public static List<String> names(Model model) {
         List<String> names = new ArrayList<>();
         for (Channel ch : model.channels()) {
-            int bins = ch.bins();
-            for (int b = 0; b < bins; b++) if (exists(ch, b, model.options())) names.add(name(ch.name(), b));
+            double[] delta = relativeErrors(ch);
+            for (int b = 0; b < delta.length; b++) {
+                if (delta[b] > model.options().mcStatThreshold()) names.add(name(ch.name(), b));
+            }
         }
         return names;
     }

@@ -368,12 +368,22 @@ final class ModelParser {
 
     /** A finite number; a literal beyond the range of a double (1e400) is refused here. */
     private double readNumber(String path) throws IOException {
+        return readNumber(path, -1);
+    }
+
+    /**
+     * {@link #readNumber(String)} for element {@code index} of the array at {@code path} (or the
+     * value at {@code path} itself when index &lt; 0); the element's path is built only for an error.
+     */
+    private double readNumber(String path, int index) throws IOException {
         JsonToken t = p.currentToken();
-        if (t != JsonToken.VALUE_NUMBER_INT && t != JsonToken.VALUE_NUMBER_FLOAT) throw wrongType(path, "a number");
+        if (t != JsonToken.VALUE_NUMBER_INT && t != JsonToken.VALUE_NUMBER_FLOAT) {
+            throw wrongType(index < 0 ? path : index(path, index), "a number");
+        }
         double v = p.getDoubleValue();
         if (!Double.isFinite(v)) {
-            throw new ModelException(source, path, "%s, expected a finite number (beyond the range of a double)",
-                    p.getText());
+            throw new ModelException(source, index < 0 ? path : index(path, index),
+                    "%s, expected a finite number (beyond the range of a double)", p.getText());
         }
         return v;
     }
@@ -384,7 +394,7 @@ final class ModelParser {
         int n = 0;
         while (p.nextToken() != JsonToken.END_ARRAY) {
             if (n == values.length) values = Arrays.copyOf(values, 2 * n);
-            values[n] = readNumber(index(path, n));
+            values[n] = readNumber(path, n);
             n++;
         }
         return Arrays.copyOf(values, n);

@@ -95,10 +95,10 @@ public final class ModelValidator {
         if (ch.edges() != null) {
             double[] e = ch.edges();
             for (int i = 0; i < e.length; i++) {
-                String at = index(binsFrom, i);
-                if (!Double.isFinite(e[i])) throw error(at, "%s, must be finite", e[i]);
+                if (!Double.isFinite(e[i])) throw error(index(binsFrom, i), "%s, must be finite", e[i]);
                 if (i > 0 && !(e[i] > e[i - 1])) {
-                    throw error(at, "%s, must be > %s (edges[%d]): edges strictly increase", e[i], e[i - 1], i - 1);
+                    throw error(index(binsFrom, i), "%s, must be > %s (edges[%d]): edges strictly increase",
+                            e[i], e[i - 1], i - 1);
                 }
             }
         }
@@ -257,7 +257,10 @@ public final class ModelValidator {
 
     private void nonNegative(double[] values, String path, Counts counts) {
         counts.check(values, path);
-        for (int b = 0; b < values.length; b++) nonNegative(values[b], index(path, b));
+        for (int b = 0; b < values.length; b++) {
+            double v = values[b];
+            if (!(v >= 0 && v < Double.POSITIVE_INFINITY)) nonNegative(v, index(path, b));  // path only for an error
+        }
     }
 
     private ModelException notAParameter(String path, String name) {

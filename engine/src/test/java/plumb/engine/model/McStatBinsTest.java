@@ -1,5 +1,6 @@
 package plumb.engine.model;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -25,6 +26,15 @@ class McStatBinsTest {
         assertEquals(Math.sqrt(2.0) / 100, McStatBins.relativeError(sr, 1), 1e-16);
         assertEquals(Math.sqrt(0.16 + 0.01) / 64, McStatBins.relativeError(sr, 2), 1e-16);
         assertEquals(0.019634, McStatBins.relativeError(sr, 0), 1e-6);   // the figure quoted in TestModels
+    }
+
+    @Test
+    void allBinsAtOnceEqualBinByBin() {
+        for (Channel ch : base.channels()) {
+            double[] all = McStatBins.relativeErrors(ch);
+            assertEquals(ch.bins(), all.length);
+            for (int b = 0; b < all.length; b++) assertEquals(McStatBins.relativeError(ch, b), all[b], 0.0);
+        }
     }
 
     @Test
@@ -55,6 +65,7 @@ class McStatBinsTest {
         assertEquals(0.0, McStatBins.relativeError(a, 1));           // δ = 0 is not above the threshold 0
         assertEquals(0.1, McStatBins.relativeError(a, 2), 1e-16);    // sample t gives no mcError: not summed
         assertTrue(Double.isNaN(McStatBins.relativeError(m.channels().get(1), 0)));
+        assertArrayEquals(new double[] {Double.NaN, 0.0, 0.1}, McStatBins.relativeErrors(a), 1e-16);
         assertEquals(List.of("mcstat:a:2"), McStatBins.names(m));
     }
 

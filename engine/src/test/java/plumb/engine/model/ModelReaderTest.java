@@ -154,7 +154,14 @@ class ModelReaderTest {
         Path cut = dir.resolve("cut.json.gz");
         Files.write(cut, java.util.Arrays.copyOf(bytes, bytes.length / 2));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.read(cut));
-        assertTrue(e.getMessage().startsWith(cut + ": cannot read: "), e.getMessage());
+        assertTrue(e.getMessage().startsWith(cut + ": cannot read: broken gzip data ("), e.getMessage());
+    }
+
+    @Test
+    void directoryIsAModelError() {
+        ModelException e = assertThrows(ModelException.class, () -> ModelReader.read(dir));
+        assertTrue(e.getMessage().startsWith(dir + ": cannot read: "), e.getMessage());
+        assertFalse(e.getMessage().contains("\n"), e.getMessage());
     }
 
     @Test
@@ -218,6 +225,17 @@ class ModelReaderTest {
         // line 11 is `      "observed": [104, NaN, 66],`: the literal starts in column 25, reported just past it
         assertEquals("m.json: line 11, column " + (25 + literal.length()) + ": not JSON: Non-standard token '"
                 + literal + "'", e.getMessage());
+    }
+
+    @ParameterizedTest
+    @CsvSource({"0.1", "1e-7", "2.2250738585072011e-308", "4.9e-324", "1.7976931348623157e308",
+            "9007199254740993", "0.30000000000000004", "123456789012345678901234567890", "1.00000000000000011102230246251565404"})
+    void numbersParseToTheSameDoubleAsTheJdk(String literal) {
+        // reference: Double.parseDouble, correctly rounded (JLS / Double.valueOf javadoc); the
+        // reader uses Jackson's fast parser, which must agree bit for bit
+        String json = TestModels.BASE.replace("\"mass\": 1500", "\"mass\": " + literal);
+        Object mass = ModelReader.parse(json, "m.json").labels().get("mass");
+        assertEquals(Double.doubleToRawLongBits(Double.parseDouble(literal)), Double.doubleToRawLongBits((Double) mass));
     }
 
     @Test
