@@ -11,9 +11,12 @@ import java.io.UncheckedIOException;
 import java.io.Writer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.FileAlreadyExistsException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
+import java.nio.file.StandardOpenOption;
+import java.security.SecureRandom;
 import java.util.ArrayDeque;
 import java.util.Deque;
 import java.util.List;
@@ -36,6 +39,9 @@ public final class ModelWriter {
     private static final double EXACT_LONG_LIMIT = 9.007199254740992E15;
 
     private static final JsonFactory FACTORY = JsonFactory.builder().build();
+
+    /** Suffixes of temporary file names. */
+    private static final SecureRandom RANDOM = new SecureRandom();
 
     private ModelWriter() {
     }
@@ -60,19 +66,32 @@ public final class ModelWriter {
      * text goes to a temporary file in the same folder, which is then renamed over {@code file}, so
      * a reader never sees a partial file and a failure leaves no file behind.
      *
-     * @throws IOException              if the folder cannot be written
+     * @throws IOException              if the folder cannot be written, or {@code file} is a folder
      * @throws IllegalArgumentException if a number is NaN or infinite
      */
     public static void write(Model m, Path file) throws IOException {
         Path target = file.toAbsolutePath();
         Path dir = target.getParent();
         String name = target.getFileName().toString();
+        // REPLACE_EXISTING would silently replace an empty folder.
+        if (Files.isDirectory(target)) throw new IOException(file + ": is a directory");
         // Format first: a model that cannot be written leaves nothing on disk.
         byte[] text = toJson(m).getBytes(StandardCharsets.UTF_8);
-        Path tmp = Files.createTempFile(dir, "." + name + ".", ".tmp");
+        Path tmp = null;
         try {
-            try (OutputStream raw = Files.newOutputStream(tmp);
-                 OutputStream out = name.endsWith(".json.gz") ? new GZIPOutputStream(raw) : raw) {
+            OutputStream raw = null;
+            // Not Files.createTempFile: its files are private (0600); a model file gets the usual
+            // permissions of a new file. CREATE_NEW with a random suffix never reuses a name.
+            while (raw == null) {
+                tmp = dir.resolve("." + name + "." + Long.toHexString(RANDOM.nextLong()) + ".tmp");
+                try {
+                    raw = Files.newOutputStream(tmp, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE);
+                } catch (FileAlreadyExistsException e) {
+                    tmp = null;
+                }
+            }
+            try (OutputStream stream = raw;
+                 OutputStream out = name.endsWith(".json.gz") ? new GZIPOutputStream(stream) : stream) {
                 out.write(text);
             }
             try {
@@ -81,7 +100,7 @@ public final class ModelWriter {
                 Files.move(tmp, target, StandardCopyOption.REPLACE_EXISTING);
             }
         } finally {
-            Files.deleteIfExists(tmp); // no-op after a successful move
+            if (tmp != null) Files.deleteIfExists(tmp); // no-op after a successful move
         }
     }
 

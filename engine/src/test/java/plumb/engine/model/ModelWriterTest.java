@@ -2,6 +2,7 @@ package plumb.engine.model;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -146,6 +147,25 @@ class ModelWriterTest {
         try (Stream<Path> files = Files.list(dir)) {
             assertEquals(List.of("m.json", "m.json.gz"), files.map(p -> p.getFileName().toString()).sorted().toList());
         }
+    }
+
+    @Test
+    void writtenFileHasTheUsualPermissionsOfANewFile(@TempDir Path dir) throws IOException {
+        // A temporary file made by Files.createTempFile is private (0600); the model file must not be.
+        Assumptions.assumeTrue(dir.getFileSystem().supportedFileAttributeViews().contains("posix"));
+        Path reference = dir.resolve("reference.txt");
+        Files.writeString(reference, "x");
+        Path out = dir.resolve("m.json");
+        ModelWriter.write(full(), out);
+        assertEquals(Files.getPosixFilePermissions(reference), Files.getPosixFilePermissions(out));
+    }
+
+    @Test
+    void aFolderIsNotReplaced(@TempDir Path dir) throws IOException {
+        Path folder = Files.createDirectory(dir.resolve("out.json"));
+        IOException e = assertThrows(IOException.class, () -> ModelWriter.write(full(), folder));
+        assertEquals(folder + ": is a directory", e.getMessage());
+        assertTrue(Files.isDirectory(folder));
     }
 
     @Test
