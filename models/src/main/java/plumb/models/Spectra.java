@@ -17,8 +17,8 @@ final class Spectra {
     /** Significant digits kept in generated numbers: far below any statistical precision, short files. */
     private static final MathContext DIGITS = new MathContext(6, RoundingMode.HALF_EVEN);
 
-    /** Yields below this are written as 0 (a Gaussian tail far from its peak). */
-    private static final double NEGLIGIBLE = 1e-6;
+    /** Yields below this many events are written as 0 (a Gaussian tail far from its peak). */
+    private static final double NEGLIGIBLE = 1e-4;
 
     private Spectra() {
     }

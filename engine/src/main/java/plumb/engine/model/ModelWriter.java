@@ -282,7 +282,11 @@ public final class ModelWriter {
     private static void numbers(JsonGenerator g, String key, double[] values, String path) throws IOException {
         g.writeFieldName(key);
         g.writeStartArray();
-        for (int i = 0; i < values.length; i++) number(g, values[i], path + "." + key + "[" + i + "]");
+        for (int i = 0; i < values.length; i++) {
+            // The path is built only for the error: big models hold millions of numbers.
+            if (!Double.isFinite(values[i])) number(g, values[i], path + "." + key + "[" + i + "]");
+            number(g, values[i], null);
+        }
         g.writeEndArray();
     }
 
