@@ -52,7 +52,7 @@ class SyntheticModelsTest {
     }
 
     @ParameterizedTest
-    @CsvSource({"1, 1, 2, 0", "1, 3, 2, 1", "3, 7, 4, 13", "5, 40, 6, 50", "20, 50, 8, 300"})
+    @CsvSource({"1, 1, 2, 0", "1, 3, 2, 1", "3, 7, 4, 13", "5, 40, 6, 50", "20, 50, 8, 300", "1, 10000, 2, 3"})
     void sizesAreThoseRequested(int channels, int bins, int samples, int nuisances) {
         Model m = SyntheticModels.generate(channels, bins, samples, nuisances, SEED);
         assertEquals(channels, m.channels().size());
@@ -61,6 +61,8 @@ class SyntheticModelsTest {
         for (Channel ch : m.channels()) {
             assertTrue(channelNames.add(ch.name()), ch.name());
             assertEquals(bins + 1, ch.edges().length);
+            // Edges are rounded to six digits: they must stay strictly increasing at the finest binning.
+            for (int b = 1; b <= bins; b++) assertTrue(ch.edges()[b] > ch.edges()[b - 1], ch.name() + " edge " + b);
             assertEquals(bins, ch.observed().length);
             assertEquals(samples, ch.samples().size());
             for (Sample s : ch.samples()) {
