@@ -1,0 +1,124 @@
+package plumb.models;
+
+import org.apache.commons.math3.special.Erf;
+
+import java.math.BigDecimal;
+import java.math.MathContext;
+import java.math.RoundingMode;
+
+/**
+ * Binned spectra for the demo and synthetic models: yields are integrals of a density over each
+ * bin, so that they do not depend on where inside a bin the density is sampled. StrictMath and
+ * commons-math's pure-Java erf keep the numbers identical on every JVM, which the stored demo
+ * file relies on.
+ */
+final class Spectra {
+
+    /** Significant digits kept in generated numbers: far below any statistical precision, short files. */
+    private static final MathContext DIGITS = new MathContext(6, RoundingMode.HALF_EVEN);
+
+    /** Yields below this many events are written as 0 (a Gaussian tail far from its peak). */
+    private static final double NEGLIGIBLE = 1e-4;
+
+    private Spectra() {
+    }
+
+    /** {@code n + 1} equal-width edges from {@code lo} to {@code hi}. */
+    static double[] uniformEdges(double lo, double hi, int n) {
+        double[] e = new double[n + 1];
+        for (int i = 0; i <= n; i++) e[i] = round(lo + (hi - lo) * i / n);
+        e[n] = hi;
+        return e;
+    }
+
+    /**
+     * Falling power law m^-index, normalised to {@code total} over the edges at {@code scale} = 1;
+     * {@code scale} multiplies every mass (an energy scale shift), keeping that normalisation.
+     */
+    static double[] powerLaw(double[] edges, double total, double index, double scale) {
+        double norm = total / powerLawIntegral(edges[0], edges[edges.length - 1], index, 1.0);
+        double[] y = new double[edges.length - 1];
+        for (int b = 0; b < y.length; b++) y[b] = norm * powerLawIntegral(edges[b], edges[b + 1], index, scale);
+        return y;
+    }
+
+    // Density f(m/scale)/scale with f(m) = m^-index: its integral is scale^(index-1) ∫ m^-index dm.
+    private static double powerLawIntegral(double a, double b, double index, double scale) {
+        double k = 1.0 - index;
+        return StrictMath.pow(scale, index - 1.0) * (StrictMath.pow(b, k) - StrictMath.pow(a, k)) / k;
+    }
+
+    /** Falling exponential exp(-m/slope), normalised to {@code total} at scale 1, as {@link #powerLaw}. */
+    static double[] exponential(double[] edges, double total, double slope, double scale) {
+        double norm = total / exponentialIntegral(edges[0], edges[edges.length - 1], slope, 1.0);
+        double[] y = new double[edges.length - 1];
+        for (int b = 0; b < y.length; b++) y[b] = norm * exponentialIntegral(edges[b], edges[b + 1], slope, scale);
+        return y;
+    }
+
+    // Density f(m/scale)/scale with f(m) = exp(-m/slope).
+    private static double exponentialIntegral(double a, double b, double slope, double scale) {
+        double s = slope * scale;
+        return s / scale * (StrictMath.exp(-a / s) - StrictMath.exp(-b / s));
+    }
+
+    /** A Gaussian peak holding {@code total} events over the whole line (less inside the edges). */
+    static double[] gaussian(double[] edges, double total, double mean, double sigma) {
+        double[] y = new double[edges.length - 1];
+        double z = 1.0 / (sigma * StrictMath.sqrt(2.0));
+        for (int b = 0; b < y.length; b++) {
+            // Erf.erf(x1, x2) takes the difference without cancellation in the tails.
+            y[b] = 0.5 * total * Erf.erf((edges[b] - mean) * z, (edges[b + 1] - mean) * z);
+        }
+        return y;
+    }
+
+    /** Copy scaled by 1 + amplitude·t, with t running linearly from -1 (first bin) to +1 (last bin). */
+    static double[] tilt(double[] nominal, double amplitude) {
+        int n = nominal.length;
+        double[] y = new double[n];
+        for (int b = 0; b < n; b++) {
+            double t = n == 1 ? 0.0 : 2.0 * b / (n - 1) - 1.0;
+            y[b] = nominal[b] * (1.0 + amplitude * t);
+        }
+        return y;
+    }
+
+    /** Copy scaled by 1 + amplitude·(1.5 t² − 0.5): ends against middle, t as in {@link #tilt}. */
+    static double[] bend(double[] nominal, double amplitude) {
+        int n = nominal.length;
+        double[] y = new double[n];
+        for (int b = 0; b < n; b++) {
+            double t = n == 1 ? 0.0 : 2.0 * b / (n - 1) - 1.0;
+            y[b] = nominal[b] * (1.0 + amplitude * (1.5 * t * t - 0.5));
+        }
+        return y;
+    }
+
+    /** Copy rescaled to the total of {@code reference} (a shape-only variation); unchanged if empty. */
+    static double[] sameTotal(double[] y, double[] reference) {
+        double s = sum(y);
+        double r = sum(reference);
+        double[] out = y.clone();
+        if (s > 0) for (int b = 0; b < out.length; b++) out[b] *= r / s;
+        return out;
+    }
+
+    static double sum(double[] y) {
+        double s = 0;
+        for (int b = 0; b < y.length; b++) s += y[b];
+        return s;
+    }
+
+    /** Six significant digits, negligible values to 0, element by element (in place; returned). */
+    static double[] round(double[] y) {
+        for (int b = 0; b < y.length; b++) y[b] = Math.abs(y[b]) < NEGLIGIBLE ? 0.0 : round(y[b]);
+        return y;
+    }
+
+    /** Six significant digits, by exact decimal arithmetic so that the result is the same everywhere. */
+    static double round(double x) {
+        if (x == 0.0 || !Double.isFinite(x)) return x;
+        return new BigDecimal(x).round(DIGITS).doubleValue();
+    }
+}
