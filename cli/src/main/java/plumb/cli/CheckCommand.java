@@ -7,7 +7,7 @@ import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.compile.ParameterKind;
+import plumb.engine.model.ParameterKind;
 
 import java.io.PrintWriter;
 import java.util.concurrent.Callable;

@@ -8,7 +8,7 @@ import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.compile.ParameterKind;
+import plumb.engine.model.ParameterKind;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
 
@@ -106,7 +106,7 @@ final class FitCommand implements Callable<Integer> {
         for (int i = 0; i < m.nAll; i++) {
             double pull = pull(m, r, i), cons = constraint(m, r, i);
             boolean flag = Math.abs(pull) > 1 || cons < 0.5;
-            if (m.kind[i] == ParameterKind.MCSTAT && !showMcStat) {
+            if (m.kind[i] == ParameterKind.MC_STATISTICS && !showMcStat) {
                 hiddenGamma++;
                 if (flag) flaggedGamma++;
                 continue;

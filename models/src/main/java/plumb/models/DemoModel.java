@@ -6,6 +6,7 @@ import org.apache.commons.rng.simple.RandomSource;
 import plumb.engine.model.Channel;
 import plumb.engine.model.Interpolation;
 import plumb.engine.model.Model;
+import plumb.engine.model.ModelReader;
 import plumb.engine.model.ModelWriter;
 import plumb.engine.model.ParameterSpec;
 import plumb.engine.model.Sample;
@@ -83,7 +84,7 @@ public final class DemoModel {
      */
     public static Model load() {
         try (InputStream in = openStream()) {
-            return ModelTree.read(in);
+            return ModelReader.parse(new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8), RESOURCE);
         } catch (IOException e) {
             throw new UncheckedIOException("cannot read class-path resource " + RESOURCE, e);
         }

@@ -1,5 +1,7 @@
 package plumb.engine.compile;
 
+import plumb.engine.model.ParameterKind;
+
 import java.util.List;
 import java.util.Map;
 
@@ -43,6 +45,11 @@ public final class CompiledModel {
     public final double[] tau;
     /** Gaussian width, or r of a Poisson constraint, or NaN for a free parameter. */
     public final double[] prefitWidth;
+    /**
+     * Parameters (length nParams) with a kink at θ = 0: a {@code linear} norm or shape term, or an
+     * {@code exponential} norm term with κu·κd ≠ 1. The fitter treats each side as a smooth piece.
+     */
+    public final boolean[] kinked;
     /** Global bin of each γ (length nGamma). */
     public final int[] gammaBin;
     /** γ index of each global bin, or −1 (length nBins). */
@@ -122,6 +129,7 @@ public final class CompiledModel {
         tau = b.tau;
         prefitWidth = b.prefitWidth;
         gammaBin = b.gammaBin;
+        kinked = b.kinked;
         binGamma = b.binGamma;
         nChannels = b.channelNames.length;
         channelNames = b.channelNames;
@@ -203,7 +211,7 @@ public final class CompiledModel {
         String[] parameterNames;
         ParameterKind[] kind;
         double[] nominal, lower, upper, auxNominal, width, tau, prefitWidth;
-        boolean[] fixed;
+        boolean[] fixed, kinked;
         int[] constraintType, gammaBin, binGamma;
         String[] channelNames, observables;
         double[][] edges, observed;

@@ -1,8 +1,10 @@
 package plumb.engine.compile;
 
 import plumb.engine.model.Channel;
+import plumb.engine.model.McStatBins;
 import plumb.engine.model.Model;
 import plumb.engine.model.ModelOptions;
+import plumb.engine.model.ParameterKind;
 import plumb.engine.model.ParameterSpec;
 import plumb.engine.model.Sample;
 import plumb.engine.model.Variation;
@@ -22,10 +24,6 @@ import java.util.TreeSet;
  */
 public final class ModelCompiler {
 
-    /** Range and nominal of generated MC-statistics parameters (docs/model-format.md). */
-    static final double GAMMA_LOWER = 1e-10;
-    static final double GAMMA_UPPER = 10;
-
     private ModelCompiler() {
     }
 
@@ -38,18 +36,9 @@ public final class ModelCompiler {
         b.warnings = new ArrayList<>();
         ModelOptions options = model.options();
 
-        // 1. Parameters in order of first appearance; a name in a variation takes the variation defaults.
-        Map<String, ParameterKind> kinds = new LinkedHashMap<>();
-        for (Channel ch : model.channels()) {
-            for (Sample s : ch.samples()) {
-                for (String f : s.factors()) kinds.putIfAbsent(f, ParameterKind.FACTOR);
-                for (Variation v : s.variations()) kinds.put(v.parameter(), ParameterKind.NUISANCE);
-            }
-        }
+        // 1. Parameters in order of first appearance, then one γ per bin that gets one.
+        Map<String, ParameterKind> kinds = ParameterKind.of(model);
         List<String> names = new ArrayList<>(kinds.keySet());
-        b.nParams = names.size();
-
-        // 2. MC-statistics parameters, one per bin whose relative error exceeds the threshold.
         int nChannels = model.channels().size();
         b.channelBinStart = new int[nChannels + 1];
         for (int c = 0; c < nChannels; c++) {
@@ -62,39 +51,33 @@ public final class ModelCompiler {
         List<Double> gammaDelta = new ArrayList<>();
         for (int c = 0; c < nChannels; c++) {
             Channel ch = model.channels().get(c);
+            double[] delta = McStatBins.relativeErrors(ch);
             for (int bin = 0; bin < ch.bins(); bin++) {
-                double delta = mcStatRelativeError(ch, bin);
-                if (delta > options.mcStatThreshold()) {
+                if (McStatBins.exists(ch, bin, options)) {
                     int global = b.channelBinStart[c] + bin;
                     b.binGamma[global] = gammaBins.size();
                     gammaBins.add(global);
-                    gammaDelta.add(delta);
-                    names.add(mcStatName(ch.name(), bin));
+                    gammaDelta.add(delta[bin]);
                 }
             }
         }
         b.nGamma = gammaBins.size();
+        b.nParams = names.size() - b.nGamma;
         b.gammaBin = gammaBins.stream().mapToInt(Integer::intValue).toArray();
         int nAll = names.size();
         b.parameterNames = names.toArray(new String[0]);
         allocateParameters(b, nAll);
-        for (int i = 0; i < b.nParams; i++) {
-            b.kind[i] = kinds.get(names.get(i));
-            if (b.kind[i] == ParameterKind.FACTOR) {
-                setDefaults(b, i, 1, 0, 10, ConstraintType.NONE, Double.NaN);
-            } else {
-                setDefaults(b, i, 0, -5, 5, ConstraintType.GAUSSIAN, 1);
-            }
-        }
-        for (int g = 0; g < b.nGamma; g++) {
-            int i = b.nParams + g;
-            b.kind[i] = ParameterKind.MCSTAT;
-            double delta = gammaDelta.get(g);
-            if (options.mcStatConstraint() == ModelOptions.McStatConstraint.POISSON) {
-                setDefaults(b, i, 1, GAMMA_LOWER, GAMMA_UPPER, ConstraintType.POISSON, delta);
-            } else {
-                setDefaults(b, i, 1, GAMMA_LOWER, GAMMA_UPPER, ConstraintType.GAUSSIAN, delta);
-            }
+        for (int i = 0; i < nAll; i++) {
+            ParameterKind k = kinds.get(names.get(i));
+            b.kind[i] = k;
+            int constraint = switch (k) {
+                case FACTOR -> ConstraintType.NONE;
+                case VARIATION -> ConstraintType.GAUSSIAN;
+                case MC_STATISTICS -> options.mcStatConstraint() == ModelOptions.McStatConstraint.POISSON
+                        ? ConstraintType.POISSON : ConstraintType.GAUSSIAN;
+            };
+            double width = k == ParameterKind.MC_STATISTICS ? gammaDelta.get(i - b.nParams) : 1;
+            setDefaults(b, i, k.defaultValue(), k.defaultLow(), k.defaultHigh(), constraint, width);
         }
         Map<String, Integer> index = new LinkedHashMap<>();
         for (int i = 0; i < nAll; i++) index.put(names.get(i), i);
@@ -115,29 +98,6 @@ public final class ModelCompiler {
             b.groupMembers[gi] = members.stream().mapToInt(n -> index.getOrDefault(n, -1)).filter(i -> i >= 0).toArray();
         }
         return new CompiledModel(b);
-    }
-
-    /** The generated name of the MC-statistics parameter of a bin (docs/model-format.md). */
-    public static String mcStatName(String channel, int bin) {
-        return "mcstat:" + channel + ":" + bin;
-    }
-
-    /**
-     * δ_b = sqrt(Σ mcError²) / Σ n over the samples that give {@code mcError}, or 0 when the bin
-     * has no such sample or their nominal sum is not positive (the bin then gets no γ).
-     */
-    public static double mcStatRelativeError(Channel ch, int bin) {
-        double sumSq = 0;
-        double sumN = 0;
-        boolean any = false;
-        for (Sample s : ch.samples()) {
-            if (s.mcError() == null) continue;
-            any = true;
-            sumSq += s.mcError()[bin] * s.mcError()[bin];
-            sumN += s.yields()[bin];
-        }
-        if (!any || !(sumN > 0)) return 0;
-        return Math.sqrt(sumSq) / sumN;
     }
 
     private static void allocateParameters(CompiledModel.Builder b, int n) {
@@ -199,7 +159,7 @@ public final class ModelCompiler {
                 setConstraint(b, i, ConstraintType.POISSON, 0, p.relative());
             }
         } else if (spec.value() != null && b.constraintType[i] == ConstraintType.GAUSSIAN
-                   && b.kind[i] != ParameterKind.MCSTAT) {
+                   && b.kind[i] != ParameterKind.MC_STATISTICS) {
             // A default Gaussian constraint is centred on the parameter's value.
             b.auxNominal[i] = b.nominal[i];
         }
@@ -307,6 +267,21 @@ public final class ModelCompiler {
         mulStart.add(mulParam.size());
         shapeStart.add(shapeParam.size());
 
+        b.kinked = new boolean[b.nParams];
+        for (int t = 0; t < mulParam.size(); t++) {
+            int mode = (int) mulCoeffs.get(t * NormInterpolation.COEFFS);
+            double lu = mulCoeffs.get(t * NormInterpolation.COEFFS + 3), ld = mulCoeffs.get(t * NormInterpolation.COEFFS + 4);
+            double ku = mulCoeffs.get(t * NormInterpolation.COEFFS + 1), kd = mulCoeffs.get(t * NormInterpolation.COEFFS + 2);
+            boolean kink = (mode == NormInterpolation.LINEAR && ku - 1 != 1 - kd)
+                    || (mode == NormInterpolation.EXPONENTIAL && lu != -ld);
+            if (kink) b.kinked[mulParam.get(t)] = true;
+        }
+        for (int k = 0; k < shapeParam.size(); k++) {
+            if (shapeMode.get(k) != ShapeInterpolation.LINEAR) continue;
+            int from = shapeCoeffStart.get(k);
+            int to = k + 1 < shapeParam.size() ? shapeCoeffStart.get(k + 1) : shapeA.size();
+            for (int e = from; e < to; e++) if (shapeA.get(e) != 0) b.kinked[shapeParam.get(k)] = true;
+        }
         b.sampleNames = sampleNames.toArray(new String[0]);
         b.sampleChannel = sampleChannel.toArray();
         b.sampleMcStat = new boolean[sampleMc.size()];
@@ -403,6 +378,10 @@ public final class ModelCompiler {
             return size;
         }
 
+        int get(int i) {
+            return data[i];
+        }
+
         int[] toArray() {
             return Arrays.copyOf(data, size);
         }
@@ -424,6 +403,10 @@ public final class ModelCompiler {
 
         int size() {
             return size;
+        }
+
+        double get(int i) {
+            return data[i];
         }
 
         double[] toArray() {

@@ -36,7 +36,7 @@ public final class Fitter {
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
         this.dim = nll.dimension();
         this.minimiser = settings.optimizer() == FitSettings.Optimizer.REFERENCE
-                ? new ReferenceMinimiser(dim, settings.options())
+                ? new ReferenceMinimiser(dim)
                 : new BoundedNewton(dim, settings.options());
         lower = Arrays.copyOf(model.lower, dim);
         upper = Arrays.copyOf(model.upper, dim);
@@ -104,8 +104,98 @@ public final class Fitter {
             x[hold[k]] = holdValues[k];
         }
         for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
-        MinimumResult r = minimiser.minimise(nll, x, lower, upper, held);
+        MinimumResult r = hasKinks(held) ? minimiseOnPieces(x, held) : minimiser.minimise(nll, x, lower, upper, held);
         return toResult(r, held, System.nanoTime() - t0);
+    }
+
+    private boolean hasKinks(boolean[] held) {
+        for (int i = 0; i < m.nParams; i++) if (m.kinked[i] && !held[i]) return true;
+        return false;
+    }
+
+    /**
+     * Minimises a likelihood with kinks at θ = 0 (linear or exponential interpolation). Each kinked
+     * parameter is kept on one side of its kink, where −ln L is smooth, so the Newton steps see
+     * smooth pieces; a parameter that ends on the kink moves to the other side when the slope
+     * there points that way, and stays when both one-sided slopes point at the kink (a minimum on
+     * the kink). A few rounds settle it.
+     */
+    private MinimumResult minimiseOnPieces(double[] x, boolean[] held) {
+        double[] lo = lower.clone(), hi = upper.clone();
+        double[] grad = new double[dim];
+        double[] probe = new double[dim];
+        // First pieces: the side the start lies on; at the kink itself, the downhill side.
+        nll.valueAndGradient(x, grad);
+        double[] right = grad.clone();
+        System.arraycopy(x, 0, probe, 0, dim);
+        for (int i = 0; i < m.nParams; i++) if (m.kinked[i] && !held[i] && x[i] == 0) probe[i] = LEFT_OF_KINK;
+        nll.valueAndGradient(probe, grad);
+        for (int i = 0; i < m.nParams; i++) {
+            if (!m.kinked[i] || held[i]) continue;
+            boolean leftSide = x[i] < 0 || (x[i] == 0 && right[i] >= 0 && grad[i] > 0);
+            restrict(i, leftSide, lo, hi);
+        }
+        MinimumResult r = null;
+        int evaluations = 2, iterations = 0;
+        for (int round = 0; round < MAX_PIECE_ROUNDS; round++) {
+            r = minimiser.minimise(nll, x, lo, hi, held);
+            evaluations += r.evaluations();
+            iterations += r.iterations();
+            if (!r.converged()) break;
+            x = r.x().clone();
+            // The one-sided slope beyond the kink of every parameter sitting on it.
+            System.arraycopy(x, 0, probe, 0, dim);
+            boolean any = false;
+            for (int i = 0; i < m.nParams; i++) {
+                if (!m.kinked[i] || held[i]) continue;
+                if (x[i] == LEFT_OF_KINK) {
+                    probe[i] = 0;
+                    any = true;
+                } else if (x[i] == 0) {
+                    probe[i] = LEFT_OF_KINK;
+                    any = true;
+                }
+            }
+            if (!any) break;
+            nll.valueAndGradient(probe, grad);
+            evaluations++;
+            boolean moved = false;
+            for (int i = 0; i < m.nParams; i++) {
+                if (!m.kinked[i] || held[i]) continue;
+                if (x[i] == LEFT_OF_KINK && grad[i] < 0 && upper[i] > 0) {
+                    restrict(i, false, lo, hi);
+                    x[i] = 0;
+                    moved = true;
+                } else if (x[i] == 0 && grad[i] > 0 && lower[i] < 0) {
+                    restrict(i, true, lo, hi);
+                    x[i] = LEFT_OF_KINK;
+                    moved = true;
+                }
+            }
+            if (!moved) break;
+        }
+        return new MinimumResult(r.status(), r.x(), r.value(), r.gradient(), r.hessian(), r.fixed(), r.decrement(),
+                iterations, evaluations);
+    }
+
+    /** Rounds of piece changes before a fit on kinked parameters gives up (returns its last result). */
+    private static final int MAX_PIECE_ROUNDS = 8;
+
+    /**
+     * The upper end of the piece left of a kink. The interpolation kernels take the right-hand
+     * branch at θ = 0, so the left piece ends one ulp below zero, where they take the left-hand
+     * one: derivatives at the piece's end then belong to the piece.
+     */
+    private static final double LEFT_OF_KINK = -Double.MIN_VALUE;
+
+    private void restrict(int i, boolean leftSide, double[] lo, double[] hi) {
+        if (leftSide) {
+            lo[i] = lower[i];
+            hi[i] = Math.min(upper[i], LEFT_OF_KINK);
+        } else {
+            lo[i] = Math.max(lower[i], 0);
+            hi[i] = upper[i];
+        }
     }
 
     private static boolean contains(int[] a, int v) {
