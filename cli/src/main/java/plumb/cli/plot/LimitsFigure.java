@@ -110,8 +110,8 @@ public final class LimitsFigure {
         return new Figure(chart, Theme.WIDTH, Theme.HEIGHT);
     }
 
-    /** 0.95 -> "95", 0.683 -> "68.3". */
-    static String percent(double cl) {
+    /** A confidence level as a percentage without trailing zeros: 0.95 gives "95", 0.683 "68.3". */
+    public static String percent(double cl) {
         return new DecimalFormat("0.###", DecimalFormatSymbols.getInstance(Locale.ROOT)).format(100 * cl);
     }
 

@@ -93,7 +93,8 @@ public record Table(String title, List<String> header, List<List<String>> rows) 
             return number(value, 4) + " ± " + (error == 0 ? "0" : MISSING);
         }
         BigDecimal err = new BigDecimal(error).round(new MathContext(2, RoundingMode.HALF_UP));
-        int scale = err.scale();
+        // BigDecimal drops trailing zeros of exact inputs: 1.0 arrives as "1" (one digit); keep two.
+        int scale = err.scale() + Math.max(0, 2 - err.precision());
         BigDecimal val = new BigDecimal(value).setScale(scale, RoundingMode.HALF_UP);
         return plain(val) + " ± " + plain(err.setScale(scale, RoundingMode.HALF_UP));
     }
