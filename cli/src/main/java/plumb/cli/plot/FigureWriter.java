@@ -30,11 +30,6 @@ public final class FigureWriter {
 
     private static final Pattern SAFE_NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9_.-]{0,127}");
 
-    static {
-        // Figures are drawn off-screen; never try to reach a display.
-        System.setProperty("java.awt.headless", "true");
-    }
-
     private FigureWriter() {
     }
 

@@ -43,6 +43,11 @@ import org.jfree.chart.ui.RectangleInsets;
  */
 public final class Theme {
 
+    static {
+        // Figures are drawn off-screen; set before anything asks the graphics environment.
+        System.setProperty("java.awt.headless", "true");
+    }
+
     private Theme() {
     }
 
