@@ -1,0 +1,69 @@
+package plumb.cli.report;
+
+import java.util.List;
+import plumb.cli.plot.Impacts;
+import plumb.cli.plot.ScanCurve;
+
+/**
+ * Everything one report shows. Only the summary is required; a null section was not run and
+ * the page says so. Build with {@link #of(RunSummary)} and the {@code withX} copies.
+ *
+ * @param impactsTop how many parameters the impacts figure ranks
+ */
+public record ReportInput(RunSummary summary, FitResult fit, Impacts impacts, int impactsTop,
+                          List<ChannelYields> yields, ScanCurve scan, Results.Discovery discovery,
+                          Results.Limits limits, Results.GoodnessOfFit gof, List<Results.Injection> injection,
+                          List<Results.Attachment> attachments) {
+
+    /** Default number of parameters in the impacts ranking. */
+    public static final int DEFAULT_IMPACTS_TOP = 20;
+
+    public ReportInput {
+        if (summary == null) throw new IllegalArgumentException("a report needs a run summary");
+        if (impactsTop < 1) throw new IllegalArgumentException("impactsTop must be >= 1, got " + impactsTop);
+        yields = yields == null ? List.of() : List.copyOf(yields);
+        injection = injection == null ? List.of() : List.copyOf(injection);
+        attachments = attachments == null ? List.of() : List.copyOf(attachments);
+    }
+
+    /** A report with only the run summary. */
+    public static ReportInput of(RunSummary summary) {
+        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null);
+    }
+
+    public ReportInput withFit(FitResult fit) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withImpacts(Impacts impacts, int top) {
+        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withYields(List<ChannelYields> yields) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withScan(ScanCurve scan) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withDiscovery(Results.Discovery discovery) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withLimits(Results.Limits limits) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withGoodnessOfFit(Results.GoodnessOfFit gof) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withInjection(List<Results.Injection> injection) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+
+    public ReportInput withAttachments(List<Results.Attachment> attachments) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+    }
+}

@@ -1,0 +1,53 @@
+package plumb.cli.report;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.DigestInputStream;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.HexFormat;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * What the top of the report says about the run.
+ *
+ * @param model         model name
+ * @param description   model description, or null
+ * @param modelFile     the model file as given by the user, or null
+ * @param modelSha256   SHA-256 of the model file in hex ({@link #sha256(Path)}), or null
+ * @param dataSet       "observed" or "asimov"
+ * @param seed          seed of all random numbers, or null when none was used
+ * @param toolVersion   Plumb version string
+ * @param seconds       wall time of the whole run
+ * @param labels        the model's labels (values: numbers or strings), may be empty
+ * @param warnings      warnings collected during the run, may be empty
+ * @param nonConverged  names of fits that did not converge ("fit", "scan point mu=2.5", ...), may be empty
+ */
+public record RunSummary(String model, String description, String modelFile, String modelSha256, String dataSet,
+                         Long seed, String toolVersion, double seconds, Map<String, Object> labels,
+                         List<String> warnings, List<String> nonConverged) {
+
+    public RunSummary {
+        if (model == null) throw new IllegalArgumentException("run summary needs the model name");
+        labels = labels == null ? Map.of() : java.util.Collections.unmodifiableMap(new java.util.LinkedHashMap<>(labels));
+        warnings = warnings == null ? List.of() : List.copyOf(warnings);
+        nonConverged = nonConverged == null ? List.of() : List.copyOf(nonConverged);
+    }
+
+    /** SHA-256 of a file's bytes, lower-case hex (64 characters). */
+    public static String sha256(Path file) throws IOException {
+        MessageDigest digest;
+        try {
+            digest = MessageDigest.getInstance("SHA-256");
+        } catch (NoSuchAlgorithmException e) {
+            throw new IllegalStateException("every Java runtime has SHA-256", e);
+        }
+        try (InputStream in = new DigestInputStream(Files.newInputStream(file), digest)) {
+            in.transferTo(java.io.OutputStream.nullOutputStream());
+        }
+        return HexFormat.of().formatHex(digest.digest());
+    }
+}
