@@ -12,11 +12,11 @@ import org.junit.jupiter.api.Test;
 /**
  * The rule of docs/model-format.md, "MC-statistics term": δ_b = sqrt(Σ mcError²)/Σ n over the
  * samples that give mcError; γ_b exists when δ_b > mcStatThreshold and Σ n > 0. Expected values
- * are that formula worked by hand on {@link TestModels#BASE}.
+ * are that formula worked by hand on {@link ModelJsonFixtures#BASE}.
  */
 class McStatBinsTest {
 
-    private final Model base = ModelReader.parse(TestModels.BASE, "base.json");
+    private final Model base = ModelReader.parse(ModelJsonFixtures.BASE, "base.json");
 
     @Test
     void relativeErrorSumsTheSamplesThatGiveMcError() {
@@ -25,7 +25,7 @@ class McStatBinsTest {
         assertEquals(Math.sqrt(0.25 + 4) / 105, McStatBins.relativeError(sr, 0), 1e-16);
         assertEquals(Math.sqrt(2.0) / 100, McStatBins.relativeError(sr, 1), 1e-16);
         assertEquals(Math.sqrt(0.16 + 0.01) / 64, McStatBins.relativeError(sr, 2), 1e-16);
-        assertEquals(0.019634, McStatBins.relativeError(sr, 0), 1e-6);   // the figure quoted in TestModels
+        assertEquals(0.019634, McStatBins.relativeError(sr, 0), 1e-6);   // the figure quoted in ModelJsonFixtures
     }
 
     @Test
@@ -48,7 +48,7 @@ class McStatBinsTest {
 
     @Test
     void defaultThresholdZeroGivesEveryBinWithPositiveErrorAGamma() {
-        Model m = ModelReader.parse(TestModels.edited("/options", "{}"), "m.json");
+        Model m = ModelReader.parse(ModelJsonFixtures.edited("/options", "{}"), "m.json");
         assertEquals(List.of("mcstat:sr:0", "mcstat:sr:1", "mcstat:sr:2"), McStatBins.names(m));
     }
 
@@ -83,7 +83,7 @@ class McStatBinsTest {
 
     @Test
     void factorAlsoUsedInAVariationIsAVariationParameter() {
-        Model m = ModelReader.parse(TestModels.edited("/channels/1/samples/0/variations",
+        Model m = ModelReader.parse(ModelJsonFixtures.edited("/channels/1/samples/0/variations",
                 "[{\"parameter\": \"bkgNorm\", \"norm\": {\"down\": 0.9, \"up\": 1.1}}]",
                 // its Poisson constraint would now be refused: the variation default value is 0
                 "/parameters/1/constraint", "null"), "m.json");

@@ -32,7 +32,7 @@ class ModelReaderTest {
 
     @Test
     void validModelKeepsEveryValue() {
-        Model m = ModelReader.parse(TestModels.BASE, "base.json");
+        Model m = ModelReader.parse(ModelJsonFixtures.BASE, "base.json");
         assertEquals(Model.FORMAT, m.format());
         assertEquals("diphoton-1500", m.name());
         assertEquals("narrow resonance over a falling two-photon background", m.description());
@@ -109,7 +109,7 @@ class ModelReaderTest {
     @Test
     void readsPlainFile() throws IOException {
         Path file = dir.resolve("model.json");
-        Files.writeString(file, TestModels.BASE, StandardCharsets.UTF_8);
+        Files.writeString(file, ModelJsonFixtures.BASE, StandardCharsets.UTF_8);
         assertEquals("m(γγ) [GeV]", ModelReader.read(file).channels().get(0).observable());
     }
 
@@ -117,7 +117,7 @@ class ModelReaderTest {
     @CsvSource({"model.json.gz", "model.json", "model"})
     void readsGzipByMagicBytesWhateverTheName(String name) throws IOException {
         Path file = dir.resolve(name);
-        gzip(file, TestModels.BASE.getBytes(StandardCharsets.UTF_8));
+        gzip(file, ModelJsonFixtures.BASE.getBytes(StandardCharsets.UTF_8));
         Model m = ModelReader.read(file);
         assertEquals("diphoton-1500", m.name());
         assertArrayEquals(new double[] {1000, 900}, m.channels().get(1).samples().get(0).yields());
@@ -126,14 +126,14 @@ class ModelReaderTest {
     @Test
     void plainTextNamedGzIsReadAsPlainText() throws IOException {
         Path file = dir.resolve("model.json.gz");
-        Files.writeString(file, TestModels.BASE, StandardCharsets.UTF_8);
+        Files.writeString(file, ModelJsonFixtures.BASE, StandardCharsets.UTF_8);
         assertEquals("diphoton-1500", ModelReader.read(file).name());
     }
 
     @Test
     void errorsFromAFileNameTheFile() throws IOException {
         Path file = dir.resolve("bad.json");
-        Files.writeString(file, TestModels.edited("/channels/0/samples/0/yields/2", "-3"));
+        Files.writeString(file, ModelJsonFixtures.edited("/channels/0/samples/0/yields/2", "-3"));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.read(file));
         assertEquals(file + ": channels[0].samples[0].yields[2]: -3.0, must be >= 0", e.getMessage());
         assertEquals(file.toString(), e.file());
@@ -149,7 +149,7 @@ class ModelReaderTest {
     @Test
     void truncatedGzipIsAModelError() throws IOException {
         Path whole = dir.resolve("whole.gz");
-        gzip(whole, TestModels.BASE.getBytes(StandardCharsets.UTF_8));
+        gzip(whole, ModelJsonFixtures.BASE.getBytes(StandardCharsets.UTF_8));
         byte[] bytes = Files.readAllBytes(whole);
         Path cut = dir.resolve("cut.json.gz");
         Files.write(cut, java.util.Arrays.copyOf(bytes, bytes.length / 2));
@@ -167,7 +167,7 @@ class ModelReaderTest {
     @Test
     void plainFileAboveTheSizeCapIsRefusedUnread() throws IOException {
         Path file = dir.resolve("model.json");
-        Files.writeString(file, TestModels.BASE);
+        Files.writeString(file, ModelJsonFixtures.BASE);
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.read(file, 1000));
         assertEquals(file + ": larger than 1000 bytes (uncompressed), refused", e.getMessage());
     }
@@ -176,7 +176,7 @@ class ModelReaderTest {
     void gzipThatExpandsBeyondTheCapIsRefused() throws IOException {
         // a small compressed file of 1 MB of spaces: the cap counts the gunzipped bytes
         Path file = dir.resolve("bomb.json.gz");
-        byte[] text = (" ".repeat(1 << 20) + TestModels.BASE).getBytes(StandardCharsets.UTF_8);
+        byte[] text = (" ".repeat(1 << 20) + ModelJsonFixtures.BASE).getBytes(StandardCharsets.UTF_8);
         gzip(file, text);
         assertTrue(Files.size(file) < 100_000);
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.read(file, 100_000));
@@ -186,7 +186,7 @@ class ModelReaderTest {
 
     @Test
     void duplicateKeyNamesItsPath() {
-        String json = TestModels.BASE.replace("\"name\": \"diphoton-1500\",",
+        String json = ModelJsonFixtures.BASE.replace("\"name\": \"diphoton-1500\",",
                 "\"name\": \"diphoton-1500\", \"name\": \"again\",");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertEquals("name", e.path());
@@ -195,7 +195,7 @@ class ModelReaderTest {
 
     @Test
     void nestedDuplicateKeyNamesItsPath() {
-        String json = TestModels.BASE.replace("{\"down\": 0.98, \"up\": 1.02}}\n",
+        String json = ModelJsonFixtures.BASE.replace("{\"down\": 0.98, \"up\": 1.02}}\n",
                 "{\"down\": 0.98, \"up\": 1.02, \"up\": 1.03}}\n");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertEquals("channels[0].samples[0].variations[0].norm.up", e.path());
@@ -203,7 +203,7 @@ class ModelReaderTest {
 
     @Test
     void duplicateLabelKeyIsRefused() {
-        String json = TestModels.BASE.replace("\"mass\": 1500,", "\"mass\": 1500, \"mass\": 1600,");
+        String json = ModelJsonFixtures.BASE.replace("\"mass\": 1500,", "\"mass\": 1500, \"mass\": 1600,");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertEquals("labels.mass", e.path());
     }
@@ -220,7 +220,7 @@ class ModelReaderTest {
     @ParameterizedTest
     @CsvSource(delimiter = '|', value = {"NaN", "Infinity", "-Infinity"})
     void nonNumericLiteralsInDataAreNotJson(String literal) {
-        String json = TestModels.BASE.replace("\"observed\": [104, 131, 66]", "\"observed\": [104, " + literal + ", 66]");
+        String json = ModelJsonFixtures.BASE.replace("\"observed\": [104, 131, 66]", "\"observed\": [104, " + literal + ", 66]");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         // line 11 is `      "observed": [104, NaN, 66],`: the literal starts in column 25, reported just past it
         assertEquals("m.json: line 11, column " + (25 + literal.length()) + ": not JSON: Non-standard token '"
@@ -233,14 +233,14 @@ class ModelReaderTest {
     void numbersParseToTheSameDoubleAsTheJdk(String literal) {
         // reference: Double.parseDouble, correctly rounded (JLS / Double.valueOf javadoc); the
         // reader uses Jackson's fast parser, which must agree bit for bit
-        String json = TestModels.BASE.replace("\"mass\": 1500", "\"mass\": " + literal);
+        String json = ModelJsonFixtures.BASE.replace("\"mass\": 1500", "\"mass\": " + literal);
         Object mass = ModelReader.parse(json, "m.json").labels().get("mass");
         assertEquals(Double.doubleToRawLongBits(Double.parseDouble(literal)), Double.doubleToRawLongBits((Double) mass));
     }
 
     @Test
     void numberBeyondDoubleRangeIsRefusedAtItsPath() {
-        String json = TestModels.BASE.replace("\"edges\": [1400,", "\"edges\": [1e400,");
+        String json = ModelJsonFixtures.BASE.replace("\"edges\": [1400,", "\"edges\": [1e400,");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertEquals("m.json: channels[0].edges[0]: 1e400, expected a finite number (beyond the range of a double)",
                 e.getMessage());
@@ -254,7 +254,7 @@ class ModelReaderTest {
             "\"observable\": \"m(γγ) [GeV]\"|\"observable\": 'm(γγ) [GeV]'|9",
             "\"observable\": \"m(γγ) [GeV]\"|observable: \"m(γγ) [GeV]\"|9"})
     void textThatIsNotJsonNamesTheLine(String from, String to, int line) {
-        String json = TestModels.BASE.replace(from, to);
+        String json = ModelJsonFixtures.BASE.replace(from, to);
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().startsWith("m.json: line " + line + ", column "), e.getMessage());
         assertTrue(e.getMessage().contains(": not JSON: "), e.getMessage());
@@ -263,14 +263,14 @@ class ModelReaderTest {
 
     @Test
     void truncatedTextIsNotJson() {
-        String json = TestModels.BASE.substring(0, TestModels.BASE.indexOf("\"parameters\""));
+        String json = ModelJsonFixtures.BASE.substring(0, ModelJsonFixtures.BASE.indexOf("\"parameters\""));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().contains(": not JSON: "), e.getMessage());
     }
 
     @Test
     void contentAfterTheModelIsRefused() {
-        ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(TestModels.BASE + "{}", "m.json"));
+        ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(ModelJsonFixtures.BASE + "{}", "m.json"));
         assertTrue(e.getMessage().startsWith("m.json: line "), e.getMessage());
         assertTrue(e.getMessage().endsWith("not JSON: more content after the end of the model"), e.getMessage());
     }
@@ -284,7 +284,7 @@ class ModelReaderTest {
     @Test
     void deepNestingIsRefusedWithoutExhaustingTheStack() {
         // 100000 nested arrays where a label value belongs; refused at the first level, never built
-        String json = TestModels.BASE.replace("\"mass\": 1500", "\"mass\": " + "[".repeat(100_000) + "]".repeat(100_000));
+        String json = ModelJsonFixtures.BASE.replace("\"mass\": 1500", "\"mass\": " + "[".repeat(100_000) + "]".repeat(100_000));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertEquals("m.json: labels.mass: expected a number or a string, found an array", e.getMessage());
     }
@@ -310,7 +310,7 @@ class ModelReaderTest {
 
     @Test
     void hugeStringIsRefusedByTheLimit() {
-        String json = TestModels.BASE.replace("\"narrow resonance", "\"" + "x".repeat(ModelReader.MAX_STRING + 1));
+        String json = ModelJsonFixtures.BASE.replace("\"narrow resonance", "\"" + "x".repeat(ModelReader.MAX_STRING + 1));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().contains("input limit exceeded: String value length"), e.getMessage());
         assertTrue(e.getMessage().startsWith("m.json: line 4, column "), e.getMessage());
@@ -319,14 +319,14 @@ class ModelReaderTest {
 
     @Test
     void hugeKeyIsRefusedByTheLimit() {
-        String json = TestModels.BASE.replace("\"mass\"", "\"" + "k".repeat(ModelReader.MAX_KEY + 1) + "\"");
+        String json = ModelJsonFixtures.BASE.replace("\"mass\"", "\"" + "k".repeat(ModelReader.MAX_KEY + 1) + "\"");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().contains("input limit exceeded: Name length"), e.getMessage());
     }
 
     @Test
     void longNumberIsRefusedByTheLimit() {
-        String json = TestModels.BASE.replace("\"mass\": 1500", "\"mass\": 1" + "0".repeat(ModelReader.MAX_NUMBER));
+        String json = ModelJsonFixtures.BASE.replace("\"mass\": 1500", "\"mass\": 1" + "0".repeat(ModelReader.MAX_NUMBER));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().contains("input limit exceeded: Number value length"), e.getMessage());
     }

@@ -4,8 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static plumb.engine.model.TestModels.REMOVE;
-import static plumb.engine.model.TestModels.edited;
+import static plumb.engine.model.ModelJsonFixtures.REMOVE;
+import static plumb.engine.model.ModelJsonFixtures.edited;
 
 import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
@@ -15,7 +15,7 @@ import org.junit.jupiter.params.provider.MethodSource;
 
 /**
  * One bad model per rule of docs/model-format.md (the source of every case below): each case edits
- * the valid {@link TestModels#BASE} so that exactly one rule breaks, and checks the JSON path the
+ * the valid {@link ModelJsonFixtures#BASE} so that exactly one rule breaks, and checks the JSON path the
  * error names (as the page's "Errors" section prescribes) and the wording of the rule.
  */
 class ModelRulesTest {
@@ -152,7 +152,7 @@ class ModelRulesTest {
                 bad("parameters[1].constraint.type", "required key is missing", "/parameters/1/constraint/type", REMOVE),
                 bad("parameters[1].constraint", "expected a constraint object or null, found a string",
                         "/parameters/1/constraint", "\"poisson\""),
-                // mcstat: names: only the generated ones (sr bins 0 and 1, see TestModels)
+                // mcstat: names: only the generated ones (sr bins 0 and 1, see ModelJsonFixtures)
                 bad("parameters[3].name", "\"mcstat:sr:2\" is not one of the generated MC-statistics parameters",
                         "/parameters/3/name", "\"mcstat:sr:2\""),
                 bad("parameters[3].name", "is not one of the generated", "/parameters/3/name", "\"mcstat:cr:0\""),
@@ -202,7 +202,7 @@ class ModelRulesTest {
     @Test
     void baseModelIsValid() {
         // guards the cases above: each must break exactly the rule it names, not the base
-        Model m = ModelReader.parse(TestModels.BASE, SRC);
+        Model m = ModelReader.parse(ModelJsonFixtures.BASE, SRC);
         assertEquals("diphoton-1500", m.name());
     }
 
@@ -233,13 +233,13 @@ class ModelRulesTest {
     @Test
     void poissonConstraintOnAFactorWithDefaultRangeIsAccepted() {
         // factor defaults: value 1, range [0, 10]; the range starts at 0, not below
-        Model m = ModelReader.parse(TestModels.BASE, SRC);
+        Model m = ModelReader.parse(ModelJsonFixtures.BASE, SRC);
         assertTrue(m.parameters().get(1).constraint() instanceof ParameterSpec.Poisson);
     }
 
     @Test
     void validatorChecksRecordsBuiltInCode() {
-        Model m = ModelReader.parse(TestModels.BASE, SRC);
+        Model m = ModelReader.parse(ModelJsonFixtures.BASE, SRC);
         Channel sr = m.channels().get(0);
         Sample nanSample = new Sample("nan", new double[] {1, Double.NaN, 1}, null, null, null);
         Channel bad = new Channel(sr.name(), null, sr.edges(), sr.observed(), java.util.List.of(nanSample));

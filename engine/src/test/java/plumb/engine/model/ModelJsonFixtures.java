@@ -14,7 +14,7 @@ import com.fasterxml.jackson.databind.node.ObjectNode;
  * δ_0 = sqrt(0.5² + 2²)/105 = 0.01963, δ_1 = sqrt(1² + 1²)/100 = 0.01414,
  * δ_2 = sqrt(0.4² + 0.1²)/64 = 0.00644, so γ exists for sr bins 0 and 1 only; "cr" gives no mcError.
  */
-final class TestModels {
+final class ModelJsonFixtures {
 
     static final String BASE = """
             {
@@ -77,7 +77,7 @@ final class TestModels {
 
     private static final ObjectMapper MAPPER = new ObjectMapper();
 
-    private TestModels() {
+    private ModelJsonFixtures() {
     }
 
     /**
