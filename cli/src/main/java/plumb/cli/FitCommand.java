@@ -11,6 +11,8 @@ import plumb.engine.compile.CompiledModel;
 import plumb.engine.model.ParameterKind;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
+import plumb.cli.table.Table;
+import plumb.cli.table.TableFormat;
 
 import java.io.PrintWriter;
 import java.util.ArrayList;
@@ -95,33 +97,38 @@ final class FitCommand implements Callable<Integer> {
         return r.errors()[i] / m.prefitWidth[i];
     }
 
+    private static String decimals(double v) {
+        return Double.isFinite(v) ? Numbers.fixed(v, 2) : Table.MISSING;
+    }
+
     private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult r) {
         out.printf(Locale.ROOT, "Maximum-likelihood fit of '%s' to the %s data%s%n", m.name, p.kind(),
                 p.asimovPoi() == null ? "" : String.format(Locale.ROOT, " (Asimov at %s = %s)",
                         m.poi >= 0 ? m.parameterNames[m.poi] : "poi", Numbers.plain(p.asimovPoi())));
-        out.printf(Locale.ROOT, "  status %s, -ln L = %.6f, %d evaluations, %.1f ms%n", r.status(), r.nll(),
+        out.printf(Locale.ROOT, "status %s, -ln L = %.6f, %d evaluations, %.1f ms%n%n", r.status(), r.nll(),
                 r.evaluations(), r.seconds() * 1e3);
-        out.printf("%n  %-28s %12s %10s %8s %10s%n", "parameter", "value", "error", "pull", "constraint");
+        Table.Builder t = Table.builder(null, "parameter", "value ± error", "pull", "constraint", "");
         int hiddenGamma = 0, flaggedGamma = 0;
         for (int i = 0; i < m.nAll; i++) {
             double pull = pull(m, r, i), cons = constraint(m, r, i);
-            boolean flag = Math.abs(pull) > 1 || cons < 0.5;
+            boolean pulled = Math.abs(pull) > 1, constrained = cons < 0.5;
             if (m.kind[i] == ParameterKind.MC_STATISTICS && !showMcStat) {
                 hiddenGamma++;
-                if (flag) flaggedGamma++;
+                if (pulled || constrained) flaggedGamma++;
                 continue;
             }
-            out.printf(Locale.ROOT, "  %-28s %12s %10s %8s %10s%s%s%n", m.parameterNames[i],
-                    Numbers.plain(r.values()[i]), r.held()[i] ? "fixed" : Numbers.plain(r.errors()[i]),
-                    Numbers.fixed(pull, 2), Numbers.fixed(cons, 2), i == m.poi ? "  POI" : "",
-                    flag ? "  <- " + (Math.abs(pull) > 1 ? "pulled" : "") + (Math.abs(pull) > 1 && cons < 0.5 ? ", " : "")
-                            + (cons < 0.5 ? "constrained" : "") : "");
+            String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained" : "");
+            t.row(m.parameterNames[i],
+                    r.held()[i] ? Table.number(r.values()[i], 4) + " (fixed)" : Table.measurement(r.values()[i], r.errors()[i]),
+                    decimals(pull), decimals(cons), flags.strip());
         }
+        out.print(TableFormat.TEXT.render(t.build()));
         if (hiddenGamma > 0) {
-            out.printf("  (%d MC-statistics parameters not listed, %d of them flagged; --show-mcstat lists them)%n",
+            out.printf("(%d MC-statistics parameters not listed, %d of them flagged; --show-mcstat lists them)%n",
                     hiddenGamma, flaggedGamma);
         }
-        out.println("  flags: |pull| > 1 (pulled), error/prefit width < 0.5 (constrained)");
+        out.println("pull = (value - prefit value)/prefit width, flagged 'pulled' when |pull| > 1;");
+        out.println("constraint = error/prefit width, flagged 'constrained' when < 0.5.");
         out.flush();
     }
 }
