@@ -10,7 +10,7 @@ import plumb.cli.plot.ScanCurve;
  *
  * @param impactsTop how many parameters the impacts figure ranks
  */
-public record ReportInput(RunSummary summary, FitResult fit, Impacts impacts, int impactsTop,
+public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, int impactsTop,
                           List<ChannelYields> yields, ScanCurve scan, Results.Discovery discovery,
                           Results.Limits limits, Results.GoodnessOfFit gof, List<Results.Injection> injection,
                           List<Results.Attachment> attachments) {
@@ -31,7 +31,7 @@ public record ReportInput(RunSummary summary, FitResult fit, Impacts impacts, in
         return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null);
     }
 
-    public ReportInput withFit(FitResult fit) {
+    public ReportInput withFit(FitSection fit) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
     }
 

@@ -161,7 +161,7 @@ public final class ReportWriter {
 
     private void fitSection() throws IOException {
         open("fit", "Fit results");
-        FitResult fit = in.fit();
+        FitSection fit = in.fit();
         if (fit == null) {
             notRun();
             return;
@@ -172,7 +172,7 @@ public final class ReportWriter {
         if (fit.evaluations() >= 0) html.append(", ").append(fit.evaluations()).append(" likelihood evaluations");
         html.append(".</p>\n");
         Table.Builder t = Table.builder(null, "Parameter", "Fitted", "Pre-fit", "Pull", "Constraint");
-        for (FitResult.Parameter p : fit.parameters()) {
+        for (FitSection.Parameter p : fit.parameters()) {
             String prefit = Double.isNaN(p.prefitWidth()) ? (Double.isNaN(p.prefitValue()) ? "free" : Table.number(p.prefitValue(), 4) + " (free)")
                     : Table.measurement(p.prefitValue(), p.prefitWidth());
             t.row(p.name(), Table.measurement(p.value(), p.error()), prefit, fixed(p.pull(), 2), fixed(p.constraint(), 2));

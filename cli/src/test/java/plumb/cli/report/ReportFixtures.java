@@ -29,16 +29,16 @@ final class ReportFixtures {
                 20240611L, "0.1.0", 83.4, labels, List.of("variation 'fake_rate' is one-sided in channel ctrl_highpt"),
                 List.of("scan point mu_res=2.9"));
 
-        List<FitResult.Parameter> params = new ArrayList<>();
-        params.add(new FitResult.Parameter("mu_res", 1.08, 0.27, 1, Double.NaN, Double.NaN, Double.NaN));
+        List<FitSection.Parameter> params = new ArrayList<>();
+        params.add(new FitSection.Parameter("mu_res", 1.08, 0.27, 1, Double.NaN, Double.NaN, Double.NaN));
         for (Pulls.Entry e : Fixtures.pulls().entries()) {
             double c = Double.isNaN(e.constraint()) ? 1 : e.constraint();
-            params.add(new FitResult.Parameter(e.name(), e.pull(), c, 0, 1, e.pull(), c));
+            params.add(new FitSection.Parameter(e.name(), e.pull(), c, 0, 1, e.pull(), c));
         }
         CorrelationMatrix corr = Fixtures.correlation(params.size());
         List<String> names = new ArrayList<>();
-        for (FitResult.Parameter p : params) names.add(p.name());
-        FitResult fit = new FitResult(true, 1234.56789, params, new CorrelationMatrix(null, names, corr.matrix()), 1.73, 4210);
+        for (FitSection.Parameter p : params) names.add(p.name());
+        FitSection fit = new FitSection(true, 1234.56789, params, new CorrelationMatrix(null, names, corr.matrix()), 1.73, 4210);
 
         List<ChannelYields> yields = List.of(channel(Fixtures.diphoton("post-fit"), true), channel(Fixtures.falling(true), false));
 

@@ -14,7 +14,7 @@ import plumb.cli.plot.Pulls;
  * @param seconds     wall time of the minimisation (NaN: unknown)
  * @param evaluations number of likelihood evaluations (negative: unknown)
  */
-public record FitResult(boolean converged, double nll, List<Parameter> parameters, CorrelationMatrix correlation,
+public record FitSection(boolean converged, double nll, List<Parameter> parameters, CorrelationMatrix correlation,
                         double seconds, long evaluations) {
 
     /**
@@ -35,7 +35,7 @@ public record FitResult(boolean converged, double nll, List<Parameter> parameter
         }
     }
 
-    public FitResult {
+    public FitSection {
         parameters = List.copyOf(parameters);
     }
 
