@@ -58,6 +58,16 @@ public final class InjectionToys {
         this.pulled = Arrays.copyOf(p, k);
     }
 
+    /**
+     * The seed of the toys of the {@code k}-th injected value of a run with {@code seed}: the seed
+     * itself for the first, then seeds a large odd step apart, so that the points of a linearity
+     * fit come from independent toys (the weighted line fit assumes independent points) while a
+     * run of one value equals the first value of a longer list.
+     */
+    public static long injectionSeed(long seed, int k) {
+        return seed + k * 0xD1B54A32D192ED03L;
+    }
+
     public CompiledModel model() {
         return m;
     }
