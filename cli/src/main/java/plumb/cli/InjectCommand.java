@@ -55,7 +55,7 @@ final class InjectCommand implements Callable<Integer> {
 
     @Mixin ModelInput input;
 
-    @Option(names = "--mu", required = true, split = ",", paramLabel = "X[,X...]",
+    @Option(names = "--mu", required = true, split = ",", paramLabel = "X",
             description = "Injected POI value(s); several give the linearity of fitted against injected.")
     List<Double> mu;
 

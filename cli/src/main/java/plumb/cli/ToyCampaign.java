@@ -212,8 +212,10 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
         JsonNode root;
         try {
             root = Json.mapper().readTree(Files.newInputStream(file));
+        } catch (java.nio.file.NoSuchFileException e) {
+            throw new InputException(file + ": no such file");
         } catch (IOException e) {
-            throw new InputException(file + ": cannot read a toy batch: " + e.getMessage().lines().findFirst().orElse(""));
+            throw new InputException(file + ": cannot read a toy batch: " + String.valueOf(e.getMessage()).lines().findFirst().orElse(""));
         }
         Reader r = new Reader(file);
         if (root == null || !root.isObject()) throw r.bad("", "is not a JSON object");
