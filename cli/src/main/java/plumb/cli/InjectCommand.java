@@ -1,0 +1,381 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.AsimovClosure;
+import plumb.engine.inference.DataSets;
+import plumb.engine.inference.FitSettings;
+import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.InjectionToys;
+import plumb.engine.inference.ToyFit;
+import plumb.engine.likelihood.DataSet;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.security.DigestInputStream;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.HexFormat;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.concurrent.Callable;
+
+/**
+ * {@code plumb inject MODEL --mu X[,X…] --toys N}: toys generated at POI = X, each fitted; the mean
+ * fitted POI, bias, pull mean and width, 68 % coverage, nuisance pulls, and with several values
+ * the linearity of fitted against injected. {@code --asimov} adds the Asimov closure check,
+ * reported first. {@code --first K --count N} runs one batch and writes a part file for
+ * {@code plumb merge-toys}.
+ */
+@Command(name = "inject", mixinStandardHelpOptions = true,
+        description = "Signal injection: toy data sets at POI = X, each fitted; bias, pulls, coverage, nuisance "
+                + "pulls, linearity over several X, and the Asimov closure check (--asimov).")
+final class InjectCommand implements Callable<Integer> {
+
+    /** Toys per injected value when --toys is not given (and --asimov is not asked alone). */
+    static final int DEFAULT_TOYS = 1000;
+
+    /** Share of the JVM's maximum heap the toys' results may take (the rest: fits, JSON, the model). */
+    static final double MEMORY_SHARE = 0.5;
+
+    /** Where the nuisance values of the generating point come from. */
+    enum From { nominal, postfit }
+
+    @Mixin ModelInput input;
+
+    @Option(names = "--mu", required = true, split = ",", paramLabel = "X",
+            description = "Injected POI value(s); several give the linearity of fitted against injected.")
+    List<Double> mu;
+
+    @Option(names = "--toys", paramLabel = "N",
+            description = "Toys per injected value (default: " + DEFAULT_TOYS + ", or none with --asimov alone).")
+    Integer toys;
+
+    @Option(names = "--from", defaultValue = "nominal", paramLabel = "nominal|postfit",
+            description = "Nuisance values the toys are generated at: nominal (default), or those of a fit to the "
+                    + "observed data with the POI held at X.")
+    From from;
+
+    @Option(names = "--no-aux-fluctuation",
+            description = "Keep the auxiliary values (constraint centres, Poisson counts) at their generating values.")
+    boolean noAuxFluctuation;
+
+    @Option(names = "--asimov", description = "Asimov closure check: a fit to the Asimov data set at each X must return "
+            + "every parameter to its generating value within " + InjectionToys.CLOSURE_TOLERANCE + "; reported first.")
+    boolean asimov;
+
+    @Option(names = "--nuisances", description = "List every constrained parameter's pull mean and width over the toys "
+            + "(the JSON always has them; without this only flagged ones are listed).")
+    boolean showNuisances;
+
+    @Option(names = "--first", paramLabel = "K", description = "Batch mode: first toy index (default 0 with --count).")
+    Long first;
+
+    @Option(names = "--count", paramLabel = "N",
+            description = "Batch mode: run toys K..K+N-1 and write a part file (--json) for 'plumb merge-toys'.")
+    Integer count;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output); "
+            + "in batch mode the part file.")
+    String json;
+
+    @Option(names = "--fix", paramLabel = "NAME=X", description = "Hold a parameter at X in generation and fits (repeatable).")
+    List<String> fix = new ArrayList<>();
+
+    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (default: all cores); results do not depend on it.")
+    Integer threads;
+
+    @Option(names = "--seed", paramLabel = "N", defaultValue = "1",
+            description = "Seed of the toys (default: ${DEFAULT-VALUE}); equal seeds give equal results.")
+    long seed;
+
+    @Option(names = "--optimizer", paramLabel = "newton|reference", defaultValue = "newton",
+            description = "Minimiser: newton (default) or reference (derivative-free BOBYQA).")
+    String optimizer;
+
+    @Option(names = "--explicit-mcstat",
+            description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
+    boolean explicitMcStat;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        ModelInput.Loaded loaded = input.load();
+        CompiledModel m = loaded.compiled();
+        FitOptions options = fitOptions();
+        boolean batch = first != null || count != null;
+        int perValue = checkOptions(m, batch);
+        Map<Integer, Double> fixes = options.fixes(m);
+        if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
+        if (fixes.containsKey(m.poi)) throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held in an injection");
+        if (m.fixed[m.poi]) throw new InputException(input.file + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
+        for (double x : mu) {
+            if (!(x >= m.lower[m.poi] && x <= m.upper[m.poi])) {
+                throw new InputException(String.format(Locale.ROOT, "--mu %s is outside the POI range [%s, %s]",
+                        Numbers.plain(x), Numbers.plain(m.lower[m.poi]), Numbers.plain(m.upper[m.poi])));
+            }
+        }
+        boolean postfit = from == From.postfit;
+        if (postfit && !DataSet.observed(m).anyChannel()) {
+            throw new InputException("--from postfit: every channel of the model is blinded, there is no fit to start from");
+        }
+        int[] held = fixes.keySet().stream().mapToInt(Integer::intValue).toArray();
+        double[] heldValues = fixes.values().stream().mapToDouble(Double::doubleValue).toArray();
+        FitSettings settings = options.settings();
+        InjectionToys engine = new InjectionToys(m, settings, held, heldValues);
+        int[] pulled = engine.pulledParameters();
+        checkMemory(perValue, pulled.length);
+        int threadCount = options.threadCount();
+
+        PrintWriter out = spec.commandLine().getOut();
+        PrintWriter err = spec.commandLine().getErr();
+        boolean table = !"-".equals(json);
+
+        List<double[]> points = new ArrayList<>();
+        for (double x : mu) {
+            DataSets.Generated g = engine.generatingPoint(x, postfit);
+            if (g.conditionalFit() != null && !g.conditionalFit().converged()) {
+                throw new ComputationException(String.format(Locale.ROOT,
+                        "the fit to the observed data with %s = %s did not converge (%s); use --from nominal",
+                        m.parameterNames[m.poi], Numbers.plain(x), g.conditionalFit().status()));
+            }
+            points.add(g.values());
+        }
+
+        if (table) {
+            out.printf(Locale.ROOT, "Signal injection into '%s': %s = %s, %d toys each, nuisances at %s values, %s, seed %d%n",
+                    m.name, m.parameterNames[m.poi], joined(), perValue, from == From.postfit ? "post-fit" : "nominal",
+                    noAuxFluctuation ? "auxiliary values held" : "auxiliary values fluctuated", seed);
+            out.flush();
+        }
+
+        List<ObjectNode> closures = null;
+        boolean closureFailed = false;
+        if (asimov) {
+            closures = new ArrayList<>();
+            if (table) out.printf("%nAsimov closure (fit to the Asimov data set from the nominal values):%n");
+            for (int k = 0; k < mu.size(); k++) {
+                AsimovClosure c = engine.closure(points.get(k));
+                closures.add(closureJson(m, c));
+                closureFailed |= !c.passed();
+                if (table) printClosure(out, m, c);
+            }
+            out.flush();
+        }
+
+        List<ToyCampaign.Injection> injections = new ArrayList<>();
+        long firstToy = first == null ? 0 : first;
+        for (int k = 0; k < mu.size(); k++) {
+            ToyFit[] fits;
+            try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
+                    Numbers.plain(mu.get(k))), perValue, err)) {
+                fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy, perValue, threadCount, i -> bar.step());
+            }
+            injections.add(new ToyCampaign.Injection(mu.get(k), fits));
+        }
+        String[] names = new String[pulled.length];
+        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
+        ToyCampaign campaign = new ToyCampaign(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
+                perValue, injections);
+
+        if (batch) {
+            campaign.writePart(json, out);
+            if (table) {
+                out.printf(Locale.ROOT, "wrote toys %d..%d of each value to %s; merge the parts with 'plumb merge-toys'%n",
+                        firstToy, firstToy + perValue - 1, json);
+            }
+            return ExitCodes.OK;
+        }
+        List<InjectionSummary> summaries = campaign.summaries();
+        if (json != null) Outputs.write(json, Json.write(campaign.resultJson(closures, summaries)), out);
+        if (table && perValue > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
+        int status = ExitCodes.OK;
+        if (closureFailed) {
+            err.println("plumb inject: the Asimov closure check failed (see above)");
+            status = ExitCodes.FAILED;
+        }
+        for (InjectionSummary s : summaries) {
+            if (s.toys() > 0 && s.converged() == 0) {
+                err.printf(Locale.ROOT, "plumb inject: no toy fit at %s = %s converged%n", m.parameterNames[m.poi],
+                        Numbers.plain(s.injected()));
+                status = ExitCodes.FAILED;
+            }
+        }
+        err.flush();
+        return status;
+    }
+
+    /** The shared fit options, filled from this command's own (inject has no --data). */
+    private FitOptions fitOptions() {
+        FitOptions o = new FitOptions();
+        o.fix = fix;
+        o.threads = threads;
+        o.seed = seed;
+        o.optimizer = optimizer;
+        o.explicitMcStat = explicitMcStat;
+        return o;
+    }
+
+    /** Checks option combinations; returns the toys per injected value. */
+    private int checkOptions(CompiledModel m, boolean batch) {
+        Set<Double> seen = new HashSet<>();
+        for (double x : mu) {
+            if (!Double.isFinite(x)) throw new InputException("--mu " + x + " is not a finite number");
+            if (!seen.add(x)) throw new InputException("--mu " + Numbers.plain(x) + " is given twice");
+        }
+        if (batch) {
+            if (toys != null) throw new InputException("--toys cannot be combined with --first/--count (the batch size is --count)");
+            if (count == null) throw new InputException("--first needs --count (the number of toys of the batch)");
+            if (count < 1) throw new InputException("--count must be at least 1, got " + count);
+            if (first != null && first < 0) throw new InputException("--first must be at least 0, got " + first);
+            if (first != null && first > Long.MAX_VALUE - count) throw new InputException("--first " + first + " is too large");
+            if (asimov) throw new InputException("--asimov cannot be combined with --first/--count (batches hold toys only)");
+            if (json == null) throw new InputException("--count needs --json FILE: a batch is written as a part file for 'plumb merge-toys'");
+            return count;
+        }
+        int n = toys != null ? toys : asimov ? 0 : DEFAULT_TOYS;
+        if (n < 0 || (n == 0 && !asimov)) throw new InputException("--toys must be at least 1, got " + n);
+        return n;
+    }
+
+    /**
+     * Refuses a run whose toy results would not fit in memory: the results of every toy are kept
+     * (they are summed in index order, which makes results independent of threads and batches).
+     */
+    private void checkMemory(int perValue, int pulls) {
+        long need = (long) perValue * mu.size() * ToyFit.estimatedBytes(pulls);
+        long budget = (long) (Runtime.getRuntime().maxMemory() * MEMORY_SHARE);
+        if (need > budget) {
+            throw new InputException(String.format(Locale.ROOT,
+                    "--toys %d: %d toys x %d injected values need about %s of memory for their results, more than "
+                            + "the %s available; run fewer toys, or batches (--first/--count, then 'plumb merge-toys'), "
+                            + "or give Java more memory (PLUMB_JAVA_OPTS=-Xmx...)",
+                    perValue, perValue, mu.size(), bytes(need), bytes(budget)));
+        }
+    }
+
+    private static String bytes(long b) {
+        return b >= 1L << 30 ? String.format(Locale.ROOT, "%.1f GB", b / (double) (1L << 30))
+                : String.format(Locale.ROOT, "%.0f MB", Math.ceil(b / (double) (1L << 20)));
+    }
+
+    /** Every setting the toys' results depend on; batches merge only when these are equal. */
+    private ObjectNode runIdentity(ModelInput.Loaded loaded, CompiledModel m, Map<Integer, Double> fixes, FitSettings s) {
+        ObjectNode run = Json.object();
+        run.put("model", m.name);
+        run.put("modelSha256", sha256(loaded));
+        run.put("poi", m.parameterNames[m.poi]);
+        ArrayNode inj = run.putArray("injected");
+        for (double x : mu) inj.add(x);
+        run.put("from", from.name());
+        run.put("auxFluctuation", !noAuxFluctuation);
+        run.put("seed", seed);
+        ArrayNode f = run.putArray("fix");
+        fixes.forEach((i, v) -> f.add(m.parameterNames[i] + "=" + v));
+        run.put("optimizer", s.optimizer().name().toLowerCase(Locale.ROOT));
+        run.put("explicitMcStat", s.explicitGamma());
+        return run;
+    }
+
+    private static String sha256(ModelInput.Loaded loaded) {
+        try (InputStream in = new DigestInputStream(Files.newInputStream(loaded.file()), MessageDigest.getInstance("SHA-256"))) {
+            in.transferTo(java.io.OutputStream.nullOutputStream());
+            return HexFormat.of().formatHex(((DigestInputStream) in).getMessageDigest().digest());
+        } catch (IOException e) {
+            throw new InputException(loaded.file() + ": cannot read: " + e.getMessage());
+        } catch (NoSuchAlgorithmException e) {
+            throw new IllegalStateException(e); // every Java platform has SHA-256
+        }
+    }
+
+    /** The closure's JSON: overall outcome, then every parameter not held. */
+    static ObjectNode closureJson(CompiledModel m, AsimovClosure c) {
+        ObjectNode o = Json.object();
+        Json.put(o, "injected", c.injected());
+        o.put("converged", c.fit().converged());
+        o.put("status", c.fit().status().name());
+        o.put("passed", c.passed());
+        o.put("tolerance", InjectionToys.CLOSURE_TOLERANCE);
+        Json.put(o, "maxDeviation", c.maxDeviation());
+        if (c.worstParameter() >= 0) o.put("worstParameter", m.parameterNames[c.worstParameter()]);
+        else o.putNull("worstParameter");
+        ArrayNode list = o.putArray("parameters");
+        for (int i = 0; i < m.nAll; i++) {
+            if (c.fit().held()[i]) continue;
+            ObjectNode p = list.addObject();
+            p.put("name", m.parameterNames[i]);
+            Json.put(p, "generating", c.generating()[i]);
+            Json.put(p, "fitted", c.fit().values()[i]);
+            Json.put(p, "deviation", c.fit().values()[i] - c.generating()[i]);
+        }
+        return o;
+    }
+
+    private static void printClosure(PrintWriter out, CompiledModel m, AsimovClosure c) {
+        out.printf(Locale.ROOT, "  %s = %-8s %s, fitted %s = %s, largest |fitted - generating| = %s (%s): %s%n",
+                m.parameterNames[m.poi], Numbers.plain(c.injected()), c.fit().status(), m.parameterNames[m.poi],
+                Numbers.plain(c.fit().values()[m.poi]), String.format(Locale.ROOT, "%.2e", c.maxDeviation()),
+                c.worstParameter() >= 0 ? m.parameterNames[c.worstParameter()] : "-",
+                c.passed() ? "passed" : "FAILED (tolerance " + InjectionToys.CLOSURE_TOLERANCE + ")");
+    }
+
+    /** The terminal table of the toys (shared with merge-toys). */
+    static void printSummaries(PrintWriter out, List<InjectionSummary> summaries, boolean allNuisances, String poi) {
+        out.printf("%nToys (pull = (fitted - injected)/error; errors of pull widths: Gaussian approximation):%n");
+        out.printf("  %-10s %6s %9s %18s %10s %15s %15s %15s%n", "injected", "toys", "converged", "mean fitted",
+                "bias", "pull mean", "pull width", "coverage 68%");
+        for (InjectionSummary s : summaries) {
+            out.printf(Locale.ROOT, "  %-10s %6d %9d %18s %10s %15s %15s %15s%s%n", Numbers.plain(s.injected()), s.toys(),
+                    s.converged(), pm(s.mean(), s.meanError(), 4), Numbers.fixed(s.bias(), 4),
+                    pm(s.pullMean(), s.pullMeanError(), 3), pm(s.pullWidth(), s.pullWidthError(), 3),
+                    pm(s.coverage68(), s.coverage68Error(), 3), s.converged() > 1 && s.flagged() ? "  <- off by > 3 SE" : "");
+            if (!s.nonConverged().isEmpty()) out.printf("  %10s not converged: %s%n", "", s.nonConverged());
+        }
+        out.printf(Locale.ROOT, "  flag: pull mean or width, or coverage, more than 3 standard errors from 0, 1 and %.4f%n",
+                InjectionSummary.GAUSSIAN_68);
+        var line = ToyCampaign.linearity(summaries);
+        if (line != null) {
+            out.printf(Locale.ROOT, "%nLinearity (mean fitted %s = offset + slope x injected, weighted least squares):%n", poi);
+            out.printf(Locale.ROOT, "  slope %s, offset %s%n", pm(line.slope(), line.slopeError(), 4),
+                    pm(line.offset(), line.offsetError(), 4));
+        }
+        for (InjectionSummary s : summaries) {
+            int flagged = 0;
+            for (InjectionSummary.NuisancePull p : s.nuisances()) if (p.flagged()) flagged++;
+            out.printf(Locale.ROOT, "%nNuisance pulls (fitted - generating)/error at %s = %s: %d of %d flagged "
+                    + "(mean or width more than 3 SE from 0 and 1)%s%n", poi, Numbers.plain(s.injected()), flagged,
+                    s.nuisances().size(), allNuisances || flagged == 0 ? "" : "; --nuisances lists all");
+            if (flagged == 0 && !allNuisances) continue;
+            out.printf("  %-32s %15s %15s%n", "parameter", "pull mean", "pull width");
+            for (InjectionSummary.NuisancePull p : s.nuisances()) {
+                if (!allNuisances && !p.flagged()) continue;
+                out.printf(Locale.ROOT, "  %-32s %15s %15s%s%n", p.parameter(), pm(p.pullMean(), p.pullMeanError(), 3),
+                        pm(p.pullWidth(), p.pullWidthError(), 3), p.flagged() ? "  <- flagged" : "");
+            }
+        }
+        out.flush();
+    }
+
+    private static String pm(double v, double e, int decimals) {
+        return Numbers.fixed(v, decimals) + " ± " + Numbers.fixed(e, decimals);
+    }
+
+    private String joined() {
+        StringBuilder b = new StringBuilder();
+        for (double x : mu) b.append(b.length() == 0 ? "" : ", ").append(Numbers.plain(x));
+        return b.toString();
+    }
+}
