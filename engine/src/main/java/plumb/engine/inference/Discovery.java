@@ -62,10 +62,10 @@ public final class Discovery {
     /** q0 of the fitter's current data, fits started from {@code start}; NaN when a fit fails. */
     static double q0(CompiledModel m, Fitter fitter, double[] start) {
         FitResult best = fitter.fit(start, -1, 0);
-        if (!best.converged()) return Double.NaN;
+        if (!PoiProfile.minimumFound(best)) return Double.NaN;
         if (best.values()[m.poi] <= 0) return 0;
         FitResult zero = fitter.fit(best.values(), m.poi, 0);
-        if (!zero.converged()) return Double.NaN;
+        if (!PoiProfile.minimumFound(zero)) return Double.NaN;
         return Math.max(0, 2 * (zero.nll() - best.nll()));
     }
 }

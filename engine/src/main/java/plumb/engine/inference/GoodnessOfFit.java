@@ -93,7 +93,7 @@ public final class GoodnessOfFit {
      */
     public static Result compute(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues) {
         FitResult fit = new Fitter(m, data, settings, held, heldValues).fit();
-        if (!fit.converged()) {
+        if (!PoiProfile.minimumFound(fit)) {
             throw new InferenceException(String.format(Locale.ROOT, "the fit to the %s data did not converge (%s)",
                     data.kind(), fit.status()));
         }
@@ -140,7 +140,7 @@ public final class GoodnessOfFit {
                     DataSet toy = Toys.generate(m, expected, fitted, channels, seed, i, true);
                     fitter.setData(toy);
                     FitResult r = fitter.fit(fitted, -1, 0);
-                    return r.converged() ? statistic(m, toy, r.values(), null) : Double.NaN;
+                    return PoiProfile.minimumFound(r) ? statistic(m, toy, r.values(), null) : Double.NaN;
                 }, progress);
         double[] out = new double[toys];
         for (int i = 0; i < toys; i++) out[i] = s.get(i);

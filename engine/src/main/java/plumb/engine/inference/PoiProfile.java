@@ -2,6 +2,7 @@ package plumb.engine.inference;
 
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.likelihood.DataSet;
+import plumb.engine.minimise.MinimumStatus;
 
 import java.util.Locale;
 import java.util.TreeMap;
@@ -50,12 +51,22 @@ public final class PoiProfile {
             best = fitter.fit();
             fitter.computeErrors(false);
             fits++;
-            if (!best.converged()) {
+            if (!minimumFound(best)) {
                 throw new InferenceException(String.format(Locale.ROOT, "the fit to %s did not converge (%s)", what,
                         best.status()));
             }
         }
         return best;
+    }
+
+    /**
+     * Whether a fit found the minimum −ln L a test statistic needs: converged, or stopped at a
+     * minimum where only the curvature is missing (NOT_POSITIVE_DEFINITE_AT_MINIMUM). The latter
+     * is routine for q̃μ and q0: with no events in a bin −ln L is linear in the POI, and the best
+     * fit sits on the bound μ = 0 with zero curvature; its value is exact, only its error is not.
+     */
+    static boolean minimumFound(FitResult r) {
+        return r.converged() || r.status() == MinimumStatus.NOT_POSITIVE_DEFINITE_AT_MINIMUM;
     }
 
     /** Fits made so far. */
@@ -81,11 +92,11 @@ public final class PoiProfile {
         double[] start = nearestStart(mu);
         FitResult r = fitter.fit(start, m.poi, mu);
         fits++;
-        if (!r.converged()) {
+        if (!minimumFound(r)) {
             r = fitter.fit(fitter.nominalStart(), m.poi, mu);
             fits++;
         }
-        if (!r.converged()) {
+        if (!minimumFound(r)) {
             throw new InferenceException(String.format(Locale.ROOT,
                     "the fit to %s with %s held at %s did not converge (%s)", what, m.parameterNames[m.poi], mu,
                     r.status()));

@@ -219,7 +219,7 @@ public final class ToyLimits {
                 fitter.setData(toy);
                 FitResult best = fitter.fit(generatingZero, -1, 0);
                 fits.incrementAndGet();
-                return new BackgroundToy(toy, best.converged() ? best : null);
+                return new BackgroundToy(toy, PoiProfile.minimumFound(best) ? best : null);
             }, this::tick);
             background = toys.toArray(new BackgroundToy[0]);
             for (BackgroundToy t : background) if (t.best() == null) failed++;
@@ -245,7 +245,7 @@ public final class ToyLimits {
                     fitter.setData(Toys.generate(m, expected, generating, channels, seedSb, i, true));
                     FitResult best = fitter.fit(generating, -1, 0);
                     fits.incrementAndGet();
-                    return best.converged() ? qTilde(fitter, best, mu) : Double.NaN;
+                    return PoiProfile.minimumFound(best) ? qTilde(fitter, best, mu) : Double.NaN;
                 }
                 BackgroundToy toy = background[i - n];
                 if (toy.best() == null) return Double.NaN;
@@ -283,12 +283,12 @@ public final class ToyLimits {
             if (muHat < 0) {   // only with a POI range below 0: the q̃μ denominator is L(0, θ̂̂(0))
                 FitResult zero = fitter.fit(best.values(), m.poi, 0);
                 fits.incrementAndGet();
-                if (!zero.converged()) return Double.NaN;
+                if (!PoiProfile.minimumFound(zero)) return Double.NaN;
                 denominator = zero.nll();
             }
             FitResult at = fitter.fit(best.values(), m.poi, mu);
             fits.incrementAndGet();
-            return at.converged() ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
+            return PoiProfile.minimumFound(at) ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
         }
 
         /**
