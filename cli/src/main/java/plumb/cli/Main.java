@@ -9,8 +9,9 @@ import java.io.PrintWriter;
 /** The {@code plumb} command: subcommands, and one place that turns failures into exit codes. */
 @Command(name = "plumb", mixinStandardHelpOptions = true, version = "plumb " + Main.VERSION,
         description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
-        subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class, InjectCommand.class,
-                MergeToysCommand.class})
+        subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
+                LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
+                InjectCommand.class, MergeToysCommand.class})
 public final class Main implements Runnable {
 
     public static final String VERSION = "0.1.0";

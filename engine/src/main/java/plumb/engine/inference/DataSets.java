@@ -45,7 +45,7 @@ public final class DataSets {
         FitResult conditional = null;
         DataSet observed = DataSet.observed(m);
         if (postfit && observed.anyChannel()) {
-            Fitter fitter = new Fitter(m, observed, settings, hold, holdValues);
+            Fitter fitter = Fitter.valuesOnly(m, observed, settings, hold, holdValues);
             conditional = fitter.fit();
             values = conditional.values();
         }

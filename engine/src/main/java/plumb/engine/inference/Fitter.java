@@ -27,6 +27,7 @@ public final class Fitter {
     /** Held in every fit of this fitter: the model's fixed parameters and the caller's. */
     private final boolean[] baseHeld;
     private final double[] baseStart;
+    private boolean computeErrors = true;
 
     /**
      * @param held   parameters (index &lt; nAll) to hold in every fit, with their values in {@code heldValues}
@@ -58,6 +59,14 @@ public final class Fitter {
         this(model, data, settings, new int[0], new double[0]);
     }
 
+    /** A fitter whose fits skip the covariance and errors ({@link #computeErrors}): for refits and toys. */
+    public static Fitter valuesOnly(CompiledModel model, DataSet data, FitSettings settings, int[] held,
+                                    double[] heldValues) {
+        Fitter f = new Fitter(model, data, settings, held, heldValues);
+        f.computeErrors(false);
+        return f;
+    }
+
     public BinnedNll likelihood() {
         return nll;
     }
@@ -69,6 +78,16 @@ public final class Fitter {
     /** Evaluates on other data from now on (toys). */
     public void setData(DataSet data) {
         nll.setData(data);
+    }
+
+    /**
+     * Whether fits compute the covariance and errors (default true). Limits, discovery tests and
+     * toys need only −ln L and the values; on large models the inverse Hessian and the γ variances
+     * cost more than the minimisation itself. Without them a result's errors are NaN and its
+     * covariance null.
+     */
+    public void computeErrors(boolean on) {
+        computeErrors = on;
     }
 
     /** Number of variables the minimiser sees (nParams, or nAll with explicit γ). */
@@ -207,7 +226,7 @@ public final class Fitter {
         final int nP = m.nParams;
         double[] values = new double[m.nAll];
         nll.allValues(r.x(), values);
-        double[] cov = r.covariance();
+        double[] cov = computeErrors ? r.covariance() : null;
         MinimumStatus status = r.status();
         double[] errors = new double[m.nAll];
         double[] covTheta = null;

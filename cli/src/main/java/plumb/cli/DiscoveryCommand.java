@@ -1,0 +1,138 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import org.apache.commons.math3.distribution.NormalDistribution;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.Discovery;
+import plumb.engine.inference.InferenceException;
+import plumb.engine.inference.ToyPValue;
+
+import java.io.PrintWriter;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+
+/** {@code plumb discovery MODEL}: the test of μ = 0 with q0, observed and expected. */
+@Command(name = "discovery", mixinStandardHelpOptions = true,
+        description = "Discovery test of POI = 0 with the q0 statistic: observed and expected (Asimov) significance; "
+                + "with --toys the observed p-value from background-only toys.")
+final class DiscoveryCommand implements Callable<Integer> {
+
+    @Mixin ModelInput input;
+    @Mixin FitOptions fit;
+
+    @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N background-only toys.")
+    Integer toys;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        ModelInput.Loaded l = input.load();
+        CompiledModel m = l.compiled();
+        // The expected significance is on the Asimov set at --asimov-poi (default 1); --data asimov
+        // then tests that same set.
+        double expectedPoi = fit.asimovPoi == null ? 1.0 : fit.asimovPoi;
+        if (m.poi < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
+        if (!(expectedPoi >= m.lower[m.poi] && expectedPoi <= m.upper[m.poi])) {
+            throw new InputException(String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range [%s, %s]",
+                    expectedPoi, m.lower[m.poi], m.upper[m.poi]));
+        }
+        PoiData d = PoiData.resolve(l.file(), m, fit, expectedPoi, expectedPoi);
+        Discovery.Significance observed = null, expected;
+        ToyPValue toy = null;
+        try {
+            expected = Discovery.compute(m, d.expected(), d.settings(), d.held(), d.heldValues());
+            if (!d.blinded()) {
+                observed = Discovery.compute(m, d.data(), d.settings(), d.held(), d.heldValues());
+                if (toys != null) {
+                    try (ToyProgressBar bar = new ToyProgressBar("toys", toys)) {
+                        toy = Discovery.toys(m, d.data(), d.settings(), d.held(), d.heldValues(), toys, fit.seed,
+                                fit.threadCount(), bar);
+                    }
+                }
+            }
+        } catch (InferenceException e) {
+            throw new ComputationException(e.getMessage());
+        }
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, d, observed, expected, toy)), out);
+        if (!"-".equals(json)) print(out, l, d, observed, expected, toy);
+        return ExitCodes.OK;
+    }
+
+    private ObjectNode toJson(CompiledModel m, PoiData d, Discovery.Significance observed,
+                              Discovery.Significance expected, ToyPValue toy) {
+        ObjectNode root = Json.result(m.labels, d.kind());
+        root.put("poi", m.parameterNames[m.poi]);
+        root.put("statistic", "q0");
+        if (observed == null) root.putNull("observed");
+        else put(root.putObject("observed"), observed);
+        ObjectNode e = root.putObject("expected");
+        put(e, expected);
+        e.put("asimovPoi", d.expectedPoi());
+        if (toy != null) {
+            ObjectNode t = root.putObject("toys");
+            t.put("toys", toy.toys());
+            t.put("failed", toy.failed());
+            t.put("exceeding", toy.exceeding());
+            Json.put(t, "p", toy.p());
+            Json.put(t, "pError", toy.error());
+            Json.put(t, "z", z(toy.p()));
+            t.put("seed", fit.seed);
+        }
+        return root;
+    }
+
+    private static void put(ObjectNode node, Discovery.Significance s) {
+        Json.put(node, "q0", s.q0());
+        Json.put(node, "z", s.z());
+        Json.put(node, "p", s.p());
+        Json.put(node, "muHat", s.muHat());
+    }
+
+    /** The significance of a one-sided p-value, Φ⁻¹(1 − p); infinite for p = 0. */
+    static double z(double p) {
+        if (!(p > 0)) return p == 0 ? Double.POSITIVE_INFINITY : Double.NaN;
+        return -new NormalDistribution(null, 0, 1).inverseCumulativeProbability(p);
+    }
+
+    private void print(PrintWriter out, ModelInput.Loaded l, PoiData d, Discovery.Significance observed,
+                       Discovery.Significance expected, ToyPValue toy) {
+        CompiledModel m = l.compiled();
+        String poi = m.parameterNames[m.poi];
+        out.printf(Locale.ROOT, "Discovery test of %s = 0 for model '%s' (%s)%n", poi, m.name, l.file());
+        out.printf(Locale.ROOT, "  method: profile likelihood ratio q0, one-sided; asymptotic Z = sqrt(q0), p = 1 - Phi(Z)"
+                + " (Cowan, Cranmer, Gross, Vitells 2011)%n");
+        if (observed == null) {
+            out.println("  observed: none, the model is blinded");
+        } else {
+            out.printf(Locale.ROOT, "  observed (%s): best fit %s = %s, q0 = %s, Z = %s sigma, p = %s%n",
+                    d.kind().equals("asimov") ? "Asimov data set at " + poi + " = " + Numbers.plain(d.asimovPoi())
+                            : "observed data", poi, Numbers.plain(observed.muHat()), Numbers.plain(observed.q0()),
+                    Numbers.fixed(observed.z(), 3), Numbers.plain(observed.p()));
+        }
+        out.printf(Locale.ROOT, "  expected (Asimov data set at %s = %s): q0 = %s, Z = %s sigma, p = %s%n", poi,
+                Numbers.plain(d.expectedPoi()), Numbers.plain(expected.q0()), Numbers.fixed(expected.z(), 3),
+                Numbers.plain(expected.p()));
+        if (toy != null) {
+            out.printf(Locale.ROOT, "  toys (background only, nuisances at their fit with %s = 0, seed %d): "
+                    + "p = %s ± %s (%d of %d toys with q0 >= observed; %d failed fits left out), Z = %s sigma%n",
+                    poi, fit.seed, Numbers.plain(toy.p()), Numbers.plain(toy.error()), toy.exceeding(),
+                    toy.toys() - toy.failed(), toy.failed(), Numbers.fixed(z(toy.p()), 3));
+            if (toy.exceeding() == 0) {
+                out.printf(Locale.ROOT, "  (no toy reached the observed q0: p is below about %s; throw more toys)%n",
+                        Numbers.plain(3.0 / Math.max(1, toy.toys() - toy.failed())));
+            }
+        }
+        out.flush();
+    }
+}

@@ -1,0 +1,114 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import plumb.cli.table.Table;
+import plumb.cli.table.TableFormat;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.GoodnessOfFit;
+import plumb.engine.inference.InferenceException;
+import plumb.engine.inference.ToyPValue;
+
+import java.io.PrintWriter;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+
+/** {@code plumb gof MODEL}: saturated-model goodness of fit, with a per-channel breakdown. */
+@Command(name = "gof", mixinStandardHelpOptions = true,
+        description = "Goodness of fit with the saturated-model statistic (Baker-Cousins): value, degrees of freedom, "
+                + "asymptotic p-value, per-channel breakdown; with --toys the p-value from toys.")
+final class GofCommand implements Callable<Integer> {
+
+    @Mixin ModelInput input;
+    @Mixin FitOptions fit;
+
+    @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N toys drawn at the best fit.")
+    Integer toys;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        ModelInput.Loaded l = input.load();
+        CompiledModel m = l.compiled();
+        FitOptions.Prepared p = fit.prepare(m, 1.0);
+        GoodnessOfFit.Result r;
+        ToyPValue toy = null;
+        try {
+            r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
+            if (toys != null) {
+                try (ToyProgressBar bar = new ToyProgressBar("toys", toys)) {
+                    toy = GoodnessOfFit.toys(m, p.data(), r.statistic(), r.fit().values(), p.settings(), p.held(),
+                            p.heldValues(), toys, fit.seed, fit.threadCount(), bar);
+                }
+            }
+        } catch (InferenceException e) {
+            throw new ComputationException(e.getMessage());
+        }
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, r, toy)), out);
+        if (!"-".equals(json)) print(out, l, p, r, toy);
+        return ExitCodes.OK;
+    }
+
+    private ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy) {
+        ObjectNode root = Json.result(m.labels, p.kind());
+        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
+        root.put("method", "saturated");
+        Json.put(root, "statistic", r.statistic());
+        root.put("ndof", r.ndof());
+        Json.put(root, "p", r.p());
+        Json.put(root, "constraintStatistic", r.constraintStatistic());
+        ArrayNode channels = root.putArray("channels");
+        for (int c = 0; c < m.nChannels; c++) {
+            ObjectNode o = channels.addObject();
+            o.put("name", m.channelNames[c]);
+            o.put("bins", r.channelBins()[c]);
+            Json.put(o, "statistic", r.channelStatistic()[c]);
+        }
+        if (toy != null) {
+            ObjectNode t = root.putObject("toys");
+            t.put("toys", toy.toys());
+            t.put("failed", toy.failed());
+            t.put("exceeding", toy.exceeding());
+            Json.put(t, "p", toy.p());
+            Json.put(t, "pError", toy.error());
+            t.put("seed", fit.seed);
+        }
+        return root;
+    }
+
+    private void print(PrintWriter out, ModelInput.Loaded l, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy) {
+        CompiledModel m = l.compiled();
+        out.printf(Locale.ROOT, "Goodness of fit of model '%s' (%s) to the %s data%s%n", m.name, l.file(), p.kind(),
+                p.asimovPoi() == null ? "" : " (Asimov at POI = " + Numbers.plain(p.asimovPoi()) + ")");
+        out.println("  method: saturated-model statistic 2 sum[nu - n + n ln(n/nu)] plus constraint terms "
+                + "(Baker, Cousins 1984), chi-square asymptotics");
+        out.printf(Locale.ROOT, "  statistic = %s, ndof = %d, p = %s (asymptotic)%n", Numbers.plain(r.statistic()),
+                r.ndof(), r.ndof() > 0 ? Numbers.plain(r.p()) : "- (no degrees of freedom)");
+        if (toy != null) {
+            out.printf(Locale.ROOT, "  p = %s ± %s from %d toys at the best fit (seed %d; %d of them at least as large; "
+                    + "%d failed fits left out)%n", Numbers.plain(toy.p()), Numbers.plain(toy.error()),
+                    toy.toys() - toy.failed(), fit.seed, toy.exceeding(), toy.failed());
+        }
+        Table.Builder t = Table.builder(null, "channel", "bins", "statistic", "statistic/bin");
+        for (int c = 0; c < m.nChannels; c++) {
+            int bins = r.channelBins()[c];
+            double s = r.channelStatistic()[c];
+            t.row(m.channelNames[c], bins == 0 ? "not fitted" : Integer.toString(bins), Table.number(s, 4),
+                    bins == 0 ? Table.MISSING : Table.number(s / bins, 3));
+        }
+        t.row("constraints", "", Table.number(r.constraintStatistic(), 4), "");
+        out.print(TableFormat.TEXT.render(t.build()).replaceAll("(?m)^", "  "));
+        out.flush();
+    }
+}

@@ -1,0 +1,327 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
+import plumb.cli.table.Table;
+import plumb.cli.table.TableFormat;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.AsymptoticLimits;
+import plumb.engine.inference.ExpectedBands;
+import plumb.engine.inference.InferenceException;
+import plumb.engine.inference.LimitResult;
+import plumb.engine.inference.ParallelRunner;
+import plumb.engine.inference.ToyLimits;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import java.util.stream.Stream;
+
+/**
+ * {@code plumb limit MODEL…}: CLs upper limits on the POI with q̃μ, asymptotic or from toys; with
+ * several models (one per signal hypothesis) a table of limits against one of their labels.
+ */
+@Command(name = "limit", mixinStandardHelpOptions = true,
+        description = {"CLs upper limit on the parameter of interest with the q~mu test statistic: asymptotic "
+                + "formulae by default, toys with --toys.",
+                "Several models (files or folders), one per signal hypothesis, give one table of limits against "
+                        + "a label of the models (--label)."})
+final class LimitCommand implements Callable<Integer> {
+
+    @Parameters(arity = "1..*", paramLabel = "MODEL",
+            description = "Model files (.json or .json.gz), or folders whose model files are all taken.")
+    List<Path> models;
+
+    @Mixin FitOptions fit;
+
+    @Option(names = "--cl", defaultValue = "0.95", paramLabel = "CL",
+            description = "Confidence level, e.g. 0.95 or 0.90 (default: ${DEFAULT-VALUE}).")
+    double cl;
+
+    @Option(names = "--toys", paramLabel = "N",
+            description = "Toy-based CLs with N toys per hypothesis at each POI value tested.")
+    Integer toys;
+
+    @Option(names = "--label", paramLabel = "KEY",
+            description = "Label of the models that gives each limit its x value (default: the first numeric label all models have).")
+    String label;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Option(names = "--csv", paramLabel = "FILE", description = "Write the table of limits as CSV.")
+    String csv;
+
+    @Spec CommandSpec spec;
+
+    /** One model's outcome: its limit, or why it has none. */
+    record Outcome(ModelInput.Loaded model, double x, PoiData data, LimitResult result, String error) { }
+
+    @Override
+    public Integer call() {
+        if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
+        if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        List<Path> files = modelFiles(models);
+        List<ModelInput.Loaded> loaded = new ArrayList<>();
+        for (Path f : files) loaded.add(ModelInput.load(f));
+        String key = labelKey(loaded);
+        double[] xs = new double[loaded.size()];
+        for (int i = 0; i < xs.length; i++) xs[i] = x(loaded.get(i), key);
+        int threads = fit.threadCount();
+        // Resolve every model's data first: bad options fail before any long computation.
+        List<PoiData> data = new ArrayList<>();
+        for (ModelInput.Loaded l : loaded) data.add(PoiData.resolve(l.file(), l.compiled(), fit, 0.0, 0.0));
+        List<Outcome> outcomes;
+        if (toys == null) {
+            // Asymptotic limits: one model per thread, each computed sequentially (deterministic).
+            outcomes = ParallelRunner.run(loaded.size(), threads, () -> null,
+                    (w, i) -> compute(loaded.get(i), xs[i], data.get(i), 1, null), null);
+        } else {
+            outcomes = new ArrayList<>();
+            for (int i = 0; i < loaded.size(); i++) {
+                try (ToyProgressBar bar = new ToyProgressBar("toys " + loaded.get(i).file().getFileName(),
+                        (long) toys * 11)) {
+                    outcomes.add(compute(loaded.get(i), xs[i], data.get(i), threads, bar));
+                }
+            }
+        }
+        outcomes = new ArrayList<>(outcomes);
+        outcomes.sort(Comparator.comparingDouble(Outcome::x));
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(outcomes, key)), out);
+        if (csv != null) Outputs.write(csv, TableFormat.CSV.render(table(outcomes, key)), out);
+        if (!"-".equals(json)) {
+            if (outcomes.size() == 1) printSingle(out, outcomes.get(0));
+            else out.print(TableFormat.TEXT.render(table(outcomes, key)));
+            out.flush();
+        }
+        List<String> errors = new ArrayList<>();
+        for (Outcome o : outcomes) if (o.error() != null) errors.add(outcomes.size() == 1 ? o.error() : o.model().file() + ": " + o.error());
+        if (!errors.isEmpty()) throw new ComputationException(String.join("; ", errors));
+        return ExitCodes.OK;
+    }
+
+    private Outcome compute(ModelInput.Loaded l, double x, PoiData d, int threads, ToyProgressBar bar) {
+        CompiledModel m = l.compiled();
+        try {
+            LimitResult r = toys == null
+                    ? AsymptoticLimits.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
+                    : ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
+                    d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar);
+            return new Outcome(l, x, d, r, null);
+        } catch (InferenceException e) {
+            return new Outcome(l, x, d, null, e.getMessage());
+        }
+    }
+
+    /** The model files named: files as given, folders expanded to their .json / .json.gz files by name. */
+    static List<Path> modelFiles(List<Path> args) {
+        List<Path> out = new ArrayList<>();
+        for (Path p : args) {
+            if (!Files.isDirectory(p)) {
+                out.add(p);
+                continue;
+            }
+            try (Stream<Path> s = Files.list(p)) {
+                List<Path> found = s.filter(f -> Files.isRegularFile(f)
+                        && (f.getFileName().toString().endsWith(".json") || f.getFileName().toString().endsWith(".json.gz")))
+                        .sorted().toList();
+                if (found.isEmpty()) throw new InputException(p + ": the folder holds no model files (.json, .json.gz)");
+                out.addAll(found);
+            } catch (IOException e) {
+                throw new InputException(p + ": cannot list the folder: " + e.getMessage());
+            }
+        }
+        return out;
+    }
+
+    /** --label, or the first numeric label every model has (null for a single model without one). */
+    private String labelKey(List<ModelInput.Loaded> loaded) {
+        if (label != null) return label;
+        for (String k : loaded.get(0).compiled().labels.keySet()) {
+            boolean all = true;
+            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels.get(k) instanceof Number;
+            if (all) return k;
+        }
+        if (loaded.size() > 1) {
+            throw new InputException("--label: the models share no numeric label to order the limits by; name one with --label");
+        }
+        return null;
+    }
+
+    private static double x(ModelInput.Loaded l, String key) {
+        if (key == null) return Double.NaN;
+        Object v = l.compiled().labels.get(key);
+        if (v instanceof Number n) return n.doubleValue();
+        throw new InputException(String.format(Locale.ROOT, "--label %s: %s has no numeric label '%s' (labels.%s)",
+                key, l.file(), key, key));
+    }
+
+    /** The limit file of docs/cli-contract.md, with the points of every model. */
+    ObjectNode toJson(List<Outcome> outcomes, String key) {
+        Outcome first = outcomes.get(0);
+        ObjectNode root = Json.result(outcomes.size() == 1 ? first.model().compiled().labels : commonLabels(outcomes),
+                first.data().kind());
+        if (outcomes.size() == 1) {
+            if (first.data().asimovPoi() != null) root.put("asimovPoi", first.data().asimovPoi());
+            putLimit(root, first);
+        }
+        if (key != null) root.put("label", key);
+        else root.putNull("label");
+        ArrayNode points = root.putArray("points");
+        for (Outcome o : outcomes) {
+            ObjectNode p = points.addObject();
+            p.put("model", o.model().file().toString());
+            Json.put(p, "x", o.x());
+            putLimit(p, o);
+            p.put("data", o.data().kind());
+            p.set("labels", Json.result(o.model().compiled().labels, o.data().kind()).get("labels"));
+        }
+        return root;
+    }
+
+    private void putLimit(ObjectNode node, Outcome o) {
+        CompiledModel m = o.model().compiled();
+        node.put("poi", m.parameterNames[m.poi]);
+        node.put("cl", cl);
+        node.put("method", toys == null ? "asymptotic" : "toys");
+        node.put("statistic", "qmu_tilde");
+        LimitResult r = o.result();
+        if (r == null) {
+            node.putNull("observed");
+            ObjectNode e = node.putObject("expected");
+            for (String k : BAND_KEYS) e.putNull(k);
+            node.put("error", o.error());
+            return;
+        }
+        Json.put(node, "observed", r.observed());
+        bands(node.putObject("expected"), r.expected());
+        Json.put(node, "muHat", r.muHat());
+        if (toys != null) {
+            Json.put(node, "observedError", r.observedError());
+            bands(node.putObject("expectedError"), r.expectedError());
+            node.put("toysPerPoint", toys);
+            node.put("toys", r.toys());
+            node.put("failedToys", r.failedToys());
+            node.put("seed", fit.seed);
+            ArrayNode pts = node.putArray("clsPoints");
+            for (LimitResult.ClsPoint c : r.points()) {
+                ObjectNode p = pts.addObject();
+                p.put("mu", c.mu());
+                Json.put(p, "q", c.qObserved());
+                Json.put(p, "clsb", c.clsb());
+                Json.put(p, "clb", c.clb());
+                Json.put(p, "cls", c.cls());
+                Json.put(p, "clsError", c.clsError());
+                Json.array(p, "expectedCls", c.expectedCls());
+            }
+        }
+        node.put("fits", r.fits());
+        node.put("seconds", r.seconds());
+    }
+
+    private static final String[] BAND_KEYS = {"minus2", "minus1", "median", "plus1", "plus2"};
+
+    private static void bands(ObjectNode node, ExpectedBands b) {
+        double[] v = b.toArray();
+        for (int k = 0; k < v.length; k++) Json.put(node, BAND_KEYS[k], v[k]);
+    }
+
+    private static Map<String, Object> commonLabels(List<Outcome> outcomes) {
+        Map<String, Object> common = new LinkedHashMap<>(outcomes.get(0).model().compiled().labels);
+        for (Outcome o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels.get(e.getKey())));
+        return common;
+    }
+
+    /** The table of limits, one row per model, ordered by x. */
+    Table table(List<Outcome> outcomes, String key) {
+        CompiledModel m0 = outcomes.get(0).model().compiled();
+        String title = String.format(Locale.ROOT, "CLs upper limits on %s at %s%% CL (%s, q~mu statistic, %s data)",
+                m0.parameterNames[m0.poi], Numbers.plain(100 * cl), toys == null ? "asymptotic" : toys + " toys",
+                outcomes.get(0).data().kind());
+        Table.Builder t = Table.builder(title, key == null ? "x" : key, "model", "observed", "expected -2σ",
+                "expected -1σ", "expected median", "expected +1σ", "expected +2σ");
+        for (Outcome o : outcomes) {
+            List<String> row = new ArrayList<>();
+            row.add(Double.isNaN(o.x()) ? Table.MISSING : Table.number(o.x(), 6).replaceAll("\\.?0+$", ""));
+            row.add(o.model().file().getFileName().toString());
+            if (o.result() == null) {
+                row.add("failed: " + o.error());
+                for (int k = 0; k < 5; k++) row.add(Table.MISSING);
+            } else {
+                LimitResult r = o.result();
+                row.add(cell(r.observed(), r.observedError()));
+                double[] b = r.expected().toArray(), e = r.expectedError().toArray();
+                for (int k = 0; k < 5; k++) row.add(cell(b[k], e[k]));
+            }
+            t.row(row);
+        }
+        return t.build();
+    }
+
+    private String cell(double value, double error) {
+        if (toys != null && Double.isFinite(value)) return Table.measurement(value, error);
+        return Table.number(value, 4);
+    }
+
+    private void printSingle(PrintWriter out, Outcome o) {
+        CompiledModel m = o.model().compiled();
+        String poi = m.parameterNames[m.poi];
+        out.printf(Locale.ROOT, "CLs upper limit on %s at %s%% CL for model '%s' (%s)%n", poi, Numbers.plain(100 * cl),
+                m.name, o.model().file());
+        if (toys == null) {
+            out.printf(Locale.ROOT, "  method: asymptotic formulae for the q~mu test statistic (Cowan, Cranmer, Gross, "
+                    + "Vitells 2011), sigma from the Asimov data set at %s = 0%n", poi);
+        } else {
+            out.printf(Locale.ROOT, "  method: toys, q~mu test statistic, %d toys per hypothesis at each of %d %s values, "
+                    + "seed %d%n", toys, o.result() == null ? 0 : o.result().points().size(), poi, fit.seed);
+        }
+        PoiData d = o.data();
+        out.printf(Locale.ROOT, "  data: %s%n", d.blinded() ? "model blinded: no observed limit; expected limits from "
+                + "the Asimov data set at " + poi + " = 0"
+                : d.kind().equals("asimov") ? "Asimov data set at " + poi + " = " + Numbers.plain(d.asimovPoi())
+                : "observed data");
+        LimitResult r = o.result();
+        if (r == null) {
+            out.println("  no limit: " + o.error());
+            return;
+        }
+        if (!d.blinded()) {
+            out.printf(Locale.ROOT, "  best fit %s = %s%n", poi, Numbers.plain(r.muHat()));
+            out.printf(Locale.ROOT, "  observed limit   %s < %s%n", poi, value(r.observed(), r.observedError()));
+        }
+        ExpectedBands b = r.expected(), e = r.expectedError();
+        out.printf(Locale.ROOT, "  expected limit   %s < %s (median)%n", poi, value(b.median(), e.median()));
+        out.printf(Locale.ROOT, "      68%% band    [%s, %s]%n", value(b.minus1(), e.minus1()), value(b.plus1(), e.plus1()));
+        out.printf(Locale.ROOT, "      95%% band    [%s, %s]%n", value(b.minus2(), e.minus2()), value(b.plus2(), e.plus2()));
+        if (toys != null) {
+            out.println("  errors are toy statistics");
+            out.printf(Locale.ROOT, "  %d toys in all, %d with a fit that did not converge (left out)%n", r.toys(), r.failedToys());
+            Table.Builder t = Table.builder(null, poi, "q~mu observed", "CLs+b", "CLb", "CLs");
+            for (LimitResult.ClsPoint c : r.points()) {
+                t.row(Table.number(c.mu(), 4), Table.number(c.qObserved(), 4), Table.number(c.clsb(), 4),
+                        Table.number(c.clb(), 4), Table.measurement(c.cls(), c.clsError()));
+            }
+            out.print(TableFormat.TEXT.render(t.build()).replaceAll("(?m)^", "  "));
+        }
+        out.printf(Locale.ROOT, "  (%d fits, %.2f s)%n", r.fits(), r.seconds());
+    }
+
+    private String value(double v, double err) {
+        return toys == null ? Numbers.plain(v) : Table.measurement(v, err);
+    }
+}
