@@ -9,7 +9,8 @@ import java.io.PrintWriter;
 /** The {@code plumb} command: subcommands, and one place that turns failures into exit codes. */
 @Command(name = "plumb", mixinStandardHelpOptions = true, version = "plumb " + Main.VERSION,
         description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
-        subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class})
+        subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
+                ImpactsCommand.class, ScanCommand.class, YieldsCommand.class})
 public final class Main implements Runnable {
 
     public static final String VERSION = "0.1.0";
