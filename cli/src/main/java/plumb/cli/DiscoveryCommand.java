@@ -54,9 +54,9 @@ final class DiscoveryCommand implements Callable<Integer> {
             if (!d.blinded()) {
                 observed = Discovery.compute(m, d.data(), d.settings(), d.held(), d.heldValues());
                 if (toys != null) {
-                    try (ToyProgressBar bar = new ToyProgressBar("toys", toys)) {
+                    try (Progress bar = Progress.start("toys", toys)) {
                         toy = Discovery.toys(m, d.data(), d.settings(), d.held(), d.heldValues(), toys, fit.seed,
-                                fit.threadCount(), bar);
+                                fit.threadCount(), bar.callback());
                     }
                 }
             }

@@ -18,6 +18,7 @@ import java.io.PrintWriter;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import java.util.concurrent.Callable;
 
 /** {@code plumb fit MODEL}: maximum-likelihood fit with pulls and constraints. */
@@ -34,16 +35,26 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--show-mcstat", description = "List the MC-statistics parameters in the table too.")
     boolean showMcStat;
 
+    @Option(names = "--intervals", arity = "0..*", paramLabel = "NAME",
+            description = "Add asymmetric 68% profile-likelihood intervals (errorLow/errorHigh) for the POI and the parameters named.")
+    List<String> intervals;
+
     @Spec CommandSpec spec;
 
     @Override
     public Integer call() {
         CompiledModel m = input.load().compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
+        int[] intervalParams = intervals == null ? new int[0] : ProfileIntervals.resolve(m, p, intervals);
         FitResult r = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        Map<Integer, double[]> profile = intervals == null || !r.converged() ? Map.of()
+                : ProfileIntervals.compute(m, p, r, intervalParams, fit.threadCount());
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, r)), out);
-        if (!"-".equals(json)) printTable(out, m, p, r);
+        if (json != null) Outputs.write(json, Json.write(ProfileIntervals.addTo(toJson(m, p, r), m, profile)), out);
+        if (!"-".equals(json)) {
+            printTable(out, m, p, r);
+            ProfileIntervals.print(out, m, r, profile);
+        }
         if (!r.converged()) {
             spec.commandLine().getErr().printf("plumb fit: the fit did not converge (%s)%n", r.status());
             return ExitCodes.FAILED;

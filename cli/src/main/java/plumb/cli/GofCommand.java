@@ -46,9 +46,9 @@ final class GofCommand implements Callable<Integer> {
         try {
             r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
             if (toys != null) {
-                try (ToyProgressBar bar = new ToyProgressBar("toys", toys)) {
+                try (Progress bar = Progress.start("toys", toys)) {
                     toy = GoodnessOfFit.toys(m, p.data(), r.statistic(), r.fit().values(), p.settings(), p.held(),
-                            p.heldValues(), toys, fit.seed, fit.threadCount(), bar);
+                            p.heldValues(), toys, fit.seed, fit.threadCount(), bar.callback());
                 }
             }
         } catch (InferenceException e) {

@@ -181,8 +181,8 @@ final class InjectCommand implements Callable<Integer> {
         for (int k = 0; k < mu.size(); k++) {
             ToyFit[] fits;
             try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
-                    Numbers.plain(mu.get(k))), perValue, err)) {
-                fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy, perValue, threadCount, i -> bar.step());
+                    Numbers.plain(mu.get(k))), perValue)) {
+                fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy, perValue, threadCount, bar.callback());
             }
             injections.add(new ToyCampaign.Injection(mu.get(k), fits));
         }

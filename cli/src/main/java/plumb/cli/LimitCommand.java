@@ -93,7 +93,7 @@ final class LimitCommand implements Callable<Integer> {
         } else {
             outcomes = new ArrayList<>();
             for (int i = 0; i < loaded.size(); i++) {
-                try (ToyProgressBar bar = new ToyProgressBar("toys " + loaded.get(i).file().getFileName(),
+                try (Progress bar = Progress.start("toys " + loaded.get(i).file().getFileName(),
                         (long) toys * 11)) {
                     outcomes.add(compute(loaded.get(i), xs[i], data.get(i), threads, bar));
                 }
@@ -115,13 +115,13 @@ final class LimitCommand implements Callable<Integer> {
         return ExitCodes.OK;
     }
 
-    private Outcome compute(ModelInput.Loaded l, double x, PoiData d, int threads, ToyProgressBar bar) {
+    private Outcome compute(ModelInput.Loaded l, double x, PoiData d, int threads, Progress bar) {
         CompiledModel m = l.compiled();
         try {
             LimitResult r = toys == null
                     ? AsymptoticLimits.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
                     : ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
-                    d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar);
+                    d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar.callback());
             return new Outcome(l, x, d, r, null);
         } catch (InferenceException e) {
             return new Outcome(l, x, d, null, e.getMessage());

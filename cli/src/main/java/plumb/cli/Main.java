@@ -10,6 +10,7 @@ import java.io.PrintWriter;
 @Command(name = "plumb", mixinStandardHelpOptions = true, version = "plumb " + Main.VERSION,
         description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
         subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
+                ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
                 LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
                 InjectCommand.class, MergeToysCommand.class})
 public final class Main implements Runnable {

@@ -1,56 +1,57 @@
 package plumb.cli;
 
-import me.tongfei.progressbar.DelegatingProgressBarConsumer;
+import me.tongfei.progressbar.ConsoleProgressBarConsumer;
 import me.tongfei.progressbar.ProgressBar;
 import me.tongfei.progressbar.ProgressBarBuilder;
+import me.tongfei.progressbar.ProgressBarStyle;
 
-import java.io.PrintWriter;
+import java.util.function.IntConsumer;
 
 /**
- * A progress bar on standard error for long runs (toys, scans, impacts), drawn by the progressbar
- * library (it keeps the rate and time estimate, and redraws from its own thread). Shown only when
- * standard error is a terminal ({@code System.console() != null}): piped output and tests see nothing.
- * {@link #step()} may be called from any thread.
+ * A progress bar on standard error for long computations (refits, scan points, toys), shown only
+ * when a terminal is attached ({@link System#console()} non-null), so files, pipes and tests see
+ * nothing. Wraps me.tongfei:progressbar, a maintained library that handles terminal widths,
+ * redraw rates and ETA, none of which is worth writing again. Use in try-with-resources; the
+ * {@link #callback()} may be called from worker threads.
  */
 public final class Progress implements AutoCloseable {
 
-    private static final int WIDTH = 100;
-
     private final ProgressBar bar;
-    private final PrintWriter err;
 
-    private Progress(ProgressBar bar, PrintWriter err) {
+    private Progress(ProgressBar bar) {
         this.bar = bar;
-        this.err = err;
     }
 
-    /** Starts a bar of {@code total} steps labelled {@code label}; a silent one when not on a terminal. */
-    public static Progress start(String label, long total, PrintWriter err) {
-        if (System.console() == null || total <= 0) return new Progress(null, err);
+    /** A bar for {@code total} steps named {@code task}; a silent one when not on a terminal. */
+    public static Progress start(String task, long total) {
+        if (System.console() == null || total <= 0) return new Progress(null);
         ProgressBar bar = new ProgressBarBuilder()
-                .setTaskName(label)
+                .setTaskName(task)
                 .setInitialMax(total)
-                .setUpdateIntervalMillis(250)
-                .setConsumer(new DelegatingProgressBarConsumer(line -> {
-                    err.print('\r');
-                    err.print(line);
-                    err.flush();
-                }, WIDTH))
+                .setStyle(ProgressBarStyle.ASCII)
+                .setConsumer(new ConsoleProgressBarConsumer(System.err))
+                .setUpdateIntervalMillis(200)
+                .clearDisplayOnFinish()
                 .build();
-        return new Progress(bar, err);
+        return new Progress(bar);
     }
 
-    /** One step done. */
-    public void step() {
-        if (bar != null) bar.step();
+    /**
+     * Receives the number of finished steps (the engine's progress callback); the total grows when
+     * an adaptive computation (toy CLs) runs more steps than first announced.
+     */
+    public IntConsumer callback() {
+        if (bar == null) return done -> { };
+        return done -> {
+            synchronized (bar) {
+                if (done > bar.getMax()) bar.maxHint(Math.max(done, bar.getMax() + bar.getMax() / 4));
+                if (done > bar.getCurrent()) bar.stepTo(done);
+            }
+        };
     }
 
     @Override
     public void close() {
-        if (bar != null) {
-            bar.close();
-            err.println();
-            err.flush();
-        }
+        if (bar != null) bar.close();
     }
 }

@@ -115,6 +115,15 @@ public final class Fitter {
 
     /** Fit from {@code start} with the listed parameters (indices &lt; dimension) held at the given values. */
     public FitResult fit(double[] start, int[] hold, double[] holdValues) {
+        return fit(start, hold, holdValues, true);
+    }
+
+    /**
+     * As {@link #fit(double[], int[], double[])}; with {@code errors} false the covariance is not
+     * computed (errors NaN, covariance null), which saves an n³ inversion per refit where only the
+     * minimum counts (impacts, scans).
+     */
+    public FitResult fit(double[] start, int[] hold, double[] holdValues, boolean errors) {
         long t0 = System.nanoTime();
         double[] x = Arrays.copyOf(start, dim);
         boolean[] held = baseHeld.clone();
@@ -124,7 +133,7 @@ public final class Fitter {
         }
         for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
         MinimumResult r = hasKinks(held) ? minimiseOnPieces(x, held) : minimiser.minimise(nll, x, lower, upper, held);
-        return toResult(r, held, System.nanoTime() - t0);
+        return toResult(r, held, System.nanoTime() - t0, errors);
     }
 
     private boolean hasKinks(boolean[] held) {
@@ -222,11 +231,11 @@ public final class Fitter {
         return false;
     }
 
-    private FitResult toResult(MinimumResult r, boolean[] held, long nanos) {
+    private FitResult toResult(MinimumResult r, boolean[] held, long nanos, boolean withErrors) {
         final int nP = m.nParams;
         double[] values = new double[m.nAll];
         nll.allValues(r.x(), values);
-        double[] cov = computeErrors ? r.covariance() : null;
+        double[] cov = computeErrors && withErrors ? r.covariance() : null;
         MinimumStatus status = r.status();
         double[] errors = new double[m.nAll];
         double[] covTheta = null;

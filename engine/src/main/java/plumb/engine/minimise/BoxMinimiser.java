@@ -98,7 +98,15 @@ abstract class BoxMinimiser implements Minimiser {
      */
     MinimumStatus finish() {
         final int k = system.selectFree(box, x, g);
-        decrement = k == 0 ? 0 : system.factor(h, 0) ? system.solve(g) : Double.NaN;
+        final boolean definite = k == 0 || system.factor(h, 0);
+        decrement = k == 0 ? 0 : definite ? system.solve(g) : Double.NaN;
+        int notHeld = 0;
+        for (int i = 0; i < n; i++) if (!box.held[i]) notHeld++;
+        if (notHeld == k && definite) {
+            // No variable sits on a bound: the set just factored is the covariance's set (saves
+            // one n³/3 factorisation per fit, which adds up over thousands of refits).
+            return MinimumStatus.CONVERGED;
+        }
         if (system.selectNotHeld(box) > 0 && !system.factor(h, 0)) {
             return MinimumStatus.NOT_POSITIVE_DEFINITE_AT_MINIMUM;
         }

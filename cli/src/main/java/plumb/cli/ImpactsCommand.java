@@ -1,0 +1,165 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+import plumb.cli.table.Table;
+import plumb.cli.table.TableFormat;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.Fitter;
+import plumb.engine.inference.Impacts;
+
+import java.io.PrintWriter;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+
+/** {@code plumb impacts MODEL}: nuisance parameters ranked by their impact on the POI, and the grouped breakdown. */
+@Command(name = "impacts", mixinStandardHelpOptions = true,
+        description = "Rank nuisance parameters by their impact on the POI (exact refits and linearised), "
+                + "and break the POI's uncertainty down by groups.")
+final class ImpactsCommand implements Callable<Integer> {
+
+    @Mixin ModelInput input;
+    @Mixin FitOptions fit;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Option(names = "--top", paramLabel = "N", description = "Show only the N largest impacts in the table.")
+    Integer top;
+
+    @Option(names = "--exact-top", paramLabel = "N",
+            description = "Refit only the N largest by the linearised ranking (default: all; 0: linearised only).")
+    Integer exactTop;
+
+    @Option(names = "--include-mcstat", description = "Rank the MC-statistics parameters too.")
+    boolean includeMcStat;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        if (top != null && top < 1) throw new InputException("--top must be at least 1, got " + top);
+        if (exactTop != null && exactTop < 0) throw new InputException("--exact-top must be at least 0, got " + exactTop);
+        CompiledModel m = input.load().compiled();
+        if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
+        FitOptions.Prepared p = fit.prepare(m, 1.0);
+        int threads = fit.threadCount();
+        FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        if (!best.converged() || best.covariance() == null) {
+            throw new ComputationException("the best fit did not converge (" + best.status() + "); no impacts");
+        }
+        Impacts impacts = new Impacts(m, p.data(), p.settings(), p.held(), p.heldValues(), best, includeMcStat);
+        int n = impacts.candidates().length;
+        int exact = exactTop == null ? n : Math.min(exactTop, n);
+        List<Impacts.Entry> entries;
+        try (Progress bar = Progress.start("impacts", 4L * exact)) {
+            entries = impacts.rank(exact, threads, bar.callback());
+        }
+        Impacts.Breakdown breakdown = impacts.breakdown();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, best, entries, breakdown)), out);
+        if (!"-".equals(json)) printTable(out, m, p, best, entries, breakdown);
+        long failed = entries.stream().filter(e -> e.refitted() && !(e.postfit().converged() && e.prefit().converged())).count();
+        if (failed > 0) {
+            spec.commandLine().getErr().printf(Locale.ROOT,
+                    "plumb impacts: %d parameters had refits that did not converge; their shifts are null (see status)%n", failed);
+        }
+        return ExitCodes.OK;
+    }
+
+    /** The impacts result file of docs/cli-contract.md, with the linearised shifts and the breakdown added. */
+    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, FitResult best, List<Impacts.Entry> entries,
+                             Impacts.Breakdown breakdown) {
+        ObjectNode root = Json.result(m.labels, p.kind());
+        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
+        root.put("poi", m.parameterNames[m.poi]);
+        Json.put(root, "poiValue", best.values()[m.poi]);
+        Json.put(root, "poiError", best.errors()[m.poi]);
+        ArrayNode list = root.putArray("impacts");
+        for (Impacts.Entry e : entries) {
+            ObjectNode o = list.addObject();
+            o.put("parameter", e.name());
+            Json.put(o, "pull", e.pull());
+            Json.put(o, "constraint", e.constraint());
+            putShift(o, "prefit", e.prefit());
+            putShift(o, "postfit", e.postfit());
+            ObjectNode lin = o.putObject("linearised");
+            putShift(lin, "prefit", e.linearPrefit());
+            putShift(lin, "postfit", e.linearPostfit());
+            o.put("refitted", e.refitted());
+        }
+        ObjectNode b = root.putObject("breakdown");
+        Json.put(b, "total", breakdown.total());
+        Json.put(b, "statOnly", breakdown.statOnly());
+        ArrayNode groups = b.putArray("groups");
+        for (Impacts.Contribution c : breakdown.groups()) {
+            ObjectNode g = groups.addObject();
+            g.put("name", c.group());
+            g.put("parameters", c.members());
+            Json.put(g, "error", c.contribution());
+            Json.put(g, "fixedError", c.fixedError());
+        }
+        return root;
+    }
+
+    private static void putShift(ObjectNode parent, String key, Impacts.Shift s) {
+        if (s == null) {
+            parent.putNull(key);
+            return;
+        }
+        ObjectNode o = parent.putObject(key);
+        Json.put(o, "up", s.up());
+        Json.put(o, "down", s.down());
+        if (s.upStatus() != null) {
+            o.put("upStatus", s.upStatus().name());
+            o.put("downStatus", s.downStatus().name());
+        }
+    }
+
+    private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult best,
+                            List<Impacts.Entry> entries, Impacts.Breakdown breakdown) {
+        String poi = m.parameterNames[m.poi];
+        out.printf(Locale.ROOT, "Impacts on %s = %s (%s data)%n", poi,
+                Table.measurement(best.values()[m.poi], best.errors()[m.poi]), p.kind());
+        int shown = top == null ? entries.size() : Math.min(top, entries.size());
+        Table.Builder t = Table.builder(null, "#", "parameter", "pull", "constraint",
+                "post-fit +", "post-fit −", "linear +", "pre-fit +", "pre-fit −", "linear pre +", "note");
+        for (int i = 0; i < shown; i++) {
+            Impacts.Entry e = entries.get(i);
+            boolean ok = !e.refitted() || (e.postfit().converged() && e.prefit().converged());
+            t.row(Integer.toString(i + 1), e.name(), Numbers.fixed(e.pull(), 2), Numbers.fixed(e.constraint(), 2),
+                    shift(e.postfit() == null ? Double.NaN : e.postfit().up()),
+                    shift(e.postfit() == null ? Double.NaN : e.postfit().down()),
+                    shift(e.linearPostfit().up()),
+                    shift(e.prefit() == null ? Double.NaN : e.prefit().up()),
+                    shift(e.prefit() == null ? Double.NaN : e.prefit().down()),
+                    shift(e.linearPrefit().up()),
+                    !e.refitted() ? "linear only" : ok ? "" : "refit failed");
+        }
+        out.print(TableFormat.TEXT.render(t.build()));
+        if (shown < entries.size()) out.printf("  (%d more; --top N shows more)%n", entries.size() - shown);
+        out.println("  shifts are refit minus best-fit POI with the parameter held at value ± post-fit error "
+                + "(post-fit) or ± pre-fit width (pre-fit); 'linear' is ρ(POI, θ)·σ_POI·Δθ/σ_θ");
+        out.println();
+        Table.Builder g = Table.builder("Breakdown of the uncertainty on " + poi, "group", "parameters", "error", "error with group fixed");
+        g.row("total", "", Table.number(breakdown.total(), 3), "");
+        g.row("statistical only", "", Table.number(breakdown.statOnly(), 3), "");
+        for (Impacts.Contribution c : breakdown.groups()) {
+            g.row(c.group(), Integer.toString(c.members()), Table.number(c.contribution(), 3), Table.number(c.fixedError(), 3));
+        }
+        out.print(TableFormat.TEXT.render(g.build()));
+        out.println("  a group's error is √(total² − error with the group fixed at its best-fit values)");
+        out.flush();
+    }
+
+    private static String shift(double v) {
+        return Double.isNaN(v) ? Table.MISSING : String.format(Locale.ROOT, "%+.4g", v);
+    }
+}

@@ -1,0 +1,167 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+import plumb.cli.table.Table;
+import plumb.cli.table.TableFormat;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.Fitter;
+import plumb.engine.inference.ProfileScan;
+
+import java.io.PrintWriter;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+
+/** {@code plumb scan MODEL --parameter NAME}: profile likelihood scan with 68 % and 95 % intervals. */
+@Command(name = "scan", mixinStandardHelpOptions = true,
+        description = "Profile likelihood scan of one parameter, with the 68% and 95% intervals found by root-finding.")
+final class ScanCommand implements Callable<Integer> {
+
+    /** Default half-width of the scan, in post-fit errors: covers the 95 % interval of a Gaussian with room. */
+    static final double DEFAULT_HALF_WIDTH = 3;
+
+    @Mixin ModelInput input;
+    @Mixin FitOptions fit;
+
+    @Option(names = "--parameter", paramLabel = "NAME", description = "Parameter to scan (default: the POI).")
+    String parameter;
+
+    @Option(names = "--points", paramLabel = "N", defaultValue = "21", description = "Scan points (default: ${DEFAULT-VALUE}).")
+    int points;
+
+    @Option(names = "--range", paramLabel = "LO:HI",
+            description = "Scan range (default: best fit ± 3 errors, clipped to the parameter's range).")
+    String range;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
+    String json;
+
+    @Spec CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        if (points < 2) throw new InputException("--points must be at least 2, got " + points);
+        double[] lohi = range == null ? null : parseRange(range);
+        CompiledModel m = input.load().compiled();
+        int k = resolve(m, parameter);
+        FitOptions.Prepared p = fit.prepare(m, 1.0);
+        for (int h : p.held()) {
+            if (h == k) throw new InputException("--parameter " + m.parameterNames[k] + " is held by --fix; it cannot be scanned");
+        }
+        if (m.fixed[k]) throw new InputException("--parameter " + m.parameterNames[k] + " is fixed in the model; it cannot be scanned");
+        FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
+        double v = best.values()[k], e = best.errors()[k];
+        if (lohi == null) {
+            double half = DEFAULT_HALF_WIDTH * (e > 0 && Double.isFinite(e) ? e : Math.max(1e-3, 0.1 * Math.abs(v)));
+            lohi = new double[] {Math.max(m.lower[k], v - half), Math.min(m.upper[k], v + half)};
+        } else if (lohi[0] < m.lower[k] || lohi[1] > m.upper[k]) {
+            throw new InputException(String.format(Locale.ROOT, "--range %s reaches outside the range [%s, %s] of %s",
+                    range, m.lower[k], m.upper[k], m.parameterNames[k]));
+        }
+        int threads = fit.threadCount();
+        ProfileScan scan = new ProfileScan(m, p.data(), p.settings(), p.held(), p.heldValues(), best);
+        List<ProfileScan.Point> pts;
+        try (Progress bar = Progress.start("scan " + m.parameterNames[k], points)) {
+            pts = scan.points(k, lohi[0], lohi[1], points, threads, bar.callback());
+        }
+        List<ProfileScan.Interval> intervals = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads);
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, k, best, pts, intervals)), out);
+        if (!"-".equals(json)) printTable(out, m, k, best, pts, intervals);
+        long failed = pts.stream().filter(x -> Double.isNaN(x.deltaNll())).count();
+        for (ProfileScan.Interval iv : intervals) if (iv.failure() != null) failed++;
+        if (failed > 0) {
+            spec.commandLine().getErr().printf(Locale.ROOT, "plumb scan: %d refits did not converge; their values are null%n", failed);
+        }
+        return ExitCodes.OK;
+    }
+
+    static int resolve(CompiledModel m, String name) {
+        if (name == null) {
+            if (m.poi < 0) throw new InputException("--parameter: the model names no POI; give a parameter name");
+            return m.poi;
+        }
+        int k = m.indexOf(name);
+        if (k < 0) throw new InputException("--parameter " + name + ": the model has no parameter '" + name + "'");
+        return k;
+    }
+
+    static double[] parseRange(String text) {
+        int colon = text.indexOf(':', 1);   // from 1: a leading minus sign is not the separator
+        if (colon < 0) throw new InputException("--range " + text + ": expected LO:HI");
+        try {
+            double lo = Double.parseDouble(text.substring(0, colon)), hi = Double.parseDouble(text.substring(colon + 1));
+            if (!(lo < hi) || !Double.isFinite(lo) || !Double.isFinite(hi)) {
+                throw new InputException("--range " + text + ": LO must be below HI, both finite");
+            }
+            return new double[] {lo, hi};
+        } catch (NumberFormatException e) {
+            throw new InputException("--range " + text + ": expected two numbers LO:HI");
+        }
+    }
+
+    /** The scan result file of docs/cli-contract.md; deltaNll relative to the lowest −ln L found. */
+    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, int k, FitResult best,
+                             List<ProfileScan.Point> pts, List<ProfileScan.Interval> intervals) {
+        ObjectNode root = Json.result(m.labels, p.kind());
+        root.put("parameter", m.parameterNames[k]);
+        double floor = minimumDelta(pts);
+        ArrayNode a = root.putArray("points");
+        for (ProfileScan.Point x : pts) {
+            ObjectNode o = a.addObject();
+            Json.put(o, "value", x.value());
+            Json.put(o, "deltaNll", x.deltaNll() - floor);
+            o.put("status", x.status().name());
+        }
+        Json.put(root, "best", best.values()[k]);
+        Json.put(root, "error", best.errors()[k]);
+        interval(root, "interval68", intervals.get(0));
+        interval(root, "interval95", intervals.get(1));
+        return root;
+    }
+
+    /** The minimum of the profile is the best fit unless a scan point found a lower one (then a warning sign). */
+    private static double minimumDelta(List<ProfileScan.Point> pts) {
+        double min = 0;
+        for (ProfileScan.Point x : pts) if (x.deltaNll() < min) min = x.deltaNll();
+        return min;
+    }
+
+    private static void interval(ObjectNode root, String key, ProfileScan.Interval iv) {
+        ArrayNode a = root.putArray(key);
+        Json.add(a, iv.low());
+        Json.add(a, iv.high());
+    }
+
+    private void printTable(PrintWriter out, CompiledModel m, int k, FitResult best, List<ProfileScan.Point> pts,
+                            List<ProfileScan.Interval> intervals) {
+        String name = m.parameterNames[k];
+        out.printf(Locale.ROOT, "Profile likelihood scan of %s: best fit %s%n", name,
+                Table.measurement(best.values()[k], best.errors()[k]));
+        double floor = minimumDelta(pts);
+        Table.Builder t = Table.builder(null, name, "2ΔNLL", "");
+        for (ProfileScan.Point x : pts) {
+            double d2 = 2 * (x.deltaNll() - floor);
+            int bar = Double.isFinite(d2) ? (int) Math.round(Math.min(d2, 10) * 4) : 0;
+            t.row(Table.number(x.value(), 5), Double.isFinite(d2) ? Numbers.fixed(d2, 4) : Table.MISSING, "#".repeat(bar));
+        }
+        out.print(TableFormat.TEXT.render(t.build()));
+        for (ProfileScan.Interval iv : intervals) {
+            out.printf(Locale.ROOT, "  %s interval (2ΔNLL = %s): [%s, %s]%n", iv.level() == ProfileScan.LEVEL_68 ? "68%" : "95%",
+                    Numbers.plain(iv.level()), end(iv.low()), end(iv.high()));
+        }
+        out.flush();
+    }
+
+    private static String end(double v) {
+        return Double.isFinite(v) ? Numbers.plain(v) : "not reached";
+    }
+}
