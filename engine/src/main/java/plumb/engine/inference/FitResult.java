@@ -20,7 +20,7 @@ public record FitResult(MinimumStatus status, double nll, double[] values, doubl
                         double[] covariance, boolean[] held, int evaluations, int iterations, double seconds) {
 
     public boolean converged() {
-        return status == MinimumStatus.CONVERGED;
+        return status.isMinimum();
     }
 
     /** Correlation of model parameters i and j, NaN when unavailable. */

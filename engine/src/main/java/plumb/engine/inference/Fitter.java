@@ -21,6 +21,8 @@ public final class Fitter {
     private final CompiledModel m;
     private final BinnedNll nll;
     private final Minimiser minimiser;
+    /** Stationarity needed to accept a minimum on a clip kink ({@link ClipKinkCheck}). */
+    private final double kinkTolerance;
     private final int dim;
     private final double[] lower;
     private final double[] upper;
@@ -35,6 +37,7 @@ public final class Fitter {
     public Fitter(CompiledModel model, DataSet data, FitSettings settings, int[] held, double[] heldValues) {
         this.m = model;
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
+        this.kinkTolerance = settings.options().fallbackTolerance();
         this.dim = nll.dimension();
         this.minimiser = settings.optimizer() == FitSettings.Optimizer.REFERENCE
                 ? new ReferenceMinimiser(dim)
@@ -132,8 +135,27 @@ public final class Fitter {
             x[hold[k]] = holdValues[k];
         }
         for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
-        MinimumResult r = hasKinks(held) ? minimiseOnPieces(x, held) : minimiser.minimise(nll, x, lower, upper, held);
+        MinimumResult r = minimiseWithKinks(x, held);
+        for (int round = 0; round < KINK_ROUNDS && !r.converged(); round++) {
+            MinimumResult checked = ClipKinkCheck.check(nll, r, lower, upper, kinkTolerance);
+            if (checked.converged() || !(checked.value() < r.value())) {
+                r = checked;
+                break;
+            }
+            // Moved along a clip kink to a lower point: Newton again from there.
+            MinimumResult again = minimiseWithKinks(checked.x(), held);
+            r = new MinimumResult(again.status(), again.x(), again.value(), again.gradient(), again.hessian(),
+                    again.fixed(), again.decrement(), checked.iterations() + again.iterations(),
+                    checked.evaluations() + again.evaluations());
+        }
         return toResult(r, held, System.nanoTime() - t0, errors);
+    }
+
+    /** Rounds of (Newton, clip-kink check) before a fit is given up ({@link ClipKinkCheck}). */
+    private static final int KINK_ROUNDS = 3;
+
+    private MinimumResult minimiseWithKinks(double[] x, boolean[] held) {
+        return hasKinks(held) ? minimiseOnPieces(x, held) : minimiser.minimise(nll, x, lower, upper, held);
     }
 
     private boolean hasKinks(boolean[] held) {

@@ -41,8 +41,8 @@ public final class Impacts {
 
         /** True for a linearised shift, or when both refits converged. */
         public boolean converged() {
-            return (upStatus == null || upStatus == MinimumStatus.CONVERGED)
-                    && (downStatus == null || downStatus == MinimumStatus.CONVERGED);
+            return (upStatus == null || upStatus.isMinimum())
+                    && (downStatus == null || downStatus.isMinimum());
         }
 
         private static double abs(double v) {

@@ -82,7 +82,7 @@ public record InjectionSummary(double injected, int toys, int converged, Map<Str
                 pull[n] = (f.poi() - injected) / f.poiError();
                 if (Math.abs(f.poi() - injected) <= f.poiError()) covered++;
                 n++;
-            } else if (f.status() == MinimumStatus.CONVERGED) {
+            } else if (f.status().isMinimum()) {
                 noError++;
             } else {
                 failed.merge(f.status(), 1, Integer::sum);

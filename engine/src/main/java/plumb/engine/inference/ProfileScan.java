@@ -130,7 +130,7 @@ public final class ProfileScan {
         MinimumStatus[] failed = new MinimumStatus[1];
         java.util.function.DoubleUnaryOperator f = v -> {
             Point p = profile(fitter, k, v);
-            if (p.status() != MinimumStatus.CONVERGED) {
+            if (!p.status().isMinimum()) {
                 failed[0] = p.status();
                 return Double.NaN;
             }

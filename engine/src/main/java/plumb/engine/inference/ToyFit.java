@@ -17,7 +17,7 @@ public record ToyFit(long index, MinimumStatus status, double poi, double poiErr
 
     /** True when the fit converged with a usable POI error: only such toys enter the statistics. */
     public boolean usable() {
-        return status == MinimumStatus.CONVERGED && poiError > 0 && poiError < Double.POSITIVE_INFINITY
+        return status.isMinimum() && poiError > 0 && poiError < Double.POSITIVE_INFINITY
                 && Double.isFinite(poi);
     }
 

@@ -213,6 +213,60 @@ public final class BinnedNll implements Objective {
         }
     }
 
+    /**
+     * The (sample, bin) entries at x whose unclipped yield n + Σ shape terms lies within
+     * {@code tolerance}·(1 + n) of zero and that some shape term moves: where the clip max(0, ·)
+     * puts a kink in −ln L. Only entries of channels that count are considered. Writes at most
+     * {@code out.length} entry indices; returns how many there are in all.
+     */
+    public int entriesAtClip(double[] x, double tolerance, int[] out) {
+        int found = 0;
+        for (int s = 0; s < m.nSamples; s++) {
+            if (!data.channelIncluded()[m.sampleChannel[s]] || m.sampleShapeStart[s] == m.sampleShapeStart[s + 1]) continue;
+            int e0 = m.sampleEntryStart[s];
+            for (int e = e0; e < m.sampleEntryStart[s + 1]; e++) {
+                double raw = unclippedBase(x, s, e - e0, null);
+                if (Math.abs(raw) <= tolerance * (1 + m.nominalYield[e]) && movesWithShape(s, e - e0)) {
+                    if (found < out.length) out[found] = e;
+                    found++;
+                }
+            }
+        }
+        return found;
+    }
+
+    /** Whether some shape term of sample s changes its yield in the bin (else no kink can sit there). */
+    private boolean movesWithShape(int s, int bin) {
+        for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+            int so = m.shapeCoeffStart[k] + bin;
+            if (m.shapeS[so] != 0 || m.shapeA[so] != 0) return true;
+        }
+        return false;
+    }
+
+    /** The sample owning entry e. */
+    public int sampleOfEntry(int e) {
+        int s = 0;
+        while (m.sampleEntryStart[s + 1] <= e) s++;
+        return s;
+    }
+
+    /**
+     * n_e + Σ_k Δ_k(θ) of one entry without the clip, and (when {@code gradient} is not null) its
+     * gradient over the model parameters (length nParams, overwritten).
+     */
+    public double unclippedBase(double[] x, int s, int bin, double[] gradient) {
+        if (gradient != null) Arrays.fill(gradient, 0, m.nParams, 0);
+        double raw = m.nominalYield[m.sampleEntryStart[s] + bin];
+        for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+            int p = m.shapeParam[k], so = m.shapeCoeffStart[k] + bin;
+            ShapeInterpolation.evaluate(m.shapeMode[k], x[p], tmp3);
+            raw += m.shapeS[so] * x[p] + m.shapeA[so] * tmp3[0];
+            if (gradient != null) gradient[p] += m.shapeS[so] + m.shapeA[so] * tmp3[1];
+        }
+        return raw;
+    }
+
     private double evaluate(double[] x, double[] grad, double[] hess, boolean explicit) {
         final CompiledModel m = this.m;
         final double[] counts = data.counts();

@@ -30,9 +30,9 @@ public record MinimumResult(MinimumStatus status, double[] x, double value, doub
         }
     }
 
-    /** {@code true} exactly when the status is {@link MinimumStatus#CONVERGED}. */
+    /** Whether the result is a minimum ({@link MinimumStatus#isMinimum()}). */
     public boolean converged() {
-        return status == MinimumStatus.CONVERGED;
+        return status.isMinimum();
     }
 
     /** Number of variables n. */
