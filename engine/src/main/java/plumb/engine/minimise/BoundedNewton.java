@@ -170,21 +170,8 @@ public final class BoundedNewton extends BoxMinimiser {
         }
         double alpha = 1;
         for (int trial = 0; trial < MAX_BACKTRACKS; trial++) {
-            double slope = 0;
-            double moved = 0;
-            for (int i = 0; i < n; i++) {
-                final double si = step[i];
-                if (si == 0) {
-                    xt[i] = x[i];
-                } else {
-                    final double v = box.clip(i, x[i] + alpha * si);
-                    xt[i] = v;
-                    final double dx = v - x[i];
-                    slope += g[i] * dx;
-                    moved = Math.max(moved, Math.abs(dx));
-                }
-            }
-            if (moved == 0) {
+            final double slope = trialPoint(step, alpha);
+            if (Double.isNaN(slope)) {
                 return FAILED;
             }
             if (outOfBudget()) {

@@ -87,6 +87,28 @@ abstract class BoxMinimiser implements Minimiser {
         }
     }
 
+    /**
+     * Writes the trial point xt = clip(x + α·step) into the box and returns the predicted change
+     * gᵀ(xt − x), or NaN when clipping leaves no variable moved. Shared by the line searches.
+     */
+    final double trialPoint(double[] step, double alpha) {
+        double slope = 0;
+        double moved = 0;
+        for (int i = 0; i < n; i++) {
+            final double si = step[i];
+            if (si == 0) {
+                xt[i] = x[i];
+            } else {
+                final double v = box.clip(i, x[i] + alpha * si);
+                xt[i] = v;
+                final double dx = v - x[i];
+                slope += g[i] * dx;
+                moved = Math.max(moved, Math.abs(dx));
+            }
+        }
+        return moved == 0 ? Double.NaN : slope;
+    }
+
     boolean outOfBudget() {
         return evaluations >= options.maxEvaluations();
     }
