@@ -41,7 +41,7 @@ final class ReportCommand implements Callable<Integer> {
     Path out;
 
     @Option(names = "--toys", paramLabel = "N", defaultValue = "" + DEFAULT_TOYS,
-            description = "Toys per injected value (0, 1, 2) of the injection test; 0 for the Asimov closure only "
+            description = "Toys per injected value (1, 2, 3) of the injection test; 0 for the Asimov closure only "
                     + "(default: ${DEFAULT-VALUE}).")
     int toys;
 

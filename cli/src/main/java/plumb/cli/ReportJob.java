@@ -36,7 +36,7 @@ import java.util.function.Supplier;
  *   json/discovery.json  plumb discovery MODEL --json
  *   json/limit.json      plumb limit MODEL… [--label KEY] --json     (every model; seconds differ)
  *   json/gof.json        plumb gof MODEL --json
- *   json/inject.json     plumb inject MODEL --mu 0,1,2 --toys T --asimov --json
+ *   json/inject.json     plumb inject MODEL --mu 1,2,3 --toys T --asimov --json
  * </pre>
  * each with the shared fit options given to the report (inject takes --fix, --threads, --seed,
  * --optimizer and --explicit-mcstat). A section that fails is recorded with why and the others
@@ -44,8 +44,12 @@ import java.util.function.Supplier;
  */
 final class ReportJob {
 
-    /** POI values of the injection test (those inside the POI's range): background only, the nominal signal, twice it. */
-    static final double[] INJECTED = {0, 1, 2};
+    /**
+     * POI values of the injection test (those inside the POI's range): the nominal signal, then
+     * twice and three times it for the linearity. Not 0: a POI bounded at 0 keeps every fit at or
+     * above it, which lifts the mean fitted value there and bends the line for no fault of the fit.
+     */
+    static final double[] INJECTED = {1, 2, 3};
 
     /** Points of the POI scan: the scan command's default. */
     static final int SCAN_POINTS = 21;
@@ -195,7 +199,7 @@ final class ReportJob {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
             List<Double> mu = new ArrayList<>();
             for (double x : INJECTED) if (x >= m.lower[m.poi] && x <= m.upper[m.poi]) mu.add(x);
-            if (mu.isEmpty()) throw new ComputationException("none of the injected values 0, 1, 2 is inside the POI's range");
+            if (mu.isEmpty()) throw new ComputationException("none of the injected values 1, 2, 3 is inside the POI's range");
             return InjectCommand.withClosure(mu, toys, fit).compute(main, false, null);
         });
         if (inj == null) return in;

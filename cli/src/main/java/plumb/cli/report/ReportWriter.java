@@ -142,7 +142,7 @@ public final class ReportWriter {
             StringBuilder labels = new StringBuilder();
             for (Map.Entry<String, Object> e : s.labels().entrySet()) {
                 if (labels.length() > 0) labels.append(", ");
-                labels.append(e.getKey()).append(" = ").append(e.getValue());
+                labels.append(e.getKey()).append(" = ").append(e.getValue() instanceof Number n ? plumb.cli.Numbers.plain(n.doubleValue()) : e.getValue());
             }
             fact("Labels", labels.toString());
         }
@@ -361,10 +361,13 @@ public final class ReportWriter {
         String cl = LimitsFigure.percent(l.cl());
         html.append("<p>CLs upper limits on ").append(esc(l.poi())).append(" at ").append(cl).append("% CL (")
             .append(esc(orDash(l.method()))).append(").</p>\n");
-        if (l.points().size() >= 2) {
+        // Points without any limit (their computation failed) stay in the table but not on the curve.
+        List<LimitBands.Point> drawn = new ArrayList<>();
+        for (LimitBands.Point p : l.points()) if (Double.isFinite(p.median()) || Double.isFinite(p.observed())) drawn.add(p);
+        if (drawn.size() >= 2) {
             String xLabel = l.xLabel() == null ? "point" : l.xLabel();
             figure("limits", "Observed and expected upper limits against " + xLabel + ".",
-                    () -> LimitsFigure.of(new LimitBands(l.poi(), xLabel, l.cl(), l.points())));
+                    () -> LimitsFigure.of(new LimitBands(l.poi(), xLabel, l.cl(), drawn)));
         }
         Table.Builder t = Table.builder(null, l.xLabel() == null ? "Point" : l.xLabel(), "Observed", "Expected −2σ",
                 "Expected −1σ", "Expected median", "Expected +1σ", "Expected +2σ");
@@ -456,17 +459,17 @@ public final class ReportWriter {
     private void open(String id, String title) {
         section = id;
         html.append("<section id=\"").append(id).append("\">\n<h2>").append(esc(title)).append("</h2>\n");
+        String failure = in.summary().failure(id);
+        if (failure != null) html.append("<p class=\"bad\">This section failed: ").append(esc(failure)).append("</p>\n");
     }
 
     private void close() {
         html.append("</section>\n");
     }
 
-    /** A section without content: failed (in red, with why) or not run. */
+    /** A section without content: not run, unless it failed (then {@link #open} said why). */
     private void notRun() {
-        String failure = in.summary().failure(section);
-        if (failure != null) html.append("<p class=\"bad\">This section failed: ").append(esc(failure)).append("</p>\n");
-        else html.append("<p class=\"muted\">Not run for this report.</p>\n");
+        if (in.summary().failure(section) == null) html.append("<p class=\"muted\">Not run for this report.</p>\n");
         close();
     }
 

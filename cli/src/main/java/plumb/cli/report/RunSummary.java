@@ -60,10 +60,11 @@ public record RunSummary(String model, String description, String modelFile, Str
                 nonConverged, List.of());
     }
 
-    /** Why section {@code id} failed, or null when it did not. */
+    /** Why section {@code id} failed (several reasons joined by "; "), or null when it did not. */
     public String failure(String id) {
-        for (Failure f : failures) if (f.section().equals(id)) return f.message();
-        return null;
+        List<String> why = new java.util.ArrayList<>();
+        for (Failure f : failures) if (f.section().equals(id)) why.add(f.message());
+        return why.isEmpty() ? null : String.join("; ", why);
     }
 
     /** True when something failed: a section, or a fit that did not converge (the run's exit status is then 1). */
