@@ -66,9 +66,10 @@ final class ReportCommand implements Callable<Integer> {
 
     /** Runs a report job, prints where the page is and what failed; the exit status. */
     static int run(ReportJob job, Path dir, PrintWriter out, PrintWriter err, String command) {
+        long t0 = System.nanoTime();
         ReportJob.Outcome o = job.run(dir);
         RunSummary s = o.summary();
-        out.printf(Locale.ROOT, "Report written to %s (%s)%n", o.index(), duration(s.seconds()));
+        out.printf(Locale.ROOT, "Report written to %s (%s)%n", o.index(), duration((System.nanoTime() - t0) * 1e-9));
         out.flush();
         for (RunSummary.Failure f : s.failures()) err.printf("plumb %s: %s failed: %s%n", command, f.section(), f.message());
         for (String f : s.nonConverged()) err.printf("plumb %s: did not converge: %s%n", command, f);

@@ -61,6 +61,7 @@ public final class ReportWriter {
     private StringBuilder html = new StringBuilder();
     private final List<String> problems = new ArrayList<>();
     private String section;
+    private long drawStart;
 
     private ReportWriter(ReportInput in, Path stage) {
         this.in = in;
@@ -91,6 +92,7 @@ public final class ReportWriter {
     }
 
     private void build() throws IOException {
+        drawStart = System.nanoTime();
         RunSummary s = in.summary();
         StringBuilder page = new StringBuilder(64 * 1024);
         page.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
@@ -138,6 +140,8 @@ public final class ReportWriter {
         fact("Seed", s.seed() == null ? "none used" : Long.toString(s.seed()));
         fact("Plumb version", orDash(s.toolVersion()));
         fact("Time taken", duration(s.seconds()));
+        // The summary is built last, so this covers every figure and table of the page.
+        fact("Figures and tables drawn in", duration((System.nanoTime() - drawStart) * 1e-9));
         if (!s.labels().isEmpty()) {
             StringBuilder labels = new StringBuilder();
             for (Map.Entry<String, Object> e : s.labels().entrySet()) {

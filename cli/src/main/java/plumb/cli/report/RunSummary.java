@@ -21,7 +21,7 @@ import java.util.Map;
  * @param dataSet       "observed" or "asimov"
  * @param seed          seed of all random numbers, or null when none was used
  * @param toolVersion   Plumb version string
- * @param seconds       wall time of the whole run
+ * @param seconds       wall time of the run's computations (drawing the page not included)
  * @param labels        the model's labels (values: numbers or strings), may be empty
  * @param warnings      warnings collected during the run, may be empty
  * @param nonConverged  names of fits that did not converge ("fit", "scan point mu=2.5", ...), may be empty
