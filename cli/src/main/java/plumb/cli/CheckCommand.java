@@ -29,27 +29,9 @@ final class CheckCommand implements Callable<Integer> {
         ModelInput.Loaded loaded = input.load();
         CompiledModel m = loaded.compiled();
         PrintWriter out = spec.commandLine().getOut();
-        int factors = 0, nuisances = 0;
-        for (int i = 0; i < m.nParams; i++) {
-            if (m.kind[i] == ParameterKind.FACTOR) factors++;
-            else nuisances++;
-        }
+        int factors = factors(m), nuisances = m.nParams - factors;
         if (json != null) {
-            ObjectNode root = Json.result(m.labels, m.anyBlinded() ? "blinded" : "observed");
-            root.put("valid", true);
-            root.put("channels", m.nChannels);
-            root.put("bins", m.nBins);
-            root.put("samples", m.nSamples);
-            root.put("parameters", m.nAll);
-            root.put("freeFactors", factors);
-            root.put("nuisanceParameters", nuisances);
-            root.put("mcStatParameters", m.nGamma);
-            root.put("poi", m.poi < 0 ? null : m.parameterNames[m.poi]);
-            var pruned = root.putArray("pruned");
-            m.pruned.forEach(pruned::add);
-            var warnings = root.putArray("warnings");
-            m.warnings.forEach(warnings::add);
-            Outputs.write(json, Json.write(root), out);
+            Outputs.write(json, Json.write(toJson(m)), out);
             if ("-".equals(json)) return ExitCodes.OK;
         }
         out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
@@ -71,5 +53,31 @@ final class CheckCommand implements Callable<Integer> {
         }
         out.flush();
         return ExitCodes.OK;
+    }
+
+    /** The check result file of docs/cli-contract.md. */
+    static ObjectNode toJson(CompiledModel m) {
+        int factors = factors(m);
+        ObjectNode root = Json.result(m.labels, m.anyBlinded() ? "blinded" : "observed");
+        root.put("valid", true);
+        root.put("channels", m.nChannels);
+        root.put("bins", m.nBins);
+        root.put("samples", m.nSamples);
+        root.put("parameters", m.nAll);
+        root.put("freeFactors", factors);
+        root.put("nuisanceParameters", m.nParams - factors);
+        root.put("mcStatParameters", m.nGamma);
+        root.put("poi", m.poi < 0 ? null : m.parameterNames[m.poi]);
+        var pruned = root.putArray("pruned");
+        m.pruned.forEach(pruned::add);
+        var warnings = root.putArray("warnings");
+        m.warnings.forEach(warnings::add);
+        return root;
+    }
+
+    private static int factors(CompiledModel m) {
+        int factors = 0;
+        for (int i = 0; i < m.nParams; i++) if (m.kind[i] == ParameterKind.FACTOR) factors++;
+        return factors;
     }
 }

@@ -38,6 +38,33 @@ final class DiscoveryCommand implements Callable<Integer> {
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
+        Computed c = compute(l, fit, toys);
+        PoiData d = c.data();
+        Discovery.Significance observed = c.observed(), expected = c.expected();
+        ToyPValue toy = c.toy();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, c, fit.seed)), out);
+        if (!"-".equals(json)) print(out, l, d, observed, expected, toy);
+        return ExitCodes.OK;
+    }
+
+    /**
+     * The discovery tests of one model.
+     *
+     * @param observed null for a blinded model
+     * @param toy      null without toys
+     */
+    record Computed(PoiData data, Discovery.Significance observed, Discovery.Significance expected, ToyPValue toy) { }
+
+    /**
+     * The observed (unless blinded) and expected q0 tests of {@code l} with the shared options, and
+     * with {@code toys} (null: none) the observed p-value from background-only toys.
+     *
+     * @throws InputException for options that do not fit the model
+     * @throws ComputationException when a needed fit fails
+     */
+    static Computed compute(ModelInput.Loaded l, FitOptions fit, Integer toys) {
+        CompiledModel m = l.compiled();
         // The expected significance is on the Asimov set at --asimov-poi (default 1); --data asimov
         // then tests that same set.
         double expectedPoi = fit.asimovPoi == null ? 1.0 : fit.asimovPoi;
@@ -63,14 +90,14 @@ final class DiscoveryCommand implements Callable<Integer> {
         } catch (InferenceException e) {
             throw new ComputationException(e.getMessage());
         }
-        PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, d, observed, expected, toy)), out);
-        if (!"-".equals(json)) print(out, l, d, observed, expected, toy);
-        return ExitCodes.OK;
+        return new Computed(d, observed, expected, toy);
     }
 
-    private ObjectNode toJson(CompiledModel m, PoiData d, Discovery.Significance observed,
-                              Discovery.Significance expected, ToyPValue toy) {
+    /** The discovery result file of docs/cli-contract.md; {@code seed} is reported with toys. */
+    static ObjectNode toJson(CompiledModel m, Computed c, long seed) {
+        PoiData d = c.data();
+        Discovery.Significance observed = c.observed(), expected = c.expected();
+        ToyPValue toy = c.toy();
         ObjectNode root = Json.result(m.labels, d.kind());
         root.put("poi", m.parameterNames[m.poi]);
         root.put("statistic", "q0");
@@ -87,7 +114,7 @@ final class DiscoveryCommand implements Callable<Integer> {
             Json.put(t, "p", toy.p());
             Json.put(t, "pError", toy.error());
             Json.put(t, "z", z(toy.p()));
-            t.put("seed", fit.seed);
+            t.put("seed", seed);
         }
         return root;
     }

@@ -41,26 +41,44 @@ final class GofCommand implements Callable<Integer> {
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
-        GoodnessOfFit.Result r;
-        ToyPValue toy = null;
+        Computed c = compute(m, p, fit, toys);
+        GoodnessOfFit.Result r = c.result();
+        ToyPValue toy = c.toy();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, c, fit.seed)), out);
+        if (!"-".equals(json)) print(out, l, p, r, toy);
+        return ExitCodes.OK;
+    }
+
+    /** The saturated-model test, and with toys (else null) its p-value from toys. */
+    record Computed(GoodnessOfFit.Result result, ToyPValue toy) { }
+
+    /**
+     * The goodness of fit to the prepared data; with {@code toys} (null: none) also from toys
+     * drawn at the best fit, seeded by the options.
+     *
+     * @throws ComputationException when the fit fails
+     */
+    static Computed compute(CompiledModel m, FitOptions.Prepared p, FitOptions fit, Integer toys) {
         try {
-            r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
+            GoodnessOfFit.Result r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
+            ToyPValue toy = null;
             if (toys != null) {
                 try (Progress bar = Progress.start("toys", toys)) {
                     toy = GoodnessOfFit.toys(m, p.data(), r.statistic(), r.fit().values(), p.settings(), p.held(),
                             p.heldValues(), toys, fit.seed, fit.threadCount(), bar.callback());
                 }
             }
+            return new Computed(r, toy);
         } catch (InferenceException e) {
             throw new ComputationException(e.getMessage());
         }
-        PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, r, toy)), out);
-        if (!"-".equals(json)) print(out, l, p, r, toy);
-        return ExitCodes.OK;
     }
 
-    private ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy) {
+    /** The goodness-of-fit result file of docs/cli-contract.md; {@code seed} is reported with toys. */
+    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, Computed computed, long seed) {
+        GoodnessOfFit.Result r = computed.result();
+        ToyPValue toy = computed.toy();
         ObjectNode root = Json.result(m.labels, p.kind());
         if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
         root.put("method", "saturated");
@@ -82,7 +100,7 @@ final class GofCommand implements Callable<Integer> {
             t.put("exceeding", toy.exceeding());
             Json.put(t, "p", toy.p());
             Json.put(t, "pError", toy.error());
-            t.put("seed", fit.seed);
+            t.put("seed", seed);
         }
         return root;
     }

@@ -50,8 +50,37 @@ final class ImpactsCommand implements Callable<Integer> {
         CompiledModel m = input.load().compiled();
         if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
         FitOptions.Prepared p = fit.prepare(m, 1.0);
-        int threads = fit.threadCount();
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        Computed c = compute(m, p, best, exactTop, includeMcStat, fit.threadCount());
+        List<Impacts.Entry> entries = c.entries();
+        Impacts.Breakdown breakdown = c.breakdown();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, best, entries, breakdown)), out);
+        if (!"-".equals(json)) printTable(out, m, p, best, entries, breakdown);
+        long failed = c.failedRefits();
+        if (failed > 0) {
+            spec.commandLine().getErr().printf(Locale.ROOT,
+                    "plumb impacts: %d parameters had refits that did not converge; their shifts are null (see status)%n", failed);
+        }
+        return ExitCodes.OK;
+    }
+
+    /** The ranking (largest first) and the grouped breakdown. */
+    record Computed(List<Impacts.Entry> entries, Impacts.Breakdown breakdown) {
+        /** Parameters with a refit that did not converge (their shifts are NaN). */
+        long failedRefits() {
+            return entries.stream().filter(e -> e.refitted() && !(e.postfit().converged() && e.prefit().converged())).count();
+        }
+    }
+
+    /**
+     * Ranks the impacts around the best fit {@code best} of the prepared data: exact refits for the
+     * {@code exactTop} largest by the linearised ranking (null: all), linearised for the rest.
+     *
+     * @throws ComputationException when the best fit did not converge
+     */
+    static Computed compute(CompiledModel m, FitOptions.Prepared p, FitResult best, Integer exactTop,
+                            boolean includeMcStat, int threads) {
         if (!best.converged() || best.covariance() == null) {
             throw new ComputationException("the best fit did not converge (" + best.status() + "); no impacts");
         }
@@ -62,16 +91,7 @@ final class ImpactsCommand implements Callable<Integer> {
         try (Progress bar = Progress.start("impacts", 4L * exact)) {
             entries = impacts.rank(exact, threads, bar.callback());
         }
-        Impacts.Breakdown breakdown = impacts.breakdown();
-        PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, best, entries, breakdown)), out);
-        if (!"-".equals(json)) printTable(out, m, p, best, entries, breakdown);
-        long failed = entries.stream().filter(e -> e.refitted() && !(e.postfit().converged() && e.prefit().converged())).count();
-        if (failed > 0) {
-            spec.commandLine().getErr().printf(Locale.ROOT,
-                    "plumb impacts: %d parameters had refits that did not converge; their shifts are null (see status)%n", failed);
-        }
-        return ExitCodes.OK;
+        return new Computed(entries, impacts.breakdown());
     }
 
     /** The impacts result file of docs/cli-contract.md, with the linearised shifts and the breakdown added. */

@@ -114,14 +114,79 @@ final class InjectCommand implements Callable<Integer> {
     @Override
     public Integer call() {
         ModelInput.Loaded loaded = input.load();
+        boolean batch = first != null || count != null;
+        PrintWriter out = spec.commandLine().getOut();
+        PrintWriter err = spec.commandLine().getErr();
+        boolean table = !"-".equals(json);
+        Computed c = compute(loaded, batch, table ? out : null);
+        CompiledModel m = loaded.compiled();
+        if (batch) {
+            c.campaign().writePart(json, out);
+            if (table) {
+                out.printf(Locale.ROOT, "wrote toys %d..%d of each value to %s; merge the parts with 'plumb merge-toys'%n",
+                        c.campaign().first(), c.campaign().first() + c.campaign().count() - 1, json);
+            }
+            return ExitCodes.OK;
+        }
+        List<InjectionSummary> summaries = c.summaries();
+        if (json != null) Outputs.write(json, Json.write(c.toJson()), out);
+        if (table && c.campaign().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
+        int status = ExitCodes.OK;
+        if (c.closureFailed()) {
+            err.println("plumb inject: the Asimov closure check failed (see above)");
+            status = ExitCodes.FAILED;
+        }
+        for (InjectionSummary s : summaries) {
+            if (s.toys() > 0 && s.converged() == 0) {
+                err.printf(Locale.ROOT, "plumb inject: no toy fit at %s = %s converged%n", m.parameterNames[m.poi],
+                        Numbers.plain(s.injected()));
+                status = ExitCodes.FAILED;
+            }
+        }
+        err.flush();
+        return status;
+    }
+
+    /**
+     * The outcome of an injection run.
+     *
+     * @param campaign  the toys' results
+     * @param closures  per injected value the Asimov closure check (empty without --asimov)
+     * @param summaries per injected value the toys' summary (empty in batch mode)
+     */
+    record Computed(CompiledModel model, ToyCampaign campaign, List<AsimovClosure> closures,
+                    List<InjectionSummary> summaries) {
+        boolean closureFailed() {
+            return closures.stream().anyMatch(c -> !c.passed());
+        }
+
+        /** The result file of docs/cli-contract.md. */
+        ObjectNode toJson() {
+            List<ObjectNode> json = null;
+            if (!closures.isEmpty()) {
+                json = new ArrayList<>();
+                for (AsimovClosure c : closures) json.add(closureJson(model, c));
+            }
+            return campaign.resultJson(json, summaries);
+        }
+    }
+
+    /**
+     * The toys (and with --asimov the closure checks) of every injected value, as the options say.
+     *
+     * @param batch  batch mode (--first/--count): no summaries
+     * @param table  where to print the run's header and closure lines as they come, or null
+     * @throws InputException for options that do not fit the model
+     * @throws ComputationException when a generating point's fit to the observed data fails
+     */
+    Computed compute(ModelInput.Loaded loaded, boolean batch, PrintWriter table) {
         CompiledModel m = loaded.compiled();
         FitOptions options = fitOptions();
-        boolean batch = first != null || count != null;
         int perValue = checkOptions(m, batch);
         Map<Integer, Double> fixes = options.fixes(m);
-        if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
+        if (m.poi < 0) throw new InputException(loaded.file() + ": the model names no parameter of interest (poi)");
         if (fixes.containsKey(m.poi)) throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held in an injection");
-        if (m.fixed[m.poi]) throw new InputException(input.file + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
+        if (m.fixed[m.poi]) throw new InputException(loaded.file() + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
         for (double x : mu) {
             if (!(x >= m.lower[m.poi] && x <= m.upper[m.poi])) {
                 throw new InputException(String.format(Locale.ROOT, "--mu %s is outside the POI range [%s, %s]",
@@ -140,10 +205,6 @@ final class InjectCommand implements Callable<Integer> {
         checkMemory(perValue, pulled.length);
         int threadCount = options.threadCount();
 
-        PrintWriter out = spec.commandLine().getOut();
-        PrintWriter err = spec.commandLine().getErr();
-        boolean table = !"-".equals(json);
-
         List<double[]> points = new ArrayList<>();
         for (double x : mu) {
             DataSets.Generated g = engine.generatingPoint(x, postfit);
@@ -155,25 +216,22 @@ final class InjectCommand implements Callable<Integer> {
             points.add(g.values());
         }
 
-        if (table) {
-            out.printf(Locale.ROOT, "Signal injection into '%s': %s = %s, %d toys each, nuisances at %s values, %s, seed %d%n",
+        if (table != null) {
+            table.printf(Locale.ROOT, "Signal injection into '%s': %s = %s, %d toys each, nuisances at %s values, %s, seed %d%n",
                     m.name, m.parameterNames[m.poi], joined(), perValue, from == From.postfit ? "post-fit" : "nominal",
                     noAuxFluctuation ? "auxiliary values held" : "auxiliary values fluctuated", seed);
-            out.flush();
+            table.flush();
         }
 
-        List<ObjectNode> closures = null;
-        boolean closureFailed = false;
+        List<AsimovClosure> closures = new ArrayList<>();
         if (asimov) {
-            closures = new ArrayList<>();
-            if (table) out.printf("%nAsimov closure (fit to the Asimov data set from the nominal values):%n");
+            if (table != null) table.printf("%nAsimov closure (fit to the Asimov data set from the nominal values):%n");
             for (int k = 0; k < mu.size(); k++) {
                 AsimovClosure c = engine.closure(points.get(k));
-                closures.add(closureJson(m, c));
-                closureFailed |= !c.passed();
-                if (table) printClosure(out, m, c);
+                closures.add(c);
+                if (table != null) printClosure(table, m, c);
             }
-            out.flush();
+            if (table != null) table.flush();
         }
 
         List<ToyCampaign.Injection> injections = new ArrayList<>();
@@ -190,32 +248,26 @@ final class InjectCommand implements Callable<Integer> {
         for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
         ToyCampaign campaign = new ToyCampaign(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
                 perValue, injections);
+        return new Computed(m, campaign, closures, batch ? List.of() : campaign.summaries());
+    }
 
-        if (batch) {
-            campaign.writePart(json, out);
-            if (table) {
-                out.printf(Locale.ROOT, "wrote toys %d..%d of each value to %s; merge the parts with 'plumb merge-toys'%n",
-                        firstToy, firstToy + perValue - 1, json);
-            }
-            return ExitCodes.OK;
-        }
-        List<InjectionSummary> summaries = campaign.summaries();
-        if (json != null) Outputs.write(json, Json.write(campaign.resultJson(closures, summaries)), out);
-        if (table && perValue > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
-        int status = ExitCodes.OK;
-        if (closureFailed) {
-            err.println("plumb inject: the Asimov closure check failed (see above)");
-            status = ExitCodes.FAILED;
-        }
-        for (InjectionSummary s : summaries) {
-            if (s.toys() > 0 && s.converged() == 0) {
-                err.printf(Locale.ROOT, "plumb inject: no toy fit at %s = %s converged%n", m.parameterNames[m.poi],
-                        Numbers.plain(s.injected()));
-                status = ExitCodes.FAILED;
-            }
-        }
-        err.flush();
-        return status;
+    /**
+     * What {@code plumb inject MODEL --mu X,… --toys N --asimov} does with the shared options'
+     * --fix, --threads, --seed, --optimizer and --explicit-mcstat: toys at the nominal nuisance
+     * values, auxiliary values fluctuated, and the Asimov closure check at every X.
+     */
+    static InjectCommand withClosure(List<Double> mu, int toys, FitOptions fit) {
+        InjectCommand c = new InjectCommand();
+        c.mu = List.copyOf(mu);
+        c.toys = toys;
+        c.asimov = true;
+        c.from = From.nominal;
+        c.fix = fit.fix;
+        c.threads = fit.threads;
+        c.seed = fit.seed;
+        c.optimizer = fit.optimizer;
+        c.explicitMcStat = fit.explicitMcStat;
+        return c;
     }
 
     /** The shared fit options, filled from this command's own (inject has no --data). */

@@ -75,6 +75,51 @@ final class LimitCommand implements Callable<Integer> {
     public Integer call() {
         if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        Computed c = compute();
+        List<Outcome> outcomes = c.outcomes();
+        String key = c.key();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(outcomes, key)), out);
+        if (csv != null) Outputs.write(csv, TableFormat.CSV.render(table(outcomes, key)), out);
+        if (!"-".equals(json)) {
+            if (outcomes.size() == 1) printSingle(out, outcomes.get(0));
+            else out.print(TableFormat.TEXT.render(table(outcomes, key)));
+            out.flush();
+        }
+        List<String> errors = c.errors();
+        if (!errors.isEmpty()) throw new ComputationException(String.join("; ", errors));
+        return ExitCodes.OK;
+    }
+
+    /** Every model's outcome, ordered by x, and the label key x comes from (null: none). */
+    record Computed(List<Outcome> outcomes, String key) {
+        /** The outcomes that have no limit, with why. */
+        List<String> errors() {
+            List<String> errors = new ArrayList<>();
+            for (Outcome o : outcomes) {
+                if (o.error() != null) errors.add(outcomes.size() == 1 ? o.error() : o.model().file() + ": " + o.error());
+            }
+            return errors;
+        }
+    }
+
+    /** Asymptotic limits at 95 % CL of {@code models} with the shared options (what {@code plumb limit} does by default). */
+    static LimitCommand asymptotic(List<Path> models, FitOptions fit, String label) {
+        LimitCommand c = new LimitCommand();
+        c.models = models;
+        c.fit = fit;
+        c.cl = 0.95;
+        c.label = label;
+        return c;
+    }
+
+    /**
+     * The limits of every model named: a limit that cannot be computed is an outcome with its
+     * error, not an exception.
+     *
+     * @throws InputException for options that do not fit the models
+     */
+    Computed compute() {
         List<Path> files = modelFiles(models);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : files) loaded.add(ModelInput.load(f));
@@ -101,18 +146,7 @@ final class LimitCommand implements Callable<Integer> {
         }
         outcomes = new ArrayList<>(outcomes);
         outcomes.sort(Comparator.comparingDouble(Outcome::x));
-        PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(outcomes, key)), out);
-        if (csv != null) Outputs.write(csv, TableFormat.CSV.render(table(outcomes, key)), out);
-        if (!"-".equals(json)) {
-            if (outcomes.size() == 1) printSingle(out, outcomes.get(0));
-            else out.print(TableFormat.TEXT.render(table(outcomes, key)));
-            out.flush();
-        }
-        List<String> errors = new ArrayList<>();
-        for (Outcome o : outcomes) if (o.error() != null) errors.add(outcomes.size() == 1 ? o.error() : o.model().file() + ": " + o.error());
-        if (!errors.isEmpty()) throw new ComputationException(String.join("; ", errors));
-        return ExitCodes.OK;
+        return new Computed(outcomes, key);
     }
 
     private Outcome compute(ModelInput.Loaded l, double x, PoiData d, int threads, Progress bar) {

@@ -56,32 +56,55 @@ final class ScanCommand implements Callable<Integer> {
             if (h == k) throw new InputException("--parameter " + m.parameterNames[k] + " is held by --fix; it cannot be scanned");
         }
         if (m.fixed[k]) throw new InputException("--parameter " + m.parameterNames[k] + " is fixed in the model; it cannot be scanned");
+        if (lohi != null && (lohi[0] < m.lower[k] || lohi[1] > m.upper[k])) {
+            throw new InputException(String.format(Locale.ROOT, "--range %s reaches outside the range [%s, %s] of %s",
+                    range, m.lower[k], m.upper[k], m.parameterNames[k]));
+        }
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
+        Computed c = compute(m, p, k, best, lohi, points, fit.threadCount());
+        List<ProfileScan.Point> pts = c.points();
+        List<ProfileScan.Interval> intervals = c.intervals();
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(toJson(m, p, k, best, pts, intervals)), out);
+        if (!"-".equals(json)) printTable(out, m, k, best, pts, intervals);
+        long failed = c.failedRefits();
+        if (failed > 0) {
+            spec.commandLine().getErr().printf(Locale.ROOT, "plumb scan: %d refits did not converge; their values are null%n", failed);
+        }
+        return ExitCodes.OK;
+    }
+
+    /** The scanned points and the 68 % and 95 % intervals. */
+    record Computed(List<ProfileScan.Point> points, List<ProfileScan.Interval> intervals) {
+        /** Scan points and interval ends whose refits did not converge. */
+        long failedRefits() {
+            long failed = points.stream().filter(x -> Double.isNaN(x.deltaNll())).count();
+            for (ProfileScan.Interval iv : intervals) if (iv.failure() != null) failed++;
+            return failed;
+        }
+    }
+
+    /**
+     * Scans parameter {@code k} around the best fit {@code best} of the prepared data over
+     * {@code lohi} (null: best fit ± {@value #DEFAULT_HALF_WIDTH} errors, clipped to the range).
+     *
+     * @throws ComputationException when the best fit did not converge
+     */
+    static Computed compute(CompiledModel m, FitOptions.Prepared p, int k, FitResult best, double[] lohi, int points,
+                            int threads) {
         if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
         double v = best.values()[k], e = best.errors()[k];
         if (lohi == null) {
             double half = DEFAULT_HALF_WIDTH * (e > 0 && Double.isFinite(e) ? e : Math.max(1e-3, 0.1 * Math.abs(v)));
             lohi = new double[] {Math.max(m.lower[k], v - half), Math.min(m.upper[k], v + half)};
-        } else if (lohi[0] < m.lower[k] || lohi[1] > m.upper[k]) {
-            throw new InputException(String.format(Locale.ROOT, "--range %s reaches outside the range [%s, %s] of %s",
-                    range, m.lower[k], m.upper[k], m.parameterNames[k]));
         }
-        int threads = fit.threadCount();
         ProfileScan scan = new ProfileScan(m, p.data(), p.settings(), p.held(), p.heldValues(), best);
         List<ProfileScan.Point> pts;
         try (Progress bar = Progress.start("scan " + m.parameterNames[k], points)) {
             pts = scan.points(k, lohi[0], lohi[1], points, threads, bar.callback());
         }
         List<ProfileScan.Interval> intervals = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads);
-        PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, k, best, pts, intervals)), out);
-        if (!"-".equals(json)) printTable(out, m, k, best, pts, intervals);
-        long failed = pts.stream().filter(x -> Double.isNaN(x.deltaNll())).count();
-        for (ProfileScan.Interval iv : intervals) if (iv.failure() != null) failed++;
-        if (failed > 0) {
-            spec.commandLine().getErr().printf(Locale.ROOT, "plumb scan: %d refits did not converge; their values are null%n", failed);
-        }
-        return ExitCodes.OK;
+        return new Computed(pts, intervals);
     }
 
     static int resolve(CompiledModel m, String name) {

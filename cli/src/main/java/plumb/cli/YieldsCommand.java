@@ -51,13 +51,7 @@ final class YieldsCommand implements Callable<Integer> {
         CompiledModel m = input.load().compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
-        FitResult best = fitter.fit();
-        if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no post-fit yields");
-        double[] cov = Covariances.full(fitter.likelihood(), best);
-        if (cov == null) throw new ComputationException("the post-fit covariance is not positive definite; no post-fit errors");
-        double[] prefitValues = m.nominal.clone();
-        for (int i = 0; i < p.held().length; i++) prefitValues[p.held()[i]] = p.heldValues()[i];
-        List<Yields.ChannelYields> yields = Yields.compute(m, p.data(), prefitValues, best.held(), best, cov);
+        List<Yields.ChannelYields> yields = compute(m, p, fitter, fitter.fit());
         if (json != null) Outputs.write(json, Json.write(toJson(m, p, yields)), spec.commandLine().getOut());
         if (!"-".equals(json) || outFile != null) {
             StringBuilder text = new StringBuilder();
@@ -68,6 +62,21 @@ final class YieldsCommand implements Callable<Integer> {
             Outputs.write(outFile == null ? "-" : outFile, text.toString(), spec.commandLine().getOut());
         }
         return ExitCodes.OK;
+    }
+
+    /**
+     * Pre-fit and post-fit yields around {@code best}, the fit made by {@code fitter} (whose
+     * likelihood gives the full post-fit covariance).
+     *
+     * @throws ComputationException when the fit did not converge or its covariance is not positive definite
+     */
+    static List<Yields.ChannelYields> compute(CompiledModel m, FitOptions.Prepared p, Fitter fitter, FitResult best) {
+        if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no post-fit yields");
+        double[] cov = Covariances.full(fitter.likelihood(), best);
+        if (cov == null) throw new ComputationException("the post-fit covariance is not positive definite; no post-fit errors");
+        double[] prefitValues = m.nominal.clone();
+        for (int i = 0; i < p.held().length; i++) prefitValues[p.held()[i]] = p.heldValues()[i];
+        return Yields.compute(m, p.data(), prefitValues, best.held(), best, cov);
     }
 
     /** The yields result file of docs/cli-contract.md, with channel sums added. */

@@ -32,8 +32,17 @@ public record CorrelationMatrix(String title, List<String> names, double[][] mat
      * off-diagonal |ρ|), kept in their original order, so a large matrix stays legible.
      */
     public CorrelationMatrix strongest(int n) {
+        return strongest(n, null);
+    }
+
+    /**
+     * As {@link #strongest(int)}, but parameter {@code always} (e.g. the parameter of interest) is
+     * always among the {@code n}; null or an unknown name keeps none in particular.
+     */
+    public CorrelationMatrix strongest(int n, String always) {
         int size = names.size();
         if (n >= size) return this;
+        if (n < 1) throw new IllegalArgumentException("need at least one parameter, got " + n);
         double[] strength = new double[size];
         for (int i = 0; i < size; i++) {
             for (int j = 0; j < size; j++) {
@@ -41,7 +50,9 @@ public record CorrelationMatrix(String title, List<String> names, double[][] mat
             }
         }
         boolean[] keep = new boolean[size];
-        for (int k = 0; k < n; k++) {
+        int kept = always == null ? -1 : names.indexOf(always);
+        if (kept >= 0) keep[kept] = true;
+        for (int k = kept >= 0 ? 1 : 0; k < n; k++) {
             int best = -1;
             for (int i = 0; i < size; i++) if (!keep[i] && (best < 0 || strength[i] > strength[best])) best = i;
             keep[best] = true;

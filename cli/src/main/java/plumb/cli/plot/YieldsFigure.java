@@ -125,7 +125,7 @@ public final class YieldsFigure {
         xAxis.setAutoRange(false);
         xAxis.setRange(in.low(0), in.high(n - 1));
         CombinedDomainXYPlot combined = new CombinedDomainXYPlot(xAxis);
-        combined.setGap(8);
+        combined.setGap(16);   // room for the tick labels that meet at the panels' common edge
         combined.add(main, 3);
         if (in.observed() != null) combined.add(ratioPanel(in, total), 1);
         Theme.stylePlot(combined);

@@ -13,9 +13,16 @@ import plumb.cli.plot.Pulls;
  * @param correlation correlation matrix of the fitted parameters, or null
  * @param seconds     wall time of the minimisation (NaN: unknown)
  * @param evaluations number of likelihood evaluations (negative: unknown)
+ * @param poi         name of the parameter of interest (always kept in the correlation figure), or null
  */
 public record FitSection(boolean converged, double nll, List<Parameter> parameters, CorrelationMatrix correlation,
-                        double seconds, long evaluations) {
+                        double seconds, long evaluations, String poi) {
+
+    /** A fit without a named parameter of interest. */
+    public FitSection(boolean converged, double nll, List<Parameter> parameters, CorrelationMatrix correlation,
+                      double seconds, long evaluations) {
+        this(converged, nll, parameters, correlation, seconds, evaluations, null);
+    }
 
     /**
      * One fitted parameter; see cli-contract.md, {@code plumb fit}.

@@ -6,14 +6,18 @@ import plumb.cli.plot.ScanCurve;
 
 /**
  * Everything one report shows. Only the summary is required; a null section was not run and
- * the page says so. Build with {@link #of(RunSummary)} and the {@code withX} copies.
+ * the page says so (or, when the summary lists it as failed, why). Build with
+ * {@link #of(RunSummary)} and the {@code withX} copies.
  *
  * @param impactsTop how many parameters the impacts figure ranks
+ * @param closures   Asimov closure checks shown with the injection tests
+ * @param breakdown  grouped breakdown of the POI's uncertainty shown with the impacts, or null
  */
 public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, int impactsTop,
                           List<ChannelYields> yields, ScanCurve scan, Results.Discovery discovery,
                           Results.Limits limits, Results.GoodnessOfFit gof, List<Results.Injection> injection,
-                          List<Results.Attachment> attachments) {
+                          List<Results.Attachment> attachments, List<Results.Closure> closures,
+                          Results.Breakdown breakdown) {
 
     /** Default number of parameters in the impacts ranking. */
     public static final int DEFAULT_IMPACTS_TOP = 20;
@@ -24,46 +28,59 @@ public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, i
         yields = yields == null ? List.of() : List.copyOf(yields);
         injection = injection == null ? List.of() : List.copyOf(injection);
         attachments = attachments == null ? List.of() : List.copyOf(attachments);
+        closures = closures == null ? List.of() : List.copyOf(closures);
     }
 
     /** A report with only the run summary. */
     public static ReportInput of(RunSummary summary) {
-        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null);
+        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null);
+    }
+
+    public ReportInput withSummary(RunSummary summary) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withFit(FitSection fit) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withImpacts(Impacts impacts, int top) {
-        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withYields(List<ChannelYields> yields) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withScan(ScanCurve scan) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withDiscovery(Results.Discovery discovery) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withLimits(Results.Limits limits) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withGoodnessOfFit(Results.GoodnessOfFit gof) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withInjection(List<Results.Injection> injection) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
     public ReportInput withAttachments(List<Results.Attachment> attachments) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+    }
+
+    public ReportInput withClosures(List<Results.Closure> closures) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+    }
+
+    public ReportInput withBreakdown(Results.Breakdown breakdown) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 }

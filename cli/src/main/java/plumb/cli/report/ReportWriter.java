@@ -46,10 +46,22 @@ public final class ReportWriter {
     /** Largest correlation matrix drawn; bigger ones show their most correlated parameters. */
     static final int CORRELATION_MAX = 24;
 
+    /** Section ids and their short names (navigation bar, list of failed sections). */
+    private static final String[][] SECTIONS = {{"summary", "Run"}, {"fit", "Fit"}, {"pulls", "Pulls"},
+        {"impacts", "Impacts"}, {"yields", "Yields"}, {"scan", "Scan"}, {"discovery", "Discovery"}, {"limits", "Limits"},
+        {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"files", "Files"}};
+
+    private static String title(String id) {
+        for (String[] sec : SECTIONS) if (sec[0].equals(id)) return sec[1];
+        return id;
+    }
+
     private final ReportInput in;
     private final Path stage;
     private StringBuilder html = new StringBuilder();
     private final List<String> problems = new ArrayList<>();
+    private String section;
+    private long drawStart;
 
     private ReportWriter(ReportInput in, Path stage) {
         this.in = in;
@@ -80,6 +92,7 @@ public final class ReportWriter {
     }
 
     private void build() throws IOException {
+        drawStart = System.nanoTime();
         RunSummary s = in.summary();
         StringBuilder page = new StringBuilder(64 * 1024);
         page.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
@@ -91,10 +104,7 @@ public final class ReportWriter {
         page.append("<header><div class=\"brand\">Plumb report</div><h1>").append(esc(s.model())).append("</h1>");
         if (s.description() != null) page.append("<p class=\"lead\">").append(esc(s.description())).append("</p>");
         page.append("</header>\n<nav>");
-        String[][] sections = {{"summary", "Run"}, {"fit", "Fit"}, {"pulls", "Pulls"}, {"impacts", "Impacts"},
-            {"yields", "Yields"}, {"scan", "Scan"}, {"discovery", "Discovery"}, {"limits", "Limits"},
-            {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"files", "Files"}};
-        for (String[] sec : sections) page.append("<a href=\"#").append(sec[0]).append("\">").append(sec[1]).append("</a>");
+        for (String[] sec : SECTIONS) page.append("<a href=\"#").append(sec[0]).append("\">").append(sec[1]).append("</a>");
         page.append("</nav>\n<p id=\"broken\" class=\"bad box\" hidden>Some figures did not load.</p>\n<main>\n");
 
         html = new StringBuilder();
@@ -130,15 +140,26 @@ public final class ReportWriter {
         fact("Seed", s.seed() == null ? "none used" : Long.toString(s.seed()));
         fact("Plumb version", orDash(s.toolVersion()));
         fact("Time taken", duration(s.seconds()));
+        // The summary is built last, so this covers every figure and table of the page.
+        fact("Figures and tables drawn in", duration((System.nanoTime() - drawStart) * 1e-9));
         if (!s.labels().isEmpty()) {
             StringBuilder labels = new StringBuilder();
             for (Map.Entry<String, Object> e : s.labels().entrySet()) {
                 if (labels.length() > 0) labels.append(", ");
-                labels.append(e.getKey()).append(" = ").append(e.getValue());
+                labels.append(e.getKey()).append(" = ").append(e.getValue() instanceof Number n ? plumb.cli.Numbers.plain(n.doubleValue()) : e.getValue());
             }
             fact("Labels", labels.toString());
         }
         html.append("</dl>\n");
+        if (!s.failures().isEmpty()) {
+            html.append("<div class=\"bad box\"><strong>Sections that failed (").append(s.failures().size())
+                .append(")</strong><ul>");
+            for (RunSummary.Failure f : s.failures()) {
+                html.append("<li><a href=\"#").append(esc(f.section())).append("\">").append(esc(title(f.section())))
+                    .append("</a>: ").append(esc(f.message())).append("</li>");
+            }
+            html.append("</ul></div>\n");
+        }
         if (s.nonConverged().isEmpty()) {
             html.append("<p class=\"good\">Every fit converged.</p>\n");
         } else {
@@ -182,9 +203,12 @@ public final class ReportWriter {
             var matrix = fit.correlation();
             String caption = "Correlations of the fitted parameters.";
             if (matrix.names().size() > CORRELATION_MAX) {
-                caption = String.format(Locale.ROOT, "Correlations of the %d parameters most correlated with another (of %d).",
-                        CORRELATION_MAX, matrix.names().size());
-                matrix = matrix.strongest(CORRELATION_MAX);
+                String which = fit.poi() == null
+                        ? String.format(Locale.ROOT, "the %d parameters most correlated with another", CORRELATION_MAX)
+                        : String.format(Locale.ROOT, "%s and the %d parameters most correlated with another", fit.poi(),
+                        CORRELATION_MAX - 1);
+                caption = String.format(Locale.ROOT, "Correlations of %s (of %d).", which, matrix.names().size());
+                matrix = matrix.strongest(CORRELATION_MAX, fit.poi());
             }
             var shown = matrix;
             figure("correlation", caption, () -> CorrelationFigure.of(shown));
@@ -234,6 +258,18 @@ public final class ReportWriter {
                     Table.number(e.prefitDown(), 3), Table.number(e.postfitUp(), 3), Table.number(e.postfitDown(), 3));
         }
         table(t.build(), "impacts");
+        Results.Breakdown b = in.breakdown();
+        if (b != null) {
+            Table.Builder g = Table.builder("Breakdown of the uncertainty on " + impacts.poi(), "Group", "Parameters",
+                    "Share of the error", "Error with the group held");
+            g.row("total", "", Table.number(b.total(), 3), "");
+            g.row("statistical only", "", Table.number(b.statOnly(), 3), "");
+            for (Results.Breakdown.Group gr : b.groups()) {
+                g.row(gr.name(), Integer.toString(gr.parameters()), Table.number(gr.error(), 3), Table.number(gr.fixedError(), 3));
+            }
+            table(g.build(), "impacts_breakdown");
+            html.append("<p class=\"muted\">A group's share is √(total² − error with the group held at its best-fit values).</p>\n");
+        }
         close();
     }
 
@@ -329,10 +365,13 @@ public final class ReportWriter {
         String cl = LimitsFigure.percent(l.cl());
         html.append("<p>CLs upper limits on ").append(esc(l.poi())).append(" at ").append(cl).append("% CL (")
             .append(esc(orDash(l.method()))).append(").</p>\n");
-        if (l.points().size() >= 2) {
+        // Points without any limit (their computation failed) stay in the table but not on the curve.
+        List<LimitBands.Point> drawn = new ArrayList<>();
+        for (LimitBands.Point p : l.points()) if (Double.isFinite(p.median()) || Double.isFinite(p.observed())) drawn.add(p);
+        if (drawn.size() >= 2) {
             String xLabel = l.xLabel() == null ? "point" : l.xLabel();
             figure("limits", "Observed and expected upper limits against " + xLabel + ".",
-                    () -> LimitsFigure.of(new LimitBands(l.poi(), xLabel, l.cl(), l.points())));
+                    () -> LimitsFigure.of(new LimitBands(l.poi(), xLabel, l.cl(), drawn)));
         }
         Table.Builder t = Table.builder(null, l.xLabel() == null ? "Point" : l.xLabel(), "Observed", "Expected −2σ",
                 "Expected −1σ", "Expected median", "Expected +1σ", "Expected +2σ");
@@ -362,23 +401,44 @@ public final class ReportWriter {
     private void injectionSection() throws IOException {
         open("injection", "Signal injection and closure");
         List<Results.Injection> inj = in.injection();
-        if (inj.isEmpty()) {
+        List<Results.Closure> closures = in.closures();
+        if (inj.isEmpty() && closures.isEmpty()) {
             notRun();
             return;
         }
-        String poi = in.impacts() != null ? in.impacts().poi() : "POI";
-        Table.Builder t = Table.builder(null, "Injected", "Toys", "Converged", "Mean fitted", "Pull mean", "Pull width",
-                "68% coverage");
-        List<Linearity.Point> points = new ArrayList<>();
-        for (Results.Injection r : inj) {
-            t.row(Table.number(r.injected(), 4), Integer.toString(r.toys()), Integer.toString(r.converged()),
-                    Table.measurement(r.mean(), r.meanError()), fixed(r.pullMean(), 3), fixed(r.pullWidth(), 3),
-                    fixed(r.coverage68(), 3));
-            points.add(new Linearity.Point(r.injected(), r.mean(), r.meanError()));
+        String poi = in.impacts() != null ? in.impacts().poi() : in.fit() != null && in.fit().poi() != null ? in.fit().poi() : "POI";
+        if (!closures.isEmpty()) {
+            html.append("<h3>Asimov closure</h3>\n<p>A fit to the Asimov data set made at each injected value must return every "
+                    + "parameter to the value the data set was made at.</p>\n");
+            Table.Builder c = Table.builder(null, "Injected", "Fit", "Largest deviation", "Parameter", "Result");
+            boolean failed = false;
+            for (Results.Closure r : closures) {
+                failed |= !r.passed();
+                c.row(Table.number(r.injected(), 4), r.converged() ? "converged" : "did not converge",
+                        Double.isFinite(r.maxDeviation()) ? String.format(Locale.ROOT, "%.1e", r.maxDeviation()) : Table.MISSING,
+                        r.worstParameter() == null ? Table.MISSING : r.worstParameter(),
+                        r.passed() ? "passed" : String.format(Locale.ROOT, "FAILED (tolerance %.0e)", r.tolerance()));
+            }
+            table(c.build(), "asimov_closure");
+            html.append(failed ? "<p class=\"bad\">The closure check failed: the fit does not find the point its data were made at.</p>\n"
+                    : "<p class=\"good\">Every closure check passed.</p>\n");
         }
-        figure("injection", "Mean fitted " + poi + " against the injected value; error bars are errors of the mean.",
-                () -> LinearityFigure.of(new Linearity(poi, points)));
-        table(t.build(), "injection");
+        if (!inj.isEmpty()) {
+            html.append("<h3>Toys</h3>\n<p>Toy data sets generated at each injected value of ").append(esc(poi))
+                .append(" and fitted; pull = (fitted − injected)/error.</p>\n");
+            Table.Builder t = Table.builder(null, "Injected", "Toys", "Converged", "Mean fitted", "Pull mean", "Pull width",
+                    "68% coverage");
+            List<Linearity.Point> points = new ArrayList<>();
+            for (Results.Injection r : inj) {
+                t.row(Table.number(r.injected(), 4), Integer.toString(r.toys()), Integer.toString(r.converged()),
+                        Table.measurement(r.mean(), r.meanError()), fixed(r.pullMean(), 3), fixed(r.pullWidth(), 3),
+                        fixed(r.coverage68(), 3));
+                points.add(new Linearity.Point(r.injected(), r.mean(), r.meanError()));
+            }
+            figure("injection", "Mean fitted " + poi + " against the injected value; error bars are errors of the mean.",
+                    () -> LinearityFigure.of(new Linearity(poi, points)));
+            table(t.build(), "injection");
+        }
         close();
     }
 
@@ -401,15 +461,19 @@ public final class ReportWriter {
     // ---- building blocks -------------------------------------------------------------------
 
     private void open(String id, String title) {
+        section = id;
         html.append("<section id=\"").append(id).append("\">\n<h2>").append(esc(title)).append("</h2>\n");
+        String failure = in.summary().failure(id);
+        if (failure != null) html.append("<p class=\"bad\">This section failed: ").append(esc(failure)).append("</p>\n");
     }
 
     private void close() {
         html.append("</section>\n");
     }
 
+    /** A section without content: not run, unless it failed (then {@link #open} said why). */
     private void notRun() {
-        html.append("<p class=\"muted\">Not run for this report.</p>\n");
+        if (in.summary().failure(section) == null) html.append("<p class=\"muted\">Not run for this report.</p>\n");
         close();
     }
 

@@ -51,6 +51,33 @@ public final class Results {
     }
 
     /**
+     * The Asimov closure check at one injected value: a fit to the Asimov data set made at the
+     * generating point must return every parameter to its generating value within {@code tolerance}.
+     *
+     * @param worstParameter the parameter farthest from its generating value, or null
+     */
+    public record Closure(double injected, boolean converged, boolean passed, double maxDeviation,
+                          String worstParameter, double tolerance) {
+    }
+
+    /**
+     * Uncertainty of the parameter of interest split by groups of parameters (each group's share
+     * in quadrature), with the total and the statistical part.
+     */
+    public record Breakdown(double total, double statOnly, List<Group> groups) {
+        public Breakdown {
+            groups = List.copyOf(groups);
+        }
+
+        /**
+         * @param error      the group's share, √(total² − fixedError²)
+         * @param fixedError the POI's error with the group held at its best-fit values
+         */
+        public record Group(String name, int parameters, double error, double fixedError) {
+        }
+    }
+
+    /**
      * A file copied into the report as it is (e.g. a command's JSON result).
      *
      * @param path    relative path inside the report directory, e.g. "json/fit.json"

@@ -1,0 +1,260 @@
+package plumb.cli;
+
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import plumb.cli.plot.LimitBands;
+import plumb.cli.report.ReportAssembler;
+import plumb.cli.report.ReportInput;
+import plumb.cli.report.ReportWriter;
+import plumb.cli.report.Results;
+import plumb.cli.report.RunSummary;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.AsimovClosure;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.Fitter;
+import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.ProfileScan;
+import plumb.engine.inference.Yields;
+
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.function.Supplier;
+
+/**
+ * The whole analysis of {@code plumb report}: every section computed through the same engine calls
+ * and JSON builders as its own command, so each {@code json/NAME.json} of the report equals what
+ * that command writes with the same options:
+ * <pre>
+ *   json/check.json      plumb check MODEL --json
+ *   json/fit.json        plumb fit MODEL --json                      (timing differs)
+ *   json/impacts.json    plumb impacts MODEL --exact-top N --json    (N = --impacts-top)
+ *   json/yields.json     plumb yields MODEL --json
+ *   json/scan.json       plumb scan MODEL --json                     (the POI, 21 points)
+ *   json/discovery.json  plumb discovery MODEL --json
+ *   json/limit.json      plumb limit MODEL… [--label KEY] --json     (every model; seconds differ)
+ *   json/gof.json        plumb gof MODEL --json
+ *   json/inject.json     plumb inject MODEL --mu 1,2,3 --toys T --asimov --json
+ * </pre>
+ * each with the shared fit options given to the report (inject takes --fix, --threads, --seed,
+ * --optimizer and --explicit-mcstat). A section that fails is recorded with why and the others
+ * still run; bad options stop the job before anything is written.
+ */
+final class ReportJob {
+
+    /**
+     * POI values of the injection test (those inside the POI's range): the nominal signal, then
+     * twice and three times it for the linearity. Not 0: a POI bounded at 0 keeps every fit at or
+     * above it, which lifts the mean fitted value there and bends the line for no fault of the fit.
+     */
+    static final double[] INJECTED = {1, 2, 3};
+
+    /** Points of the POI scan: the scan command's default. */
+    static final int SCAN_POINTS = 21;
+
+    private final List<Path> files;
+    private final FitOptions fit;
+    private final int toys;
+    private final int impactsTop;
+    private final String label;
+
+    private final List<String> warnings = new ArrayList<>();
+    private final List<String> nonConverged = new ArrayList<>();
+    private final List<RunSummary.Failure> failures = new ArrayList<>();
+    private final List<Results.Attachment> attachments = new ArrayList<>();
+
+    /**
+     * @param files      model files, the first the main one; all of them feed the limits
+     * @param toys       toys per injected value (0: the Asimov closure only)
+     * @param impactsTop parameters refitted exactly and drawn in the impacts ranking
+     * @param label      label of the models that orders the limits (null: the first numeric one)
+     */
+    ReportJob(List<Path> files, FitOptions fit, int toys, int impactsTop, String label) {
+        this.files = List.copyOf(files);
+        this.fit = fit;
+        this.toys = toys;
+        this.impactsTop = impactsTop;
+        this.label = label;
+    }
+
+    /** What a run produced: the page written, and whether any section failed or any fit did not converge. */
+    record Outcome(Path index, RunSummary summary) {
+    }
+
+    /**
+     * Computes every section and writes the report into {@code dir}.
+     *
+     * @throws InputException for bad options (nothing is written then) or a report that cannot be written
+     */
+    Outcome run(Path dir) {
+        long t0 = System.nanoTime();
+        ModelInput.Loaded main = ModelInput.load(files.get(0));
+        for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
+        CompiledModel m = main.compiled();
+        int threads = fit.threadCount();
+        FitOptions.Prepared p = fit.prepare(m, 1.0);
+        boolean hasPoi = m.poi >= 0;
+
+        attach("check", CheckCommand.toJson(m));
+        warnings.addAll(m.warnings);
+
+        Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
+        FitResult best = fitter.fit();
+        attach("fit", FitCommand.toJson(m, p, best));
+        if (!best.converged()) nonConverged.add("best fit (" + best.status() + ")");
+        ReportInput in = ReportInput.of(new RunSummary(m.name, null, null, null, null, null, null, 0, null, null, null))
+                .withFit(ReportAssembler.fit(m, best));
+
+        if (hasPoi) {
+            ImpactsCommand.Computed impacts = section("impacts", () -> ImpactsCommand.compute(m, p, best, impactsTop, false, threads));
+            if (impacts != null) {
+                attach("impacts", ImpactsCommand.toJson(m, p, best, impacts.entries(), impacts.breakdown()));
+                for (var e : impacts.entries()) {
+                    if (e.refitted() && !(e.postfit().converged() && e.prefit().converged())) {
+                        nonConverged.add("impacts: a refit with " + e.name() + " held");
+                    }
+                }
+                in = in.withImpacts(ReportAssembler.impacts(m, best, impacts.entries()), impactsTop)
+                        .withBreakdown(ReportAssembler.breakdown(impacts.breakdown()));
+            }
+        } else {
+            failures.add(new RunSummary.Failure("impacts", "the model names no parameter of interest (poi)"));
+        }
+
+        List<Yields.ChannelYields> yields = section("yields", () -> YieldsCommand.compute(m, p, fitter, best));
+        if (yields != null) {
+            attach("yields", YieldsCommand.toJson(m, p, yields));
+            in = in.withYields(ReportAssembler.yields(main.model(), m, yields));
+        }
+
+        ScanCommand.Computed scan = section("scan", () -> {
+            if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
+            if (best.held()[m.poi]) throw new ComputationException("the POI is held, it cannot be scanned");
+            return ScanCommand.compute(m, p, m.poi, best, null, SCAN_POINTS, threads);
+        });
+        if (scan != null) {
+            attach("scan", ScanCommand.toJson(m, p, m.poi, best, scan.points(), scan.intervals()));
+            for (ProfileScan.Point x : scan.points()) {
+                if (Double.isNaN(x.deltaNll())) nonConverged.add(String.format(Locale.ROOT, "scan point %s = %s (%s)",
+                        m.parameterNames[m.poi], Numbers.plain(x.value()), x.status()));
+            }
+            for (ProfileScan.Interval iv : scan.intervals()) {
+                if (iv.failure() != null) nonConverged.add(String.format(Locale.ROOT, "scan: an end of the interval at 2ΔNLL = %s (%s)",
+                        Numbers.plain(iv.level()), iv.failure()));
+            }
+            in = in.withScan(ReportAssembler.scan(m.parameterNames[m.poi], best.values()[m.poi], scan.points(), scan.intervals()));
+        }
+
+        DiscoveryCommand.Computed discovery = section("discovery", () -> {
+            if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
+            return DiscoveryCommand.compute(main, fit, null);
+        });
+        if (discovery != null) {
+            attach("discovery", DiscoveryCommand.toJson(m, discovery, fit.seed));
+            in = in.withDiscovery(ReportAssembler.discovery(discovery.observed(), discovery.expected()));
+        }
+
+        in = limits(in, hasPoi);
+
+        GofCommand.Computed gof = section("gof", () -> GofCommand.compute(m, p, fit, null));
+        if (gof != null) {
+            attach("gof", GofCommand.toJson(m, p, gof, fit.seed));
+            in = in.withGoodnessOfFit(ReportAssembler.gof(gof.result()));
+        }
+
+        in = injection(in, main, hasPoi);
+
+        RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.file()),
+                p.asimovPoi() == null ? p.kind() : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
+                fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
+        in = in.withSummary(summary).withAttachments(attachments);
+        try {
+            return new Outcome(ReportWriter.write(in, dir), summary);
+        } catch (IOException | RuntimeException e) {
+            throw new InputException("--out " + dir + ": cannot write the report: " + e.getMessage());
+        }
+    }
+
+    private ReportInput limits(ReportInput in, boolean hasPoi) {
+        if (!hasPoi) {
+            failures.add(new RunSummary.Failure("limits", "the model names no parameter of interest (poi)"));
+            return in;
+        }
+        LimitCommand command = LimitCommand.asymptotic(files, fit, label);
+        LimitCommand.Computed limits = section("limits", command::compute);
+        if (limits == null) return in;
+        attach("limit", command.toJson(limits.outcomes(), limits.key()));
+        if (!limits.errors().isEmpty()) failures.add(new RunSummary.Failure("limits", String.join("; ", limits.errors())));
+        List<LimitBands.Point> points = new ArrayList<>();
+        for (LimitCommand.Outcome o : limits.outcomes()) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
+        CompiledModel m = limits.outcomes().get(0).model().compiled();
+        return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", 0.95, limits.key(), points));
+    }
+
+    private ReportInput injection(ReportInput in, ModelInput.Loaded main, boolean hasPoi) {
+        CompiledModel m = main.compiled();
+        InjectCommand.Computed inj = section("injection", () -> {
+            if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
+            List<Double> mu = new ArrayList<>();
+            for (double x : INJECTED) if (x >= m.lower[m.poi] && x <= m.upper[m.poi]) mu.add(x);
+            if (mu.isEmpty()) throw new ComputationException("none of the injected values 1, 2, 3 is inside the POI's range");
+            return InjectCommand.withClosure(mu, toys, fit).compute(main, false, null);
+        });
+        if (inj == null) return in;
+        attach("inject", inj.toJson());
+        String poi = m.parameterNames[m.poi];
+        for (AsimovClosure c : inj.closures()) {
+            if (!c.fit().converged()) {
+                nonConverged.add(String.format(Locale.ROOT, "Asimov closure fit at %s = %s (%s)", poi, Numbers.plain(c.injected()),
+                        c.fit().status()));
+            } else if (!c.passed()) {
+                failures.add(new RunSummary.Failure("injection", String.format(Locale.ROOT,
+                        "the Asimov closure check at %s = %s failed: %s is %.2e from its generating value", poi,
+                        Numbers.plain(c.injected()), m.parameterNames[c.worstParameter()], c.maxDeviation())));
+            }
+        }
+        for (InjectionSummary s : inj.summaries()) {
+            if (s.toys() > 0 && s.converged() == 0) {
+                failures.add(new RunSummary.Failure("injection", String.format(Locale.ROOT, "no toy fit at %s = %s converged",
+                        poi, Numbers.plain(s.injected()))));
+            } else if (s.converged() < s.toys()) {
+                // A few failed toy fits are usual in a toy study: counted, and left out of its numbers.
+                warnings.add(String.format(Locale.ROOT, "injection at %s = %s: %d of %d toy fits did not converge %s",
+                        poi, Numbers.plain(s.injected()), s.toys() - s.converged(), s.toys(), s.nonConverged()));
+            }
+        }
+        return in.withClosures(ReportAssembler.closures(m, inj.closures()))
+                .withInjection(inj.campaign().count() > 0 ? ReportAssembler.injection(inj.summaries()) : List.of());
+    }
+
+    /**
+     * Runs one section; a failure is recorded (shown in red, exit status 1) and gives null. Bad
+     * options are not a section's failure: they propagate (exit status 2).
+     */
+    private <T> T section(String id, Supplier<T> work) {
+        try {
+            return work.get();
+        } catch (InputException e) {
+            throw e;
+        } catch (RuntimeException e) {
+            String why = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+            failures.add(new RunSummary.Failure(id, why));
+            return null;
+        }
+    }
+
+    private void attach(String name, ObjectNode json) {
+        attachments.add(new Results.Attachment("json/" + name + ".json", name + ".json (plumb " + name + ")",
+                Json.write(json).getBytes(StandardCharsets.UTF_8)));
+    }
+
+    private static String sha256(Path file) {
+        try {
+            return RunSummary.sha256(file);
+        } catch (IOException e) {
+            throw new InputException(file + ": cannot read: " + e.getMessage());
+        }
+    }
+}
