@@ -11,7 +11,7 @@ import picocli.CommandLine.Spec;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.AsymptoticLimits;
+import plumb.engine.inference.AsymptoticUpperLimit;
 import plumb.engine.inference.ExpectedBands;
 import plumb.engine.inference.InferenceException;
 import plumb.engine.inference.LimitResult;
@@ -153,7 +153,7 @@ final class LimitCommand implements Callable<Integer> {
         CompiledModel m = l.compiled();
         try {
             LimitResult r = toys == null
-                    ? AsymptoticLimits.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
+                    ? AsymptoticUpperLimit.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
                     : ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
                     d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar.callback());
             return new Outcome(l, x, d, r, null);

@@ -8,7 +8,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
-import plumb.engine.inference.AsymptoticLimits;
+import plumb.engine.inference.AsymptoticUpperLimit;
 import plumb.engine.inference.DataSets;
 import plumb.engine.inference.ExpectedBands;
 import plumb.engine.inference.FitSettings;
@@ -33,7 +33,7 @@ class LimitReferenceTest {
     }
 
     private static LimitResult asymptotic(CompiledModel m, double cl) {
-        return AsymptoticLimits.compute(m, DataSet.observed(m), asimovZero(m), FitSettings.defaults(), NONE, NO_VALUES, cl);
+        return AsymptoticUpperLimit.compute(m, DataSet.observed(m), asimovZero(m), FitSettings.defaults(), NONE, NO_VALUES, cl);
     }
 
     /** q_μ,A of one bin with known b on the background-only Asimov set (n = b): 2[μs − b ln(1 + μs/b)]. */
@@ -87,7 +87,7 @@ class LimitReferenceTest {
         double muHat = Math.max(0, (n - b) / s);
         double nll0 = (muHat * s + b) - n * Math.log(muHat * s + b), nllMu = (mu * s + b) - n * Math.log(mu * s + b);
         double q = muHat > mu ? 0 : 2 * (nllMu - nll0);
-        assertEquals(0.05, AsymptoticLimits.cls(q, qmuA(mu, s, b)), 0.05 * 1e-3);
+        assertEquals(0.05, AsymptoticUpperLimit.cls(q, qmuA(mu, s, b)), 0.05 * 1e-3);
     }
 
     /** A limit beyond the POI's range is reported as a failure to bracket, never as a number. */

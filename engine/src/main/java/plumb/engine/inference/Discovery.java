@@ -31,7 +31,7 @@ public final class Discovery {
         PoiProfile profile = new PoiProfile(m, data, settings, held, heldValues, "the " + data.kind() + " data");
         double q0 = profile.q0();
         double z = Math.sqrt(q0);
-        return new Significance(q0, z, AsymptoticLimits.upperTail(z), profile.muHat(), profile.fits());
+        return new Significance(q0, z, AsymptoticUpperLimit.upperTail(z), profile.muHat(), profile.fits());
     }
 
     /**

@@ -160,7 +160,7 @@ public final class ToyLimits {
             }
             double[] bands = new double[ExpectedBands.N.length], errors = new double[ExpectedBands.N.length];
             for (int k = 0; k < bands.length; k++) {
-                double[] c = require(k, "the expected limit (" + AsymptoticLimits.bandName(ExpectedBands.N[k]) + ")");
+                double[] c = require(k, "the expected limit (" + AsymptoticUpperLimit.bandName(ExpectedBands.N[k]) + ")");
                 bands[k] = c[0];
                 errors[k] = c[1];
             }
@@ -194,7 +194,7 @@ public final class ToyLimits {
         /** POI values first tested: around the asymptotic limits (or spread over the range if they fail). */
         double[] initialPoints() {
             try {
-                LimitResult a = AsymptoticLimits.compute(m, r.data(), r.asimovZero(), r.settings(), r.held(),
+                LimitResult a = AsymptoticUpperLimit.compute(m, r.data(), r.asimovZero(), r.settings(), r.held(),
                         r.heldValues(), r.cl());
                 double low = a.expected().minus2(), high = a.expected().plus2();
                 if (!Double.isNaN(a.observed())) {

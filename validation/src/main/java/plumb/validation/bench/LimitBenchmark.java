@@ -13,7 +13,7 @@ import org.openjdk.jmh.annotations.Setup;
 import org.openjdk.jmh.annotations.State;
 import org.openjdk.jmh.annotations.Warmup;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.AsymptoticLimits;
+import plumb.engine.inference.AsymptoticUpperLimit;
 import plumb.engine.inference.DataSets;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.FitSettings;
@@ -64,7 +64,7 @@ public class LimitBenchmark {
     @Benchmark
     public LimitResult asymptoticLimit() {
         DataSet asimovZero = DataSets.asimovAt(m, 0, new int[0], new double[0], true, FitSettings.defaults()).data();
-        return AsymptoticLimits.compute(m, observed, asimovZero, FitSettings.defaults(), new int[0], new double[0], 0.95);
+        return AsymptoticUpperLimit.compute(m, observed, asimovZero, FitSettings.defaults(), new int[0], new double[0], 0.95);
     }
 
     /** Two fits per toy (best and conditional at μ): the time per fit is the score. */

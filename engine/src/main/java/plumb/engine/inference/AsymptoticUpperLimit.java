@@ -14,11 +14,11 @@ import java.util.List;
  * σ(μ)² = μ²/q_μ,A(μ), so every formula below needs only √q_μ,A = μ/σ. Each limit, observed and
  * each expected band, is its own root in μ found by {@link Roots} to 1e-5 relative.
  */
-public final class AsymptoticLimits {
+public final class AsymptoticUpperLimit {
 
     private static final NormalDistribution NORMAL = new NormalDistribution(null, 0, 1);
 
-    private AsymptoticLimits() {
+    private AsymptoticUpperLimit() {
     }
 
     /** Upper tail 1 − Φ(x), from erfc so that it keeps its precision far in the tail. */
