@@ -1,5 +1,6 @@
 package plumb.cli;
 
+import com.fasterxml.jackson.databind.JsonNode;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
@@ -7,6 +8,7 @@ import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
 import plumb.cli.report.RunSummary;
+import plumb.cli.table.Table;
 
 import java.io.PrintWriter;
 import java.nio.file.Path;
@@ -69,12 +71,59 @@ final class ReportCommand implements Callable<Integer> {
         long t0 = System.nanoTime();
         ReportJob.Outcome o = job.run(dir);
         RunSummary s = o.summary();
+        headline(dir.resolve("json"), out);
         out.printf(Locale.ROOT, "Report written to %s (%s)%n", o.index(), duration((System.nanoTime() - t0) * 1e-9));
         out.flush();
         for (RunSummary.Failure f : s.failures()) err.printf("plumb %s: %s failed: %s%n", command, f.section(), f.message());
         for (String f : s.nonConverged()) err.printf("plumb %s: did not converge: %s%n", command, f);
         err.flush();
         return s.anyFailure() ? ExitCodes.FAILED : ExitCodes.OK;
+    }
+
+    /**
+     * The results an analyst quotes first, read back from the report's own JSON files (so they are
+     * exactly what the page shows): the POI, the significance and the upper limit.
+     */
+    static void headline(Path jsonDir, PrintWriter out) {
+        JsonNode discovery = readJson(jsonDir.resolve("discovery.json"));
+        JsonNode fit = readJson(jsonDir.resolve("fit.json"));
+        JsonNode limit = readJson(jsonDir.resolve("limit.json"));
+        String poi = discovery != null && discovery.hasNonNull("poi") ? discovery.get("poi").asText() : null;
+        if (fit != null && poi != null) {
+            for (JsonNode p : fit.get("parameters")) {
+                if (poi.equals(p.path("name").asText())) {
+                    out.printf(Locale.ROOT, "  best fit %s = %s (%s data)%n", poi,
+                            Table.measurement(p.path("value").asDouble(Double.NaN), p.path("error").asDouble(Double.NaN)),
+                            fit.path("data").asText());
+                }
+            }
+        }
+        if (discovery != null) {
+            out.printf(Locale.ROOT, "  significance of the excess: observed %s, expected %s (q0, asymptotic)%n",
+                    sigma(discovery.path("observed").path("z")), sigma(discovery.path("expected").path("z")));
+        }
+        if (limit != null && limit.has("expected")) {
+            out.printf(Locale.ROOT, "  %s%% CLs upper limit on %s: observed %s, expected %s (%s)%n",
+                    Numbers.plain(100 * limit.path("cl").asDouble()), poi == null ? "the POI" : poi,
+                    number(limit.path("observed")), number(limit.path("expected").path("median")),
+                    limit.path("method").asText());
+        }
+    }
+
+    private static JsonNode readJson(Path file) {
+        try {
+            return java.nio.file.Files.isRegularFile(file) ? Json.mapper().readTree(file.toFile()) : null;
+        } catch (java.io.IOException e) {
+            return null;
+        }
+    }
+
+    private static String sigma(JsonNode z) {
+        return z.isNumber() ? String.format(Locale.ROOT, "%.2f σ", z.asDouble()) : "–";
+    }
+
+    private static String number(JsonNode v) {
+        return v.isNumber() ? Table.number(v.asDouble(), 3) : "–";
     }
 
     private static String duration(double seconds) {

@@ -34,6 +34,15 @@ public final class CommandLineTestSupport {
         return new Run(status, out.toString(), err.toString());
     }
 
+    /** A JSON file parsed. */
+    public static JsonNode readJson(Path file) {
+        try {
+            return new ObjectMapper().readTree(file.toFile());
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
     /** The demo model copied to a file in {@code dir}. */
     public static Path demoModel(Path dir) {
         try (var in = plumb.models.DemoModel.openStream()) {

@@ -58,6 +58,15 @@ class DemoReportTest {
         assertEquals(ExitCodes.OK, demo.status(), demo.err());
         assertTrue(demo.out().contains(dir.toAbsolutePath().normalize().resolve("index.html").toString()), demo.out());
         assertEquals("", demo.err());
+        // the headline repeats the numbers of the report's own JSON files
+        var fit = CommandLineTestSupport.readJson(dir.resolve("json/fit.json"));
+        var mu = fit.get("parameters").get(0);
+        String expected = "best fit mu = " + plumb.cli.table.Table.measurement(mu.get("value").asDouble(), mu.get("error").asDouble());
+        assertTrue(demo.out().contains(expected), demo.out());
+        var discovery = CommandLineTestSupport.readJson(dir.resolve("json/discovery.json"));
+        assertTrue(demo.out().contains(String.format(java.util.Locale.ROOT, "observed %.2f σ",
+                discovery.get("observed").get("z").asDouble())), demo.out());
+        assertTrue(demo.out().contains("95% CLs upper limit on mu"), demo.out());
     }
 
     @Test
