@@ -76,6 +76,18 @@ class CheckAndFitCommandTest {
     }
 
     @Test
+    void fixHoldsAnMcStatisticsParameter() {
+        Path model = CommandLineTestSupport.demoModel(dir);
+        var r = run("fit", model.toString(), "--fix", "mcstat:sr_tight:9=1.05", "--json", "-");
+        assertEquals(0, r.status(), r.err());
+        JsonNode gamma = null;
+        for (JsonNode p : r.json().get("parameters")) if (p.get("name").asText().equals("mcstat:sr_tight:9")) gamma = p;
+        assertEquals(1.05, gamma.get("value").asDouble());
+        assertEquals(0.0, gamma.get("error").asDouble());
+        assertTrue(gamma.get("fixed").asBoolean());
+    }
+
+    @Test
     void badOptionsExitTwoWithOneLine() {
         Path model = CommandLineTestSupport.demoModel(dir);
         String[][] cases = {

@@ -275,7 +275,7 @@ public final class Fitter {
         }
         boolean[] heldAll = Arrays.copyOf(held, m.nAll);
         for (int g = 0; g < m.nGamma && dim == nP; g++) {
-            if (m.fixed[nP + g]) {
+            if (m.fixed[nP + g] || nll.gammaHeld(g)) {
                 heldAll[nP + g] = true;
                 errors[nP + g] = 0;
             }

@@ -143,6 +143,11 @@ public final class BinnedNll implements Objective {
         gammaHeld[g] = value;
     }
 
+    /** Whether γ number g is held (profiled layout: fixed in the model or by {@link #holdGamma}). */
+    public boolean gammaHeld(int g) {
+        return !Double.isNaN(gammaHeld[g]);
+    }
+
     @Override
     public int dimension() {
         return dim;
