@@ -20,7 +20,10 @@ public final class Fitter {
 
     private final CompiledModel m;
     private final BinnedNll nll;
+    /** The first attempt, without the minimiser's own restart: a kink is checked for first. */
     private final Minimiser minimiser;
+    /** With its restart, for fits that neither converge nor end on a clip kink; null if none. */
+    private final Minimiser restarting;
     /** Stationarity needed to accept a minimum on a clip kink ({@link ClipKinkCheck}). */
     private final double kinkTolerance;
     private final int dim;
@@ -39,9 +42,9 @@ public final class Fitter {
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
         this.kinkTolerance = settings.options().fallbackTolerance();
         this.dim = nll.dimension();
-        this.minimiser = settings.optimizer() == FitSettings.Optimizer.REFERENCE
-                ? new ReferenceMinimiser(dim)
-                : new BoundedNewton(dim, settings.options());
+        boolean reference = settings.optimizer() == FitSettings.Optimizer.REFERENCE;
+        this.minimiser = reference ? new ReferenceMinimiser(dim) : new BoundedNewton(dim, settings.options().withRestart(false));
+        this.restarting = reference || !settings.options().restart() ? null : new BoundedNewton(dim, settings.options());
         lower = Arrays.copyOf(model.lower, dim);
         upper = Arrays.copyOf(model.upper, dim);
         baseHeld = Arrays.copyOf(model.fixed, dim);
@@ -135,27 +138,44 @@ public final class Fitter {
             x[hold[k]] = holdValues[k];
         }
         for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
-        MinimumResult r = minimiseWithKinks(x, held);
+        MinimumResult r = settle(minimiser, x, held);
+        if (!r.converged() && restarting != null) {
+            // Neither converged nor on a clip kink: the minimiser's restart from the best point.
+            MinimumResult again = settle(restarting, r.x(), held);
+            r = again.converged() || again.value() < r.value() ? counted(again, r) : counted(r, again);
+        }
+        return toResult(r, held, System.nanoTime() - t0, errors);
+    }
+
+    /**
+     * Minimises from x, then lets {@link ClipKinkCheck} recognise a minimum on a clip kink; when the
+     * check moves the point along the kink to a lower value, Newton goes on from there.
+     */
+    private MinimumResult settle(Minimiser with, double[] x, boolean[] held) {
+        MinimumResult r = minimiseWithKinks(with, x, held);
         for (int round = 0; round < KINK_ROUNDS && !r.converged(); round++) {
             MinimumResult checked = ClipKinkCheck.check(nll, r, lower, upper, kinkTolerance);
             if (checked.converged() || !(checked.value() < r.value())) {
                 r = checked;
                 break;
             }
-            // Moved along a clip kink to a lower point: Newton again from there.
-            MinimumResult again = minimiseWithKinks(checked.x(), held);
-            r = new MinimumResult(again.status(), again.x(), again.value(), again.gradient(), again.hessian(),
-                    again.fixed(), again.decrement(), checked.iterations() + again.iterations(),
-                    checked.evaluations() + again.evaluations());
+            r = counted(minimiseWithKinks(with, checked.x(), held), checked);
         }
-        return toResult(r, held, System.nanoTime() - t0, errors);
+        return r;
+    }
+
+    /** {@code result} with the iterations and evaluations of {@code before} added. */
+    private static MinimumResult counted(MinimumResult result, MinimumResult before) {
+        return new MinimumResult(result.status(), result.x(), result.value(), result.gradient(), result.hessian(),
+                result.fixed(), result.decrement(), before.iterations() + result.iterations(),
+                before.evaluations() + result.evaluations());
     }
 
     /** Rounds of (Newton, clip-kink check) before a fit is given up ({@link ClipKinkCheck}). */
     private static final int KINK_ROUNDS = 3;
 
-    private MinimumResult minimiseWithKinks(double[] x, boolean[] held) {
-        return hasKinks(held) ? minimiseOnPieces(x, held) : minimiser.minimise(nll, x, lower, upper, held);
+    private MinimumResult minimiseWithKinks(Minimiser with, double[] x, boolean[] held) {
+        return hasKinks(held) ? minimiseOnPieces(with, x, held) : with.minimise(nll, x, lower, upper, held);
     }
 
     private boolean hasKinks(boolean[] held) {
@@ -170,7 +190,7 @@ public final class Fitter {
      * there points that way, and stays when both one-sided slopes point at the kink (a minimum on
      * the kink). A few rounds settle it.
      */
-    private MinimumResult minimiseOnPieces(double[] x, boolean[] held) {
+    private MinimumResult minimiseOnPieces(Minimiser with, double[] x, boolean[] held) {
         double[] lo = lower.clone(), hi = upper.clone();
         double[] grad = new double[dim];
         double[] probe = new double[dim];
@@ -188,7 +208,7 @@ public final class Fitter {
         MinimumResult r = null;
         int evaluations = 2, iterations = 0;
         for (int round = 0; round < MAX_PIECE_ROUNDS; round++) {
-            r = minimiser.minimise(nll, x, lo, hi, held);
+            r = with.minimise(nll, x, lo, hi, held);
             evaluations += r.evaluations();
             iterations += r.iterations();
             if (!r.converged()) break;
