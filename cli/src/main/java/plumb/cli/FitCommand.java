@@ -36,7 +36,7 @@ final class FitCommand implements Callable<Integer> {
     boolean showMcStat;
 
     @Option(names = "--intervals", arity = "0..*", paramLabel = "NAME",
-            description = "Add asymmetric 68% profile-likelihood intervals (errorLow/errorHigh) for the POI and the parameters named.")
+            description = "Add asymmetric 68%% profile-likelihood intervals (errorLow/errorHigh) for the POI and the parameters named.")
     List<String> intervals;
 
     @Spec CommandSpec spec;

@@ -42,13 +42,18 @@ public final class Main implements Runnable {
         return cl.execute(args);
     }
 
+    /** "plumb: " for the top command, "plumb fit: " for a subcommand. */
+    private static String prefix(CommandLine c) {
+        return c.getParent() == null ? "plumb: " : "plumb " + c.getCommandName() + ": ";
+    }
+
     /** The configured command line: exit codes and error handling of docs/cli-contract.md. */
     public static CommandLine commandLine() {
         CommandLine cl = new CommandLine(new Main());
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, args) -> {
             CommandLine c = ex.getCommandLine();
-            c.getErr().println("plumb " + c.getCommandName() + ": " + ex.getMessage());
+            c.getErr().println(prefix(c) + ex.getMessage());
             c.getErr().flush();
             return ExitCodes.BAD_INPUT;
         });
@@ -61,7 +66,7 @@ public final class Main implements Runnable {
             if (code == ExitCodes.FAILED && !(ex instanceof ComputationException)) {
                 what = "internal error: " + what + " (run with --debug for details)";
             }
-            c.getErr().println("plumb " + c.getCommandName() + ": " + what);
+            c.getErr().println(prefix(c) + what);
             if (debug) ex.printStackTrace(c.getErr());
             c.getErr().flush();
             return code;

@@ -21,7 +21,7 @@ import java.util.concurrent.Callable;
 
 /** {@code plumb scan MODEL --parameter NAME}: profile likelihood scan with 68 % and 95 % intervals. */
 @Command(name = "scan", mixinStandardHelpOptions = true,
-        description = "Profile likelihood scan of one parameter, with the 68% and 95% intervals found by root-finding.")
+        description = "Profile likelihood scan of one parameter, with the 68%% and 95%% intervals found by root-finding.")
 final class ScanCommand implements Callable<Integer> {
 
     /** Default half-width of the scan, in post-fit errors: covers the 95 % interval of a Gaussian with room. */
