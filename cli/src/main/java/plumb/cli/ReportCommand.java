@@ -92,9 +92,11 @@ final class ReportCommand implements Callable<Integer> {
         if (fit != null && poi != null) {
             for (JsonNode p : fit.get("parameters")) {
                 if (poi.equals(p.path("name").asText())) {
-                    out.printf(Locale.ROOT, "  best fit %s = %s (%s data)%n", poi,
+                    boolean blinded = discovery.path("observed").isNull() && "observed".equals(fit.path("data").asText());
+                    out.printf(Locale.ROOT, "  best fit %s = %s (%s)%n", poi,
                             Table.measurement(p.path("value").asDouble(Double.NaN), p.path("error").asDouble(Double.NaN)),
-                            fit.path("data").asText());
+                            blinded ? "observed data of the unblinded channels only: the model is blinded"
+                                    : fit.path("data").asText() + " data");
                 }
             }
         }

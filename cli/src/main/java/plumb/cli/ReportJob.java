@@ -167,7 +167,7 @@ final class ReportJob {
         in = injection(in, main, hasPoi);
 
         RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.file()),
-                p.asimovPoi() == null ? p.kind() : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
+                p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
                 fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
         try {
@@ -256,5 +256,12 @@ final class ReportJob {
         } catch (IOException e) {
             throw new InputException(file + ": cannot read: " + e.getMessage());
         }
+    }
+
+    /** For a fit to observed data: which channels are blinded and so left out of it. */
+    private static String blindedNote(plumb.engine.compile.CompiledModel m) {
+        List<String> blinded = new java.util.ArrayList<>();
+        for (int c = 0; c < m.nChannels; c++) if (m.observed[c] == null) blinded.add(m.channelNames[c]);
+        return blinded.isEmpty() ? "" : " (blinded, left out of the fit: " + String.join(", ", blinded) + ")";
     }
 }

@@ -100,4 +100,24 @@ class ReportCommandTest {
             assertFalse(Files.exists(out), "nothing written for " + String.join(" ", args));
         }
     }
+
+    /** A blinded model: the fit uses the unblinded channels only, and the report and headline say so. */
+    @Test
+    void blindedModelIsReportedAsBlinded() throws IOException {
+        Model demo = plumb.models.DemoModel.load();
+        List<Channel> channels = new java.util.ArrayList<>(demo.channels());
+        channels.set(0, channels.get(0).withObserved(null));
+        Model blinded = new Model(demo.format(), demo.name(), demo.description(), demo.poi(), channels,
+                demo.parameters(), demo.groups(), demo.labels(), demo.options());
+        Path model = dir.resolve("blinded.json");
+        ModelWriter.write(blinded, model);
+        Path out = dir.resolve("blinded-report");
+        var r = CommandLineTestSupport.run("report", model.toString(), "--out", out.toString(), "--toys", "0");
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.out().contains("the model is blinded"), r.out());
+        assertTrue(r.out().contains("significance of the excess: observed –"), r.out());
+        String page = Files.readString(out.resolve("index.html"));
+        assertTrue(page.contains("blinded, left out of the fit: sr_tight"), "run summary names the blinded channel");
+        assertTrue(CommandLineTestSupport.readJson(out.resolve("json/limit.json")).get("observed").isNull());
+    }
 }
