@@ -119,17 +119,11 @@ public final class Fitter {
         return fit(start, hold < 0 ? new int[0] : new int[] {hold}, hold < 0 ? new double[0] : new double[] {holdValue});
     }
 
-    /** Fit from {@code start} with the listed parameters (indices &lt; dimension) held at the given values. */
-    public FitResult fit(double[] start, int[] hold, double[] holdValues) {
-        return fit(start, hold, holdValues, true);
-    }
-
     /**
-     * As {@link #fit(double[], int[], double[])}; with {@code errors} false the covariance is not
-     * computed (errors NaN, covariance null), which saves an n³ inversion per refit where only the
-     * minimum counts (impacts, scans).
+     * Fit from {@code start} with the listed parameters (indices &lt; dimension) held at the given
+     * values. Errors and covariance are computed unless the fitter was made with {@link #valuesOnly}.
      */
-    public FitResult fit(double[] start, int[] hold, double[] holdValues, boolean errors) {
+    public FitResult fit(double[] start, int[] hold, double[] holdValues) {
         long t0 = System.nanoTime();
         double[] x = Arrays.copyOf(start, dim);
         boolean[] held = baseHeld.clone();
@@ -144,7 +138,7 @@ public final class Fitter {
             MinimumResult again = settle(restarting, r.x(), held);
             r = again.converged() || again.value() < r.value() ? counted(again, r) : counted(r, again);
         }
-        return toResult(r, held, System.nanoTime() - t0, errors);
+        return toResult(r, held, System.nanoTime() - t0);
     }
 
     /**
@@ -273,11 +267,11 @@ public final class Fitter {
         return false;
     }
 
-    private FitResult toResult(MinimumResult r, boolean[] held, long nanos, boolean withErrors) {
+    private FitResult toResult(MinimumResult r, boolean[] held, long nanos) {
         final int nP = m.nParams;
         double[] values = new double[m.nAll];
         nll.allValues(r.x(), values);
-        double[] cov = computeErrors && withErrors ? r.covariance() : null;
+        double[] cov = computeErrors ? r.covariance() : null;
         MinimumStatus status = r.status();
         double[] errors = new double[m.nAll];
         double[] covTheta = null;

@@ -196,7 +196,7 @@ public final class Impacts {
         int poi = m.poi;
         Refits refits = new Refits(m, best, dim, anyGamma() ? fullCovariance() : null);
         List<FitResult> fits = ParallelRunner.run(4 * n, threads,
-                () -> new Fitter(m, data, Refits.refitSettings(settings), held, heldValues),
+                () -> Fitter.valuesOnly(m, data, Refits.refitSettings(settings), held, heldValues),
                 (fitter, t) -> {
                     int k = chosen.get(t / 4).parameter();
                     double v = best.values()[k];

@@ -72,7 +72,7 @@ public final class ProfileScan {
     }
 
     private Fitter newFitter() {
-        return new Fitter(m, data, Refits.refitSettings(settings), held, heldValues);
+        return Fitter.valuesOnly(m, data, Refits.refitSettings(settings), held, heldValues);
     }
 
     private void checkParameter(int k) {

@@ -87,11 +87,11 @@ final class Refits {
     }
 
     private FitResult refitFrom(Fitter fitter, int k, double value, double[] x) {
-        if (k < dim) return fitter.fit(x, new int[] {k}, new double[] {value}, false);
+        if (k < dim) return fitter.fit(x, new int[] {k}, new double[] {value});
         int g = k - m.nParams;
         fitter.likelihood().holdGamma(g, value);
         try {
-            return fitter.fit(x, new int[0], new double[0], false);
+            return fitter.fit(x, new int[0], new double[0]);
         } finally {
             fitter.likelihood().holdGamma(g, Double.NaN);
         }

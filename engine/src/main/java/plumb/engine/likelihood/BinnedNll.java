@@ -50,9 +50,9 @@ public final class BinnedNll implements Objective {
     private final double[] aPart;      // per bin: expectation of samples outside the MC-statistics term
     private final double[] cPart;      // per bin: expectation of samples inside it (γ = 1)
     private final double[] binGammaValue; // γ used per bin (1 where none)
-    private final double[] nu;
     private final double[] w;          // 1 − n/ν, 0 where the bin does not count
     private final double[] q;          // n/ν²
+    private final double[] wGamma;     // w·γ: ∂(−ln L)/∂base·C for samples in the MC-statistics term
     private final double[] gammaValue; // per γ
     private final boolean[] gammaInterior; // solved and inside its range: Schur term applies
     private final double[] tmp3 = new double[3];
@@ -99,9 +99,9 @@ public final class BinnedNll implements Objective {
         aPart = new double[model.nBins];
         cPart = new double[model.nBins];
         binGammaValue = new double[model.nBins];
-        nu = new double[model.nBins];
         w = new double[model.nBins];
         q = new double[model.nBins];
+        wGamma = new double[model.nBins];
         gammaValue = new double[model.nGamma];
         gammaInterior = new boolean[model.nGamma];
         int maxMul = 0;
@@ -380,6 +380,7 @@ public final class BinnedNll implements Objective {
             if (!included) {
                 w[b] = 0;
                 q[b] = 0;
+                wGamma[b] = 0;
                 continue;
             }
             double nb = counts[b];
@@ -391,7 +392,7 @@ public final class BinnedNll implements Objective {
                 w[b] = 1 - nb / v;
                 q[b] = nb / (v * v);
             }
-            nu[b] = v;
+            wGamma[b] = w[b] * gamma;
             // ν − n ln ν minus its value at ν = n (which sits in the data constant): no cancellation.
             sum += nb > 0 ? v - nb - nb * Math.log(v / nb) : v;
         }
@@ -495,12 +496,10 @@ public final class BinnedNll implements Objective {
             int e0 = m.sampleEntryStart[s], len = m.sampleEntryStart[s + 1] - e0;
             boolean mc = m.sampleMcStat[s];
             double cs = sampleC[s];
-            // T_s = Σ_b w_b γ_sb base_sb: the derivative of −ln L by C_s.
+            // ρ_b = w_b γ_sb; T_s = Σ_b ρ_b base_sb is the derivative of −ln L by C_s.
+            final double[] rho = mc ? wGamma : w;
             double t = 0;
-            for (int b = 0; b < len; b++) {
-                double rho = mc ? w[b0 + b] * binGammaValue[b0 + b] : w[b0 + b];
-                t += rho * base[e0 + b];
-            }
+            for (int b = 0; b < len; b++) t += rho[b0 + b] * base[e0 + b];
             int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
             for (int k = mulFrom; k < mulTo; k++) grad[m.mulParam[k]] += dC[k] * t;
             for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
@@ -508,9 +507,8 @@ public final class BinnedNll implements Objective {
                 double u1 = 0, u2 = 0;
                 for (int b = 0; b < len; b++) {
                     if (clipped[e0 + b]) continue;
-                    double rho = mc ? w[b0 + b] * binGammaValue[b0 + b] : w[b0 + b];
-                    u1 += rho * shapeS[so + b];
-                    u2 += rho * shapeA[so + b];
+                    u1 += rho[b0 + b] * shapeS[so + b];
+                    u2 += rho[b0 + b] * shapeA[so + b];
                 }
                 int p = m.shapeParam[k];
                 double dBase = u1 + u2 * shapeP[3 * k + 1]; // Σ_b ρ ∂base/∂θ
