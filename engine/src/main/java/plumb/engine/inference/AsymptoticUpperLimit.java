@@ -62,11 +62,17 @@ public final class AsymptoticUpperLimit {
     /**
      * The asymptotic CLs limit at confidence level {@code cl}.
      *
-     * @param data       the data fitted for the observed limit, or null for none (a blinded model)
-     * @param asimovZero the Asimov data set at μ = 0 that gives σ (and the expected limits)
-     * @param held       parameters held in every fit (--fix), with {@code heldValues}
+     * @param p             the problem; its data give the observed limit
+     * @param asimovZero    the Asimov data set at μ = 0 that gives σ (and the expected limits)
+     * @param observedLimit false for expected limits only (a blinded model has no observed limit)
      * @throws InferenceException when a needed fit fails or a limit cannot be bracketed in the POI range
      */
+    public static LimitResult compute(Problem p, DataSet asimovZero, boolean observedLimit, double cl) {
+        return compute(p.model(), observedLimit ? p.data() : null, asimovZero, p.settings(), p.heldIndices(),
+                p.heldValues(), cl);
+    }
+
+    /** As {@link #compute(Problem, DataSet, boolean, double)}, with the parts given one by one; {@code data} null for no observed limit. */
     public static LimitResult compute(CompiledModel m, DataSet data, DataSet asimovZero, FitSettings settings,
                                       int[] held, double[] heldValues, double cl) {
         if (!(cl > 0 && cl < 1)) throw new IllegalArgumentException("confidence level " + cl + " is not in (0, 1)");

@@ -25,6 +25,11 @@ public final class Discovery {
      */
     public record Significance(double q0, double z, double p, double muHat, int fits) { }
 
+    /** q0 on the problem's data, asymptotic Z and p. */
+    public static Significance compute(Problem p) {
+        return compute(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues());
+    }
+
     /** q0 on {@code data}, asymptotic Z and p. */
     public static Significance compute(CompiledModel m, DataSet data, FitSettings settings, int[] held,
                                        double[] heldValues) {

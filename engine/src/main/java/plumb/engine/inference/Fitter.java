@@ -60,6 +60,16 @@ public final class Fitter {
         }
     }
 
+    /** A fitter for the problem: its model, data, settings and held parameters. */
+    public Fitter(Problem p) {
+        this(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues());
+    }
+
+    /** A fitter for the problem whose fits skip the covariance and errors ({@link #computeErrors}). */
+    public static Fitter valuesOnly(Problem p) {
+        return valuesOnly(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues());
+    }
+
     /** A fitter with nothing held beyond the model's fixed parameters. */
     public Fitter(CompiledModel model, DataSet data, FitSettings settings) {
         this(model, data, settings, new int[0], new double[0]);

@@ -91,6 +91,11 @@ public final class GoodnessOfFit {
      *
      * @throws InferenceException when the fit does not converge
      */
+    public static Result compute(Problem p) {
+        return compute(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues());
+    }
+
+    /** As {@link #compute(Problem)}, with the parts given one by one. */
     public static Result compute(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues) {
         FitResult fit = new Fitter(m, data, settings, held, heldValues).fit();
         if (!PoiProfile.minimumFound(fit)) {

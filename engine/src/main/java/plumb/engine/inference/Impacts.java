@@ -134,6 +134,14 @@ public final class Impacts {
         this.candidates = c.stream().mapToInt(Integer::intValue).toArray();
     }
 
+    /**
+     * @param best          the converged best fit of the problem, with covariance
+     * @param includeMcStat rank the MC-statistics γ too
+     */
+    public Impacts(Problem p, FitResult best, boolean includeMcStat) {
+        this(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues(), best, includeMcStat);
+    }
+
     /** The full post-fit covariance (nAll², γ included), or null when not positive definite. */
     public synchronized double[] fullCovariance() {
         if (!fullDone) {

@@ -68,6 +68,11 @@ public final class InjectionToys {
         return seed + k * 0xD1B54A32D192ED03L;
     }
 
+    /** Injection toys of the problem's model with its settings and held parameters (its data is not used). */
+    public InjectionToys(Problem p) {
+        this(p.model(), p.settings(), p.heldIndices(), p.heldValues());
+    }
+
     public CompiledModel model() {
         return m;
     }

@@ -71,6 +71,38 @@ public final class ProfileScan {
         this.refits = new Refits(m, best, dim, null);
     }
 
+    /** @param best the converged best fit of the problem */
+    public ProfileScan(Problem p, FitResult best) {
+        this(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues(), best);
+    }
+
+    /**
+     * The default scan range of parameter k: the best fit ± {@value #DEFAULT_HALF_WIDTH} post-fit
+     * errors (covers the 95 % interval of a Gaussian profile with room), or ± 10 % of the value
+     * (at least 1e-3) when the error is unknown, clipped to the parameter's range.
+     */
+    public static double[] defaultRange(CompiledModel m, FitResult best, int k) {
+        double v = best.values()[k], e = best.errors()[k];
+        double half = DEFAULT_HALF_WIDTH * (e > 0 && Double.isFinite(e) ? e : Math.max(1e-3, 0.1 * Math.abs(v)));
+        return new double[] {Math.max(m.lower[k], v - half), Math.min(m.upper[k], v + half)};
+    }
+
+    /** Default half-width of a scan, in post-fit errors. */
+    public static final double DEFAULT_HALF_WIDTH = 3;
+
+    /**
+     * The points with ΔNLL measured from the lowest −ln L found: the best fit's, unless a scan
+     * point found a lower one (a sign the best fit missed the global minimum). Failed points stay NaN.
+     */
+    public static List<Point> rebased(List<Point> points) {
+        double floor = 0;
+        for (Point x : points) if (x.deltaNll() < floor) floor = x.deltaNll();
+        if (floor == 0) return List.copyOf(points);
+        List<Point> out = new java.util.ArrayList<>(points.size());
+        for (Point x : points) out.add(new Point(x.value(), x.nll(), x.deltaNll() - floor, x.status()));
+        return List.copyOf(out);
+    }
+
     private Fitter newFitter() {
         return Fitter.valuesOnly(m, data, Refits.refitSettings(settings), held, heldValues);
     }

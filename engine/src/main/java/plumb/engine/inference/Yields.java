@@ -43,6 +43,16 @@ public final class Yields {
                                 Band totalPostfit) { }
 
     /**
+     * Pre-fit and post-fit yields of every channel of the problem around its best fit.
+     *
+     * @param best       the converged best fit of the problem
+     * @param postfitCov full post-fit covariance ({@link Covariances#full}), or null for NaN post-fit errors
+     */
+    public static List<ChannelYields> compute(Problem p, FitResult best, double[] postfitCov) {
+        return compute(p.model(), p.data(), p.startValues(), best.held(), best, postfitCov);
+    }
+
+    /**
      * Pre-fit and post-fit yields of every channel.
      *
      * @param data          the data set fitted (its counts are reported as observed)
