@@ -12,7 +12,8 @@ import java.io.PrintWriter;
         subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
                 ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
                 LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
-                InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class})
+                InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class,
+                TidyCommand.class})
 public final class Main implements Runnable {
 
     public static final String VERSION = "0.1.0";
