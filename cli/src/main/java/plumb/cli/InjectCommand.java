@@ -14,6 +14,7 @@ import plumb.engine.inference.FitSettings;
 import plumb.engine.inference.InjectionSummary;
 import plumb.engine.inference.InjectionToys;
 import plumb.engine.inference.ToyFit;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.likelihood.DataSet;
 
 import java.io.IOException;
@@ -54,6 +55,8 @@ final class InjectCommand implements Callable<Integer> {
     enum From { nominal, postfit }
 
     @Mixin ModelInput input;
+
+    @Mixin ClusterOptions cluster;
 
     @Option(names = "--mu", required = true, split = ",", paramLabel = "X",
             description = "Injected POI value(s); several give the linearity of fitted against injected.")
@@ -236,13 +239,16 @@ final class InjectCommand implements Callable<Integer> {
 
         List<ToyCampaign.Injection> injections = new ArrayList<>();
         long firstToy = first == null ? 0 : first;
-        for (int k = 0; k < mu.size(); k++) {
-            ToyFit[] fits;
-            try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
-                    Numbers.plain(mu.get(k))), perValue)) {
-                fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy, perValue, threadCount, bar.callback());
+        try (WorkRunner runner = cluster == null ? WorkRunner.threads(threadCount) : cluster.runner(threadCount)) {
+            for (int k = 0; k < mu.size(); k++) {
+                ToyFit[] fits;
+                try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
+                        Numbers.plain(mu.get(k))), perValue)) {
+                    fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy,
+                            perValue, runner, bar.callback());
+                }
+                injections.add(new ToyCampaign.Injection(mu.get(k), fits));
             }
-            injections.add(new ToyCampaign.Injection(mu.get(k), fits));
         }
         String[] names = new String[pulled.length];
         for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];

@@ -16,7 +16,10 @@ import java.util.Map;
  * {@code channelBinStart[c] .. channelBinStart[c+1]−1}. Per (sample, bin) entries are stored
  * from {@code sampleEntryStart[s]}, one per bin of the sample's channel.
  */
-public final class CompiledModel {
+public final class CompiledModel implements java.io.Serializable {
+
+    private static final long serialVersionUID = 1L;
+
 
     // ---- model ----
     public final String name;

@@ -17,7 +17,8 @@ import plumb.engine.minimise.MinimumStatus;
  * @param seconds wall time of the minimisation and the errors
  */
 public record FitResult(MinimumStatus status, double nll, double[] values, double[] errors,
-                        double[] covariance, boolean[] held, int evaluations, int iterations, double seconds) {
+                        double[] covariance, boolean[] held, int evaluations, int iterations, double seconds)
+        implements java.io.Serializable {
 
     public boolean converged() {
         return status.isMinimum();

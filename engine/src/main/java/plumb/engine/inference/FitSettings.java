@@ -10,7 +10,8 @@ import plumb.engine.minimise.MinimiserOptions;
  * @param optimizer which minimiser
  * @param options the minimiser's settings
  */
-public record FitSettings(boolean explicitGamma, Optimizer optimizer, MinimiserOptions options) {
+public record FitSettings(boolean explicitGamma, Optimizer optimizer, MinimiserOptions options)
+        implements java.io.Serializable {
 
     /** The minimisers a fit can use. */
     public enum Optimizer {

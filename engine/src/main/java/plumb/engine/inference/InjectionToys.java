@@ -5,7 +5,6 @@ import plumb.engine.compile.ConstraintType;
 import plumb.engine.likelihood.DataSet;
 
 import java.util.Arrays;
-import java.util.List;
 import java.util.function.IntConsumer;
 
 /**
@@ -104,33 +103,52 @@ public final class InjectionToys {
      */
     public ToyFit[] run(double[] generating, long seed, boolean fluctuateAux, long first, int count, int threads,
                         IntConsumer progress) {
+        return run(generating, seed, fluctuateAux, first, count, WorkRunner.threads(threads), progress);
+    }
+
+    /**
+     * As {@link #run(double[], long, boolean, long, int, int, IntConsumer)}, on {@code runner}
+     * (threads, or a cluster): the same results whatever runs them.
+     */
+    public ToyFit[] run(double[] generating, long seed, boolean fluctuateAux, long first, int count, WorkRunner runner,
+                        IntConsumer progress) {
         if (generating.length != m.nAll) {
             throw new IllegalArgumentException("generating point has " + generating.length + " values, expected " + m.nAll);
         }
         if (first < 0 || count < 0) throw new IllegalArgumentException("first " + first + " and count " + count + " must be >= 0");
-        final double[] point = generating.clone();
-        final double[] expected = DataSets.expectedCounts(m, point);
-        final boolean[] allChannels = new boolean[m.nChannels];
-        Arrays.fill(allChannels, true); // toys fill blinded channels too (docs/model-format.md)
-        final DataSet asimov = DataSets.asimov(m, point);
-        List<ToyFit> fits = ParallelRunner.run(count, threads,
-                () -> new Fitter(m, asimov, settings, held, heldValues),
-                (fitter, i) -> fitOne(fitter, point, expected, allChannels, seed, first + i, fluctuateAux), progress);
-        return fits.toArray(new ToyFit[0]);
+        Work work = new Work(settings, held, heldValues, pulled, generating.clone(), seed, first, fluctuateAux);
+        return runner.run(m, work, count, progress).toArray(new ToyFit[0]);
     }
 
-    /** Toy {@code index}: generated, fitted from the generating point, reduced to a {@link ToyFit}. */
-    private ToyFit fitOne(Fitter fitter, double[] point, double[] expected, boolean[] channels, long seed, long index,
-                          boolean fluctuateAux) {
-        fitter.setData(Toys.generate(m, expected, point, channels, seed, index, fluctuateAux));
-        FitResult r = fitter.fit(point, new int[0], new double[0]);
-        double[] values = r.values(), errors = r.errors();
-        double[] pulls = new double[pulled.length];
-        for (int k = 0; k < pulled.length; k++) {
-            int i = pulled[k];
-            pulls[k] = errors[i] > 0 ? (values[i] - point[i]) / errors[i] : Double.NaN;
+    /** Toys first + i of one generating point: what a task needs, in plain values. */
+    private record Work(FitSettings settings, int[] held, double[] heldValues, int[] pulled, double[] point, long seed,
+                        long first, boolean fluctuateAux) implements RangeWork<Work.Worker, ToyFit> {
+
+        /** A thread's fitter with the generating point's expected counts. */
+        record Worker(Fitter fitter, double[] expected, boolean[] channels) { }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            boolean[] allChannels = new boolean[m.nChannels];
+            Arrays.fill(allChannels, true); // toys fill blinded channels too (docs/model-format.md)
+            return new Worker(new Fitter(m, DataSets.asimov(m, point), settings, held, heldValues),
+                    DataSets.expectedCounts(m, point), allChannels);
         }
-        return new ToyFit(index, r.status(), values[m.poi], errors[m.poi], pulls);
+
+        /** Toy {@code first + i}: generated, fitted from the generating point, reduced to a {@link ToyFit}. */
+        @Override
+        public ToyFit run(Worker w, CompiledModel m, int i) {
+            long index = first + i;
+            w.fitter().setData(Toys.generate(m, w.expected(), point, w.channels(), seed, index, fluctuateAux));
+            FitResult r = w.fitter().fit(point, new int[0], new double[0]);
+            double[] values = r.values(), errors = r.errors();
+            double[] pulls = new double[pulled.length];
+            for (int k = 0; k < pulled.length; k++) {
+                int p = pulled[k];
+                pulls[k] = errors[p] > 0 ? (values[p] - point[p]) / errors[p] : Double.NaN;
+            }
+            return new ToyFit(index, r.status(), values[m.poi], errors[m.poi], pulls);
+        }
     }
 
     /**

@@ -13,7 +13,8 @@ import plumb.engine.minimise.MinimumStatus;
  * @param nuisancePulls  (θ̂ − θ_gen)/σ̂ of each tracked nuisance ({@link InjectionToys#pulledParameters()}),
  *                       NaN where the error is unavailable
  */
-public record ToyFit(long index, MinimumStatus status, double poi, double poiError, double[] nuisancePulls) {
+public record ToyFit(long index, MinimumStatus status, double poi, double poiError, double[] nuisancePulls)
+        implements java.io.Serializable {
 
     /** True when the fit converged with a usable POI error: only such toys enter the statistics. */
     public boolean usable() {

@@ -11,7 +11,8 @@ import plumb.engine.compile.ConstraintType;
  *
  * @param kind "observed", "asimov" or "toy": carried into results
  */
-public record DataSet(String kind, double[] counts, boolean[] channelIncluded, double[] aux, double constant) {
+public record DataSet(String kind, double[] counts, boolean[] channelIncluded, double[] aux, double constant)
+        implements java.io.Serializable {
 
     /**
      * Builds a data set and its constant Σ [n − n ln n + ln Γ(n+1)] over included bins plus the

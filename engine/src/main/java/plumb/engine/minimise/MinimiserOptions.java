@@ -16,7 +16,7 @@ import java.util.Locale;
  * @param restart restart once from a perturbed point when the first attempt fails
  */
 public record MinimiserOptions(double tolerance, double fallbackTolerance, int maxIterations,
-        int maxEvaluations, boolean restart) {
+        int maxEvaluations, boolean restart) implements java.io.Serializable {
 
     /** Default decrement tolerance: engine-notes.md section 3. */
     public static final double DEFAULT_TOLERANCE = 1e-8;
