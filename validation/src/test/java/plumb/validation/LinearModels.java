@@ -59,6 +59,24 @@ final class LinearModels {
                 new LinkedHashMap<>(groups), Map.of(), null);
     }
 
+    /**
+     * Like {@link #channel}, with an MC-statistics error δ·b on the background in every bin and the
+     * given groups of the θ_k; no observed counts (the model is blinded, Asimov data only).
+     */
+    static Model blindedWithMcStat(double[] s, double[] b, double[][] effects, double delta,
+                                   Map<String, List<String>> groups) {
+        List<Variation> vars = new ArrayList<>();
+        for (int k = 0; k < effects.length; k++) vars.add(symmetric("theta" + k, b, effects[k]));
+        double[] mcError = new double[b.length];
+        for (int i = 0; i < b.length; i++) mcError[i] = delta * b[i];
+        Sample sig = new Sample("signal", s, null, List.of("mu"), List.of());
+        Sample bkg = new Sample("background", b, mcError, List.of(), vars);
+        Channel ch = new Channel("sr", null, null, null, List.of(sig, bkg));
+        return new Model(Model.FORMAT, "linear-mcstat", null, "mu", List.of(ch),
+                List.of(new ParameterSpec("mu", 0.0, new double[] {-50, 50}, null, null, false)),
+                new LinkedHashMap<>(groups), Map.of(), null);
+    }
+
     private static Variation symmetric(String name, double[] nominal, double[] effect) {
         double[] up = new double[nominal.length], down = new double[nominal.length];
         for (int i = 0; i < nominal.length; i++) {

@@ -204,6 +204,57 @@ public final class CompiledModel implements java.io.Serializable {
         return n;
     }
 
+    /** A builder holding this model's arrays (shared, not copied): the start of a what-if variant. */
+    Builder toBuilder() {
+        Builder b = new Builder();
+        b.name = name;
+        b.poi = poi;
+        b.labels = labels;
+        b.nParams = nParams;
+        b.nGamma = nGamma;
+        b.parameterNames = parameterNames;
+        b.kind = kind;
+        b.nominal = nominal;
+        b.lower = lower;
+        b.upper = upper;
+        b.auxNominal = auxNominal;
+        b.width = width;
+        b.tau = tau;
+        b.prefitWidth = prefitWidth;
+        b.fixed = fixed;
+        b.kinked = kinked;
+        b.constraintType = constraintType;
+        b.gammaBin = gammaBin;
+        b.binGamma = binGamma;
+        b.channelNames = channelNames;
+        b.observables = observables;
+        b.edges = edges;
+        b.observed = observed;
+        b.channelBinStart = channelBinStart;
+        b.channelParams = channelParams;
+        b.sampleNames = sampleNames;
+        b.sampleChannel = sampleChannel;
+        b.sampleEntryStart = sampleEntryStart;
+        b.sampleMcStat = sampleMcStat;
+        b.nominalYield = nominalYield;
+        b.sampleMulStart = sampleMulStart;
+        b.mulParam = mulParam;
+        b.mulLocal = mulLocal;
+        b.mulCoeffs = mulCoeffs;
+        b.sampleShapeStart = sampleShapeStart;
+        b.shapeParam = shapeParam;
+        b.shapeLocal = shapeLocal;
+        b.shapeMode = shapeMode;
+        b.shapeCoeffStart = shapeCoeffStart;
+        b.shapeS = shapeS;
+        b.shapeA = shapeA;
+        b.groupNames = groupNames;
+        b.groupMembers = groupMembers;
+        b.pruned = pruned;
+        b.warnings = warnings;
+        return b;
+    }
+
     /** Mutable holder the compiler fills; keeps the constructor readable. */
     static final class Builder {
         String name;
