@@ -29,15 +29,16 @@ final class CheckCommand implements Callable<Integer> {
         ModelInput.Loaded loaded = input.load();
         CompiledModel m = loaded.compiled();
         PrintWriter out = spec.commandLine().getOut();
-        int factors = factors(m), nuisances = m.nParams - factors;
+        int factors = factors(m), nuisances = m.nParams - factors - binFactors(m);
         if (json != null) {
             Outputs.write(json, Json.write(toJson(m)), out);
             if ("-".equals(json)) return ExitCodes.OK;
         }
         out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
         out.printf("  %d channels, %d bins, %d samples%n", m.nChannels, m.nBins, m.nSamples);
-        out.printf("  %d parameters: %d free factors, %d nuisance parameters, %d MC-statistics parameters%n",
-                m.nAll, factors, nuisances, m.nGamma);
+        out.printf("  %d parameters: %d free factors, %d nuisance parameters, %d MC-statistics parameters%s%n",
+                m.nAll, factors, nuisances, m.nGamma,
+                binFactors(m) == 0 ? "" : ", " + binFactors(m) + " per-bin free factors");
         out.printf("  parameter of interest: %s%n", m.poi < 0 ? "(none)" : m.parameterNames[m.poi]);
         for (int c = 0; c < m.nChannels; c++) {
             out.printf("  channel %-20s %4d bins%s%n", m.channelNames[c], m.bins(c),
@@ -65,7 +66,8 @@ final class CheckCommand implements Callable<Integer> {
         root.put("samples", m.nSamples);
         root.put("parameters", m.nAll);
         root.put("freeFactors", factors);
-        root.put("nuisanceParameters", m.nParams - factors);
+        root.put("nuisanceParameters", m.nParams - factors - binFactors(m));
+        root.put("binFactors", binFactors(m));
         root.put("mcStatParameters", m.nGamma);
         root.put("poi", m.poi < 0 ? null : m.parameterNames[m.poi]);
         var pruned = root.putArray("pruned");
@@ -73,6 +75,12 @@ final class CheckCommand implements Callable<Integer> {
         var warnings = root.putArray("warnings");
         m.warnings.forEach(warnings::add);
         return root;
+    }
+
+    private static int binFactors(CompiledModel m) {
+        int n = 0;
+        for (int i = 0; i < m.nParams; i++) if (m.kind[i] == ParameterKind.BIN_FACTOR) n++;
+        return n;
     }
 
     private static int factors(CompiledModel m) {

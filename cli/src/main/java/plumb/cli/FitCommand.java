@@ -35,6 +35,9 @@ final class FitCommand implements Callable<Integer> {
     @Option(names = "--show-mcstat", description = "List the MC-statistics parameters in the table too.")
     boolean showMcStat;
 
+    @Option(names = "--show-bin-factors", description = "List the per-bin free factors (binFactors) in the table too.")
+    boolean showBinFactors;
+
     @Option(names = "--intervals", arity = "0..*", paramLabel = "NAME",
             description = "Add asymmetric 68%% profile-likelihood intervals (errorLow/errorHigh) for the POI and the parameters named.")
     List<String> intervals;
@@ -119,13 +122,17 @@ final class FitCommand implements Callable<Integer> {
         out.printf(Locale.ROOT, "status %s, -ln L = %.6f, %d evaluations, %.1f ms%n%n", r.status(), r.nll(),
                 r.evaluations(), r.seconds() * 1e3);
         Table.Builder t = Table.builder(null, "parameter", "value ± error", "pull", "constraint", "");
-        int hiddenGamma = 0, flaggedGamma = 0;
+        int hiddenGamma = 0, flaggedGamma = 0, hiddenBinFactors = 0;
         for (int i = 0; i < m.nAll; i++) {
             double pull = pull(m, r, i), cons = constraint(m, r, i);
             boolean pulled = Math.abs(pull) > 1, constrained = cons < 0.5;
             if (m.kind[i] == ParameterKind.MC_STATISTICS && !showMcStat) {
                 hiddenGamma++;
                 if (pulled || constrained) flaggedGamma++;
+                continue;
+            }
+            if (m.kind[i] == ParameterKind.BIN_FACTOR && !showBinFactors) {
+                hiddenBinFactors++;
                 continue;
             }
             String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained" : "");
@@ -137,6 +144,9 @@ final class FitCommand implements Callable<Integer> {
         if (hiddenGamma > 0) {
             out.printf("(%d MC-statistics parameters not listed, %d of them flagged; --show-mcstat lists them)%n",
                     hiddenGamma, flaggedGamma);
+        }
+        if (hiddenBinFactors > 0) {
+            out.printf("(%d per-bin free factors not listed; --show-bin-factors lists them)%n", hiddenBinFactors);
         }
         out.println("pull = (value - prefit value)/prefit width, flagged 'pulled' when |pull| > 1;");
         out.println("constraint = error/prefit width, flagged 'constrained' when < 0.5.");

@@ -31,13 +31,13 @@ public final class ReportAssembler {
     }
 
     /**
-     * The fit section: every model parameter (the MC-statistics γ are left out: there is one per
-     * bin, and the fit result file lists them), and the correlations of the parameters fitted.
+     * The fit section: every model parameter (the MC-statistics γ and per-bin free factors are left
+     * out: there is one per bin, and the fit result file lists them), and the correlations of the parameters fitted.
      */
     public static FitSection fit(CompiledModel m, FitResult r) {
         List<FitSection.Parameter> params = new ArrayList<>();
         for (int i = 0; i < m.nAll; i++) {
-            if (m.kind[i] == ParameterKind.MC_STATISTICS) continue;
+            if (m.kind[i] == ParameterKind.MC_STATISTICS || m.kind[i] == ParameterKind.BIN_FACTOR) continue;
             params.add(new FitSection.Parameter(m.parameterNames[i], r.values()[i], r.errors()[i],
                     m.nominal[i], m.prefitWidth[i], (r.values()[i] - m.nominal[i]) / m.prefitWidth[i],
                     r.errors()[i] / m.prefitWidth[i]));

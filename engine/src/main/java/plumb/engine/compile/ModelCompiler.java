@@ -1,5 +1,6 @@
 package plumb.engine.compile;
 
+import plumb.engine.model.BinFactors;
 import plumb.engine.model.Channel;
 import plumb.engine.model.McStatBins;
 import plumb.engine.model.Model;
@@ -71,7 +72,7 @@ public final class ModelCompiler {
             ParameterKind k = kinds.get(names.get(i));
             b.kind[i] = k;
             int constraint = switch (k) {
-                case FACTOR -> ConstraintType.NONE;
+                case FACTOR, BIN_FACTOR -> ConstraintType.NONE;
                 case VARIATION -> ConstraintType.GAUSSIAN;
                 case MC_STATISTICS -> options.mcStatConstraint() == ModelOptions.McStatConstraint.POISSON
                         ? ConstraintType.POISSON : ConstraintType.GAUSSIAN;
@@ -205,6 +206,9 @@ public final class ModelCompiler {
             TreeSet<Integer> params = new TreeSet<>();
             for (Sample s : ch.samples()) {
                 for (String f : s.factors()) params.add(index.get(f));
+                for (int bin = 0; bin < nb; bin++) {
+                    if (BinFactors.active(s, bin)) params.add(index.get(BinFactors.name(s.binFactors(), bin)));
+                }
                 for (Variation v : s.variations()) {
                     if (keepNorm(v, pruneBelow) || keepShape(v, s, pruneBelow)) params.add(index.get(v.parameter()));
                 }
@@ -217,7 +221,8 @@ public final class ModelCompiler {
                 sampleChannel.add(c);
                 sampleMc.add(s.mcError() != null);
                 entryStart.add(nominal.size());
-                for (int bin = 0; bin < nb; bin++) nominal.add(s.yields()[bin]);
+                // per-bin factors: the nominal yield moves into one term n_b·φ_b per bin (below)
+                for (int bin = 0; bin < nb; bin++) nominal.add(s.binFactors() == null ? s.yields()[bin] : 0);
                 mulStart.add(mulParam.size());
                 shapeStart.add(shapeParam.size());
                 String where = ch.name() + "/" + s.name();
@@ -253,6 +258,7 @@ public final class ModelCompiler {
                         }
                     }
                 }
+                addBinFactorTerms(s, nb, index, local, shapeParam, shapeLocal, shapeMode, shapeCoeffStart, shapeS, shapeA);
                 for (String f : s.factors()) {
                     int p = index.get(f);
                     Arrays.fill(coeffs, 0);
@@ -299,6 +305,30 @@ public final class ModelCompiler {
         b.shapeCoeffStart = shapeCoeffStart.toArray();
         b.shapeS = shapeS.toArray();
         b.shapeA = shapeA.toArray();
+    }
+
+    /**
+     * A sample with per-bin factors gets, for each bin b with n_b &gt; 0, the shape term n_b·φ_b in
+     * bin b (S = n_b there and 0 elsewhere, A = 0) over a compiled nominal of 0: the expectation
+     * n_b·φ_b·C_s·γ_b exactly, with the likelihood's ordinary shape-term derivatives. Its samples
+     * carry no shape variations (validator), so no other shape term is added to these bins.
+     */
+    private static void addBinFactorTerms(Sample s, int nb, Map<String, Integer> index, int[] local,
+                                          IntList shapeParam, IntList shapeLocal, IntList shapeMode,
+                                          IntList shapeCoeffStart, DoubleList shapeS, DoubleList shapeA) {
+        if (s.binFactors() == null) return;
+        for (int bin = 0; bin < nb; bin++) {
+            if (!BinFactors.active(s, bin)) continue;
+            int p = index.get(BinFactors.name(s.binFactors(), bin));
+            shapeParam.add(p);
+            shapeLocal.add(Arrays.binarySearch(local, p));
+            shapeMode.add(ShapeInterpolation.LINEAR);   // with A = 0: no kink, Δ = S·φ
+            shapeCoeffStart.add(shapeS.size());
+            for (int k = 0; k < nb; k++) {
+                shapeS.add(k == bin ? s.yields()[bin] : 0);
+                shapeA.add(0);
+            }
+        }
     }
 
     private static int normMode(Variation v) {

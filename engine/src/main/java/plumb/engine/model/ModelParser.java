@@ -28,7 +28,7 @@ final class ModelParser {
     private static final String TOP_KEYS =
             "format, name, description, poi, channels, parameters, groups, labels, options";
     private static final String CHANNEL_KEYS = "name, observable, edges, observed, samples";
-    private static final String SAMPLE_KEYS = "name, yields, mcError, factors, variations";
+    private static final String SAMPLE_KEYS = "name, yields, mcError, factors, binFactors, variations";
     private static final String VARIATION_KEYS =
             "parameter, norm, shape, normInterpolation, shapeInterpolation";
     private static final String PARAMETER_KEYS = "name, value, range, fixed, constraint";
@@ -129,6 +129,7 @@ final class ModelParser {
         double[] yields = null, mcError = null;
         List<String> factors = null;
         List<Variation> variations = null;
+        String binFactors = null;
         while (p.nextToken() == JsonToken.FIELD_NAME) {
             String k = p.currentName();
             String at = key(path, k);
@@ -139,12 +140,13 @@ final class ModelParser {
                 case "mcError" -> mcError = readNumbers(at);
                 case "factors" -> factors = readStrings(at);
                 case "variations" -> variations = readVariations(at);
+                case "binFactors" -> binFactors = readString(at);
                 default -> throw unknownKey(at, SAMPLE_KEYS);
             }
         }
         require(name, path, "name");
         require(yields, path, "yields");
-        return new Sample(name, yields, mcError, factors, variations);
+        return new Sample(name, yields, mcError, factors, variations, binFactors);
     }
 
     private List<Variation> readVariations(String path) throws IOException {

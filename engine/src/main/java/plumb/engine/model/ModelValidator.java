@@ -56,6 +56,7 @@ public final class ModelValidator {
             }
             channel(ch, path);
         }
+        binFactorClashes(m);
         Map<String, ParameterKind> kinds = ParameterKind.of(m);
         parameters(m.parameters(), kinds);
         groups(m.groups(), kinds);
@@ -122,6 +123,20 @@ public final class ModelValidator {
         nonNegative(s.yields(), key(path, "yields"), counts);
         if (s.mcError() != null) nonNegative(s.mcError(), key(path, "mcError"), counts);
         for (int f = 0; f < s.factors().size(); f++) parameterName(s.factors().get(f), index(key(path, "factors"), f));
+        if (s.binFactors() != null) {
+            String at = key(path, "binFactors");
+            parameterName(s.binFactors(), at);
+            String longest = BinFactors.name(s.binFactors(), s.yields().length - 1);
+            if (!NAME.matcher(longest).matches()) {
+                throw error(at, "%s, the generated name %s must match %s", quote(s.binFactors()), quote(longest), NAME.pattern());
+            }
+            for (int v = 0; v < s.variations().size(); v++) {
+                if (s.variations().get(v).shape() != null) {
+                    throw error(key(index(key(path, "variations"), v), "shape"),
+                            "a sample with binFactors takes norm variations only (its per-bin factors multiply the yields)");
+                }
+            }
+        }
         for (int v = 0; v < s.variations().size(); v++) {
             variation(s.variations().get(v), index(key(path, "variations"), v), counts);
         }
@@ -153,6 +168,32 @@ public final class ModelValidator {
             throw error(path, "%s, names starting with \"%s\" are reserved for the generated MC-statistics parameters",
                     quote(name), McStatBins.PREFIX);
         }
+    }
+
+    /** A generated per-bin factor name may not be written as a factor or a variation's parameter. */
+    private void binFactorClashes(Model m) {
+        java.util.Set<String> generated = BinFactors.names(m);
+        if (generated.isEmpty()) return;
+        for (int c = 0; c < m.channels().size(); c++) {
+            List<Sample> samples = m.channels().get(c).samples();
+            for (int s = 0; s < samples.size(); s++) {
+                String path = index(key(index("channels", c), "samples"), s);
+                Sample sample = samples.get(s);
+                for (int f = 0; f < sample.factors().size(); f++) {
+                    if (generated.contains(sample.factors().get(f))) {
+                        throw clash(index(key(path, "factors"), f), sample.factors().get(f));
+                    }
+                }
+                for (int v = 0; v < sample.variations().size(); v++) {
+                    String p = sample.variations().get(v).parameter();
+                    if (generated.contains(p)) throw clash(key(index(key(path, "variations"), v), "parameter"), p);
+                }
+            }
+        }
+    }
+
+    private ModelException clash(String path, String name) {
+        return error(path, "%s is the name of a generated per-bin factor (binFactors); choose another name", quote(name));
     }
 
     private void parameters(List<ParameterSpec> specs, Map<String, ParameterKind> kinds) {

@@ -180,6 +180,7 @@ public final class ModelWriter {
             g.writeFieldName("factors");
             writeNames(g, s.factors());
         }
+        if (s.binFactors() != null) g.writeStringField("binFactors", s.binFactors());
         if (!s.variations().isEmpty()) {
             g.writeFieldName("variations");
             layout.flip();

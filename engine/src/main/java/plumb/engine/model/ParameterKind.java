@@ -10,6 +10,8 @@ import java.util.Map;
 public enum ParameterKind {
     /** Used only in {@code factors}: value 1, range [0, 10], free. */
     FACTOR(1, 0, 10),
+    /** A generated per-bin free factor ({@link BinFactors}): value 1, range [0, 10], free. */
+    BIN_FACTOR(1, 0, 10),
     /** Used in a variation (perhaps also in {@code factors}): value 0, range [−5, 5], Gaussian(0, 1). */
     VARIATION(0, -5, 5),
     /** A generated MC-statistics γ_b ({@link McStatBins}): value 1, range [1e-10, 10]. */
@@ -42,7 +44,7 @@ public enum ParameterKind {
 
     /**
      * Every parameter of a validated model with its kind: the names in {@code factors} and
-     * variations in order of first use (channel, sample, factors before variations), then the
+     * variations in order of first use (channel, sample, factors, per-bin factors, variations), then the
      * generated γ names of {@link McStatBins#names(Model)}. A name used both as a factor and in a
      * variation is {@link #VARIATION}.
      */
@@ -51,6 +53,11 @@ public enum ParameterKind {
         for (Channel ch : model.channels()) {
             for (Sample s : ch.samples()) {
                 for (String f : s.factors()) kinds.putIfAbsent(f, FACTOR);
+                if (s.binFactors() != null) {
+                    for (int b = 0; b < s.yields().length; b++) {
+                        if (BinFactors.active(s, b)) kinds.putIfAbsent(BinFactors.name(s.binFactors(), b), BIN_FACTOR);
+                    }
+                }
                 for (Variation v : s.variations()) kinds.put(v.parameter(), VARIATION);
             }
         }

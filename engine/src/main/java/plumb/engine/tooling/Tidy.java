@@ -41,7 +41,7 @@ public final class Tidy {
                     Variation out = v.parameter().equals(model.poi()) ? v : edit(v, s.yields(), options, where, log);
                     if (out != null) kept.add(out);
                 }
-                samples.add(new Sample(s.name(), s.yields(), s.mcError(), s.factors(), kept));
+                samples.add(s.withVariations(kept));
             }
             channels.add(new Channel(ch.name(), ch.observable(), ch.edges(), ch.observed(), samples));
         }
