@@ -38,7 +38,7 @@ final class DiscoveryCommand implements Callable<Integer> {
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
-        Computed c = compute(l, fit, toys);
+        DiscoveryTests c = compute(l, fit, toys);
         PoiData d = c.data();
         Discovery.Significance observed = c.observed(), expected = c.expected();
         ToyPValue toy = c.toy();
@@ -54,7 +54,7 @@ final class DiscoveryCommand implements Callable<Integer> {
      * @param observed null for a blinded model
      * @param toy      null without toys
      */
-    record Computed(PoiData data, Discovery.Significance observed, Discovery.Significance expected, ToyPValue toy) { }
+    record DiscoveryTests(PoiData data, Discovery.Significance observed, Discovery.Significance expected, ToyPValue toy) { }
 
     /**
      * The observed (unless blinded) and expected q0 tests of {@code l} with the shared options, and
@@ -63,7 +63,7 @@ final class DiscoveryCommand implements Callable<Integer> {
      * @throws InputException for options that do not fit the model
      * @throws ComputationException when a needed fit fails
      */
-    static Computed compute(ModelInput.Loaded l, FitOptions fit, Integer toys) {
+    static DiscoveryTests compute(ModelInput.Loaded l, FitOptions fit, Integer toys) {
         CompiledModel m = l.compiled();
         // The expected significance is on the Asimov set at --asimov-poi (default 1); --data asimov
         // then tests that same set.
@@ -90,11 +90,11 @@ final class DiscoveryCommand implements Callable<Integer> {
         } catch (InferenceException e) {
             throw new ComputationException(e.getMessage());
         }
-        return new Computed(d, observed, expected, toy);
+        return new DiscoveryTests(d, observed, expected, toy);
     }
 
     /** The discovery result file of docs/cli-contract.md; {@code seed} is reported with toys. */
-    static ObjectNode toJson(CompiledModel m, Computed c, long seed) {
+    static ObjectNode toJson(CompiledModel m, DiscoveryTests c, long seed) {
         PoiData d = c.data();
         Discovery.Significance observed = c.observed(), expected = c.expected();
         ToyPValue toy = c.toy();

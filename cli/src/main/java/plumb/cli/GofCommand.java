@@ -41,7 +41,7 @@ final class GofCommand implements Callable<Integer> {
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
-        Computed c = compute(m, p, fit, toys);
+        GofTests c = compute(m, p, fit, toys);
         GoodnessOfFit.Result r = c.result();
         ToyPValue toy = c.toy();
         PrintWriter out = spec.commandLine().getOut();
@@ -51,7 +51,7 @@ final class GofCommand implements Callable<Integer> {
     }
 
     /** The saturated-model test, and with toys (else null) its p-value from toys. */
-    record Computed(GoodnessOfFit.Result result, ToyPValue toy) { }
+    record GofTests(GoodnessOfFit.Result result, ToyPValue toy) { }
 
     /**
      * The goodness of fit to the prepared data; with {@code toys} (null: none) also from toys
@@ -59,7 +59,7 @@ final class GofCommand implements Callable<Integer> {
      *
      * @throws ComputationException when the fit fails
      */
-    static Computed compute(CompiledModel m, FitOptions.Prepared p, FitOptions fit, Integer toys) {
+    static GofTests compute(CompiledModel m, FitOptions.Prepared p, FitOptions fit, Integer toys) {
         try {
             GoodnessOfFit.Result r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
             ToyPValue toy = null;
@@ -69,14 +69,14 @@ final class GofCommand implements Callable<Integer> {
                             p.heldValues(), toys, fit.seed, fit.threadCount(), bar.callback());
                 }
             }
-            return new Computed(r, toy);
+            return new GofTests(r, toy);
         } catch (InferenceException e) {
             throw new ComputationException(e.getMessage());
         }
     }
 
     /** The goodness-of-fit result file of docs/cli-contract.md; {@code seed} is reported with toys. */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, Computed computed, long seed) {
+    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, GofTests computed, long seed) {
         GoodnessOfFit.Result r = computed.result();
         ToyPValue toy = computed.toy();
         ObjectNode root = Json.result(m.labels, p.kind());

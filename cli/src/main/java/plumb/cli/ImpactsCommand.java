@@ -51,7 +51,7 @@ final class ImpactsCommand implements Callable<Integer> {
         if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
-        Computed c = compute(m, p, best, exactTop, includeMcStat, fit.threadCount());
+        ImpactRanking c = compute(m, p, best, exactTop, includeMcStat, fit.threadCount());
         List<Impacts.Entry> entries = c.entries();
         Impacts.Breakdown breakdown = c.breakdown();
         PrintWriter out = spec.commandLine().getOut();
@@ -66,7 +66,7 @@ final class ImpactsCommand implements Callable<Integer> {
     }
 
     /** The ranking (largest first) and the grouped breakdown. */
-    record Computed(List<Impacts.Entry> entries, Impacts.Breakdown breakdown) {
+    record ImpactRanking(List<Impacts.Entry> entries, Impacts.Breakdown breakdown) {
         /** Parameters with a refit that did not converge (their shifts are NaN). */
         long failedRefits() {
             return entries.stream().filter(e -> e.refitted() && !(e.postfit().converged() && e.prefit().converged())).count();
@@ -79,7 +79,7 @@ final class ImpactsCommand implements Callable<Integer> {
      *
      * @throws ComputationException when the best fit did not converge
      */
-    static Computed compute(CompiledModel m, FitOptions.Prepared p, FitResult best, Integer exactTop,
+    static ImpactRanking compute(CompiledModel m, FitOptions.Prepared p, FitResult best, Integer exactTop,
                             boolean includeMcStat, int threads) {
         if (!best.converged() || best.covariance() == null) {
             throw new ComputationException("the best fit did not converge (" + best.status() + "); no impacts");
@@ -91,7 +91,7 @@ final class ImpactsCommand implements Callable<Integer> {
         try (Progress bar = Progress.start("impacts", 4L * exact)) {
             entries = impacts.rank(exact, threads, bar.callback());
         }
-        return new Computed(entries, impacts.breakdown());
+        return new ImpactRanking(entries, impacts.breakdown());
     }
 
     /** The impacts result file of docs/cli-contract.md, with the linearised shifts and the breakdown added. */

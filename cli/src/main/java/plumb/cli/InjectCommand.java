@@ -121,19 +121,19 @@ final class InjectCommand implements Callable<Integer> {
         PrintWriter out = spec.commandLine().getOut();
         PrintWriter err = spec.commandLine().getErr();
         boolean table = !"-".equals(json);
-        Computed c = compute(loaded, batch, table ? out : null);
+        InjectionRun c = compute(loaded, batch, table ? out : null);
         CompiledModel m = loaded.compiled();
         if (batch) {
-            c.campaign().writePart(json, out);
+            c.toyFits().writePart(json, out);
             if (table) {
                 out.printf(Locale.ROOT, "wrote toys %d..%d of each value to %s; merge the parts with 'plumb merge-toys'%n",
-                        c.campaign().first(), c.campaign().first() + c.campaign().count() - 1, json);
+                        c.toyFits().first(), c.toyFits().first() + c.toyFits().count() - 1, json);
             }
             return ExitCodes.OK;
         }
         List<InjectionSummary> summaries = c.summaries();
         if (json != null) Outputs.write(json, Json.write(c.toJson()), out);
-        if (table && c.campaign().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
+        if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
         int status = ExitCodes.OK;
         if (c.closureFailed()) {
             err.println("plumb inject: the Asimov closure check failed (see above)");
@@ -153,11 +153,11 @@ final class InjectCommand implements Callable<Integer> {
     /**
      * The outcome of an injection run.
      *
-     * @param campaign  the toys' results
+     * @param toyFits  the toys' results
      * @param closures  per injected value the Asimov closure check (empty without --asimov)
      * @param summaries per injected value the toys' summary (empty in batch mode)
      */
-    record Computed(CompiledModel model, ToyCampaign campaign, List<AsimovClosure> closures,
+    record InjectionRun(CompiledModel model, InjectionToyFits toyFits, List<AsimovClosure> closures,
                     List<InjectionSummary> summaries) {
         boolean closureFailed() {
             return closures.stream().anyMatch(c -> !c.passed());
@@ -170,7 +170,7 @@ final class InjectCommand implements Callable<Integer> {
                 json = new ArrayList<>();
                 for (AsimovClosure c : closures) json.add(closureJson(model, c));
             }
-            return campaign.resultJson(json, summaries);
+            return toyFits.resultJson(json, summaries);
         }
     }
 
@@ -182,7 +182,7 @@ final class InjectCommand implements Callable<Integer> {
      * @throws InputException for options that do not fit the model
      * @throws ComputationException when a generating point's fit to the observed data fails
      */
-    Computed compute(ModelInput.Loaded loaded, boolean batch, PrintWriter table) {
+    InjectionRun compute(ModelInput.Loaded loaded, boolean batch, PrintWriter table) {
         CompiledModel m = loaded.compiled();
         FitOptions options = fitOptions();
         int perValue = checkOptions(m, batch);
@@ -237,7 +237,7 @@ final class InjectCommand implements Callable<Integer> {
             if (table != null) table.flush();
         }
 
-        List<ToyCampaign.Injection> injections = new ArrayList<>();
+        List<InjectionToyFits.ValueFits> injections = new ArrayList<>();
         long firstToy = first == null ? 0 : first;
         try (WorkRunner runner = cluster == null ? WorkRunner.threads(threadCount) : cluster.runner(threadCount)) {
             for (int k = 0; k < mu.size(); k++) {
@@ -247,14 +247,14 @@ final class InjectCommand implements Callable<Integer> {
                     fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy,
                             perValue, runner, bar.callback());
                 }
-                injections.add(new ToyCampaign.Injection(mu.get(k), fits));
+                injections.add(new InjectionToyFits.ValueFits(mu.get(k), fits));
             }
         }
         String[] names = new String[pulled.length];
         for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
-        ToyCampaign campaign = new ToyCampaign(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
+        InjectionToyFits toyFits = new InjectionToyFits(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
                 perValue, injections);
-        return new Computed(m, campaign, closures, batch ? List.of() : campaign.summaries());
+        return new InjectionRun(m, toyFits, closures, batch ? List.of() : toyFits.summaries());
     }
 
     /**
@@ -404,7 +404,7 @@ final class InjectCommand implements Callable<Integer> {
         }
         out.printf(Locale.ROOT, "  flag: pull mean or width, or coverage, more than 3 standard errors from 0, 1 and %.4f%n",
                 InjectionSummary.GAUSSIAN_68);
-        var line = ToyCampaign.linearity(summaries);
+        var line = InjectionToyFits.linearity(summaries);
         if (line != null) {
             out.printf(Locale.ROOT, "%nLinearity (mean fitted %s = offset + slope x injected, weighted least squares):%n", poi);
             out.printf(Locale.ROOT, "  slope %s, offset %s%n", pm(line.slope(), line.slopeError(), 4),

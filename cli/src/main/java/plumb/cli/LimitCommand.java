@@ -69,14 +69,14 @@ final class LimitCommand implements Callable<Integer> {
     @Spec CommandSpec spec;
 
     /** One model's outcome: its limit, or why it has none. */
-    record Outcome(ModelInput.Loaded model, double x, PoiData data, LimitResult result, String error) { }
+    record ModelLimit(ModelInput.Loaded model, double x, PoiData data, LimitResult result, String error) { }
 
     @Override
     public Integer call() {
         if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
-        Computed c = compute();
-        List<Outcome> outcomes = c.outcomes();
+        LimitTable c = compute();
+        List<ModelLimit> outcomes = c.outcomes();
         String key = c.key();
         PrintWriter out = spec.commandLine().getOut();
         if (json != null) Outputs.write(json, Json.write(toJson(outcomes, key)), out);
@@ -92,11 +92,11 @@ final class LimitCommand implements Callable<Integer> {
     }
 
     /** Every model's outcome, ordered by x, and the label key x comes from (null: none). */
-    record Computed(List<Outcome> outcomes, String key) {
+    record LimitTable(List<ModelLimit> outcomes, String key) {
         /** The outcomes that have no limit, with why. */
         List<String> errors() {
             List<String> errors = new ArrayList<>();
-            for (Outcome o : outcomes) {
+            for (ModelLimit o : outcomes) {
                 if (o.error() != null) errors.add(outcomes.size() == 1 ? o.error() : o.model().file() + ": " + o.error());
             }
             return errors;
@@ -119,7 +119,7 @@ final class LimitCommand implements Callable<Integer> {
      *
      * @throws InputException for options that do not fit the models
      */
-    Computed compute() {
+    LimitTable compute() {
         List<Path> files = modelFiles(models);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : files) loaded.add(ModelInput.load(f));
@@ -130,7 +130,7 @@ final class LimitCommand implements Callable<Integer> {
         // Resolve every model's data first: bad options fail before any long computation.
         List<PoiData> data = new ArrayList<>();
         for (ModelInput.Loaded l : loaded) data.add(PoiData.resolve(l.file(), l.compiled(), fit, 0.0, 0.0));
-        List<Outcome> outcomes;
+        List<ModelLimit> outcomes;
         if (toys == null) {
             // Asymptotic limits: one model per thread, each computed sequentially (deterministic).
             outcomes = ParallelRunner.run(loaded.size(), threads, () -> null,
@@ -145,20 +145,20 @@ final class LimitCommand implements Callable<Integer> {
             }
         }
         outcomes = new ArrayList<>(outcomes);
-        outcomes.sort(Comparator.comparingDouble(Outcome::x));
-        return new Computed(outcomes, key);
+        outcomes.sort(Comparator.comparingDouble(ModelLimit::x));
+        return new LimitTable(outcomes, key);
     }
 
-    private Outcome compute(ModelInput.Loaded l, double x, PoiData d, int threads, Progress bar) {
+    private ModelLimit compute(ModelInput.Loaded l, double x, PoiData d, int threads, Progress bar) {
         CompiledModel m = l.compiled();
         try {
             LimitResult r = toys == null
                     ? AsymptoticUpperLimit.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
                     : ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
                     d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar.callback());
-            return new Outcome(l, x, d, r, null);
+            return new ModelLimit(l, x, d, r, null);
         } catch (InferenceException e) {
-            return new Outcome(l, x, d, null, e.getMessage());
+            return new ModelLimit(l, x, d, null, e.getMessage());
         }
     }
 
@@ -206,8 +206,8 @@ final class LimitCommand implements Callable<Integer> {
     }
 
     /** The limit file of docs/cli-contract.md, with the points of every model. */
-    ObjectNode toJson(List<Outcome> outcomes, String key) {
-        Outcome first = outcomes.get(0);
+    ObjectNode toJson(List<ModelLimit> outcomes, String key) {
+        ModelLimit first = outcomes.get(0);
         ObjectNode root = Json.result(outcomes.size() == 1 ? first.model().compiled().labels : commonLabels(outcomes),
                 first.data().kind());
         if (outcomes.size() == 1) {
@@ -217,7 +217,7 @@ final class LimitCommand implements Callable<Integer> {
         if (key != null) root.put("label", key);
         else root.putNull("label");
         ArrayNode points = root.putArray("points");
-        for (Outcome o : outcomes) {
+        for (ModelLimit o : outcomes) {
             ObjectNode p = points.addObject();
             p.put("model", o.model().file().toString());
             Json.put(p, "x", o.x());
@@ -228,7 +228,7 @@ final class LimitCommand implements Callable<Integer> {
         return root;
     }
 
-    private void putLimit(ObjectNode node, Outcome o) {
+    private void putLimit(ObjectNode node, ModelLimit o) {
         CompiledModel m = o.model().compiled();
         node.put("poi", m.parameterNames[m.poi]);
         node.put("cl", cl);
@@ -275,21 +275,21 @@ final class LimitCommand implements Callable<Integer> {
         for (int k = 0; k < v.length; k++) Json.put(node, BAND_KEYS[k], v[k]);
     }
 
-    private static Map<String, Object> commonLabels(List<Outcome> outcomes) {
+    private static Map<String, Object> commonLabels(List<ModelLimit> outcomes) {
         Map<String, Object> common = new LinkedHashMap<>(outcomes.get(0).model().compiled().labels);
-        for (Outcome o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels.get(e.getKey())));
+        for (ModelLimit o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels.get(e.getKey())));
         return common;
     }
 
     /** The table of limits, one row per model, ordered by x. */
-    Table table(List<Outcome> outcomes, String key) {
+    Table table(List<ModelLimit> outcomes, String key) {
         CompiledModel m0 = outcomes.get(0).model().compiled();
         String title = String.format(Locale.ROOT, "CLs upper limits on %s at %s%% CL (%s, q~mu statistic, %s data)",
                 m0.parameterNames[m0.poi], Numbers.plain(100 * cl), toys == null ? "asymptotic" : toys + " toys",
                 outcomes.get(0).data().kind());
         Table.Builder t = Table.builder(title, key == null ? "x" : key, "model", "observed", "expected -2σ",
                 "expected -1σ", "expected median", "expected +1σ", "expected +2σ");
-        for (Outcome o : outcomes) {
+        for (ModelLimit o : outcomes) {
             List<String> row = new ArrayList<>();
             row.add(Double.isNaN(o.x()) ? Table.MISSING : Table.number(o.x(), 6).replaceAll("\\.?0+$", ""));
             row.add(o.model().file().getFileName().toString());
@@ -312,7 +312,7 @@ final class LimitCommand implements Callable<Integer> {
         return Table.number(value, 4);
     }
 
-    private void printSingle(PrintWriter out, Outcome o) {
+    private void printSingle(PrintWriter out, ModelLimit o) {
         CompiledModel m = o.model().compiled();
         String poi = m.parameterNames[m.poi];
         out.printf(Locale.ROOT, "CLs upper limit on %s at %s%% CL for model '%s' (%s)%n", poi, Numbers.plain(100 * cl),

@@ -35,7 +35,7 @@ final class MergeToysCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        ToyCampaign c = ToyCampaign.merge(parts);
+        InjectionToyFits c = InjectionToyFits.merge(parts);
         List<InjectionSummary> summaries = c.summaries();
         PrintWriter out = spec.commandLine().getOut();
         if (json != null) Outputs.write(json, Json.write(c.resultJson(null, summaries)), out);

@@ -69,7 +69,7 @@ final class ReportCommand implements Callable<Integer> {
     /** Runs a report job, prints where the page is and what failed; the exit status. */
     static int run(ReportJob job, Path dir, PrintWriter out, PrintWriter err, String command) {
         long t0 = System.nanoTime();
-        ReportJob.Outcome o = job.run(dir);
+        ReportJob.Written o = job.run(dir);
         RunSummary s = o.summary();
         headline(dir.resolve("json"), out);
         out.printf(Locale.ROOT, "Report written to %s (%s)%n", o.index(), duration((System.nanoTime() - t0) * 1e-9));

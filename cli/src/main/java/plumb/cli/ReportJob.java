@@ -80,7 +80,7 @@ final class ReportJob {
     }
 
     /** What a run produced: the page written, and whether any section failed or any fit did not converge. */
-    record Outcome(Path index, RunSummary summary) {
+    record Written(Path index, RunSummary summary) {
     }
 
     /**
@@ -88,7 +88,7 @@ final class ReportJob {
      *
      * @throws InputException for bad options (nothing is written then) or a report that cannot be written
      */
-    Outcome run(Path dir) {
+    Written run(Path dir) {
         long t0 = System.nanoTime();
         ModelInput.Loaded main = ModelInput.load(files.get(0));
         for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
@@ -108,7 +108,7 @@ final class ReportJob {
                 .withFit(ReportAssembler.fit(m, best));
 
         if (hasPoi) {
-            ImpactsCommand.Computed impacts = section("impacts", () -> ImpactsCommand.compute(m, p, best, impactsTop, false, threads));
+            ImpactsCommand.ImpactRanking impacts = section("impacts", () -> ImpactsCommand.compute(m, p, best, impactsTop, false, threads));
             if (impacts != null) {
                 attach("impacts", ImpactsCommand.toJson(m, p, best, impacts.entries(), impacts.breakdown()));
                 for (var e : impacts.entries()) {
@@ -129,7 +129,7 @@ final class ReportJob {
             in = in.withYields(ReportAssembler.yields(main.model(), m, yields));
         }
 
-        ScanCommand.Computed scan = section("scan", () -> {
+        ScanCommand.ScanProfile scan = section("scan", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
             if (best.held()[m.poi]) throw new ComputationException("the POI is held, it cannot be scanned");
             return ScanCommand.compute(m, p, m.poi, best, null, SCAN_POINTS, threads);
@@ -147,7 +147,7 @@ final class ReportJob {
             in = in.withScan(ReportAssembler.scan(m.parameterNames[m.poi], best.values()[m.poi], scan.points(), scan.intervals()));
         }
 
-        DiscoveryCommand.Computed discovery = section("discovery", () -> {
+        DiscoveryCommand.DiscoveryTests discovery = section("discovery", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
             return DiscoveryCommand.compute(main, fit, null);
         });
@@ -158,7 +158,7 @@ final class ReportJob {
 
         in = limits(in, hasPoi);
 
-        GofCommand.Computed gof = section("gof", () -> GofCommand.compute(m, p, fit, null));
+        GofCommand.GofTests gof = section("gof", () -> GofCommand.compute(m, p, fit, null));
         if (gof != null) {
             attach("gof", GofCommand.toJson(m, p, gof, fit.seed));
             in = in.withGoodnessOfFit(ReportAssembler.gof(gof.result()));
@@ -171,7 +171,7 @@ final class ReportJob {
                 fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
         try {
-            return new Outcome(ReportWriter.write(in, dir), summary);
+            return new Written(ReportWriter.write(in, dir), summary);
         } catch (IOException | RuntimeException e) {
             throw new InputException("--out " + dir + ": cannot write the report: " + e.getMessage());
         }
@@ -183,19 +183,19 @@ final class ReportJob {
             return in;
         }
         LimitCommand command = LimitCommand.asymptotic(files, fit, label);
-        LimitCommand.Computed limits = section("limits", command::compute);
+        LimitCommand.LimitTable limits = section("limits", command::compute);
         if (limits == null) return in;
         attach("limit", command.toJson(limits.outcomes(), limits.key()));
         if (!limits.errors().isEmpty()) failures.add(new RunSummary.Failure("limits", String.join("; ", limits.errors())));
         List<LimitBands.Point> points = new ArrayList<>();
-        for (LimitCommand.Outcome o : limits.outcomes()) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
+        for (LimitCommand.ModelLimit o : limits.outcomes()) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
         CompiledModel m = limits.outcomes().get(0).model().compiled();
         return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", 0.95, limits.key(), points));
     }
 
     private ReportInput injection(ReportInput in, ModelInput.Loaded main, boolean hasPoi) {
         CompiledModel m = main.compiled();
-        InjectCommand.Computed inj = section("injection", () -> {
+        InjectCommand.InjectionRun inj = section("injection", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
             List<Double> mu = new ArrayList<>();
             for (double x : INJECTED) if (x >= m.lower[m.poi] && x <= m.upper[m.poi]) mu.add(x);
@@ -226,7 +226,7 @@ final class ReportJob {
             }
         }
         return in.withClosures(ReportAssembler.closures(m, inj.closures()))
-                .withInjection(inj.campaign().count() > 0 ? ReportAssembler.injection(inj.summaries()) : List.of());
+                .withInjection(inj.toyFits().count() > 0 ? ReportAssembler.injection(inj.summaries()) : List.of());
     }
 
     /**

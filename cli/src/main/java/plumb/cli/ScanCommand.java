@@ -61,7 +61,7 @@ final class ScanCommand implements Callable<Integer> {
                     range, m.lower[k], m.upper[k], m.parameterNames[k]));
         }
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
-        Computed c = compute(m, p, k, best, lohi, points, fit.threadCount());
+        ScanProfile c = compute(m, p, k, best, lohi, points, fit.threadCount());
         List<ProfileScan.Point> pts = c.points();
         List<ProfileScan.Interval> intervals = c.intervals();
         PrintWriter out = spec.commandLine().getOut();
@@ -75,7 +75,7 @@ final class ScanCommand implements Callable<Integer> {
     }
 
     /** The scanned points and the 68 % and 95 % intervals. */
-    record Computed(List<ProfileScan.Point> points, List<ProfileScan.Interval> intervals) {
+    record ScanProfile(List<ProfileScan.Point> points, List<ProfileScan.Interval> intervals) {
         /** Scan points and interval ends whose refits did not converge. */
         long failedRefits() {
             long failed = points.stream().filter(x -> Double.isNaN(x.deltaNll())).count();
@@ -90,7 +90,7 @@ final class ScanCommand implements Callable<Integer> {
      *
      * @throws ComputationException when the best fit did not converge
      */
-    static Computed compute(CompiledModel m, FitOptions.Prepared p, int k, FitResult best, double[] lohi, int points,
+    static ScanProfile compute(CompiledModel m, FitOptions.Prepared p, int k, FitResult best, double[] lohi, int points,
                             int threads) {
         if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
         double v = best.values()[k], e = best.errors()[k];
@@ -104,7 +104,7 @@ final class ScanCommand implements Callable<Integer> {
             pts = scan.points(k, lohi[0], lohi[1], points, threads, bar.callback());
         }
         List<ProfileScan.Interval> intervals = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads);
-        return new Computed(pts, intervals);
+        return new ScanProfile(pts, intervals);
     }
 
     static int resolve(CompiledModel m, String name) {

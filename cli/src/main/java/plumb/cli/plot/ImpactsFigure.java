@@ -37,9 +37,9 @@ public final class ImpactsFigure {
     }
 
     /** Builds the figure for the {@code topN} largest impacts; height grows with the rows. */
-    public static Figure of(Impacts in, int topN) {
+    public static Figure of(ImpactBars in, int topN) {
         if (topN < 1) throw new IllegalArgumentException("topN must be >= 1, got " + topN);
-        List<Impacts.Entry> rows = in.top(topN);
+        List<ImpactBars.Bar> rows = in.top(topN);
         if (rows.isEmpty()) throw new IllegalArgumentException("no impacts to show");
         int n = rows.size();
         List<String> names = new ArrayList<>(n);
@@ -51,7 +51,7 @@ public final class ImpactsFigure {
         XYIntervalSeries preDown = new XYIntervalSeries("pre-down", false, true);
         double reach = 0;
         for (int i = 0; i < n; i++) {
-            Impacts.Entry e = rows.get(i);
+            ImpactBars.Bar e = rows.get(i);
             names.add(e.parameter());
             pulls[i] = e.pull();
             constraints[i] = e.constraint();

@@ -19,13 +19,13 @@ public final class PullsFigure {
     }
 
     /** Builds the figure; its height grows with the number of parameters. */
-    public static Figure of(Pulls in) {
+    public static Figure of(PullMarks in) {
         List<String> names = new ArrayList<>();
         int n = in.entries().size();
         double[] pulls = new double[n];
         double[] constraints = new double[n];
         for (int i = 0; i < n; i++) {
-            Pulls.Entry e = in.entries().get(i);
+            PullMarks.Mark e = in.entries().get(i);
             names.add(e.name());
             pulls[i] = e.pull();
             constraints[i] = e.constraint();

@@ -2,7 +2,7 @@ package plumb.cli.report;
 
 import java.util.List;
 import plumb.cli.plot.CorrelationMatrix;
-import plumb.cli.plot.Pulls;
+import plumb.cli.plot.PullMarks;
 
 /**
  * A maximum-likelihood fit as shown in the report. Numbers that could not be computed are NaN.
@@ -47,9 +47,9 @@ public record FitSection(boolean converged, double nll, List<Parameter> paramete
     }
 
     /** Pulls of the constrained parameters, in model order; null when there are none. */
-    public Pulls pulls() {
-        List<Pulls.Entry> entries = new java.util.ArrayList<>();
-        for (Parameter p : parameters) if (p.constrained()) entries.add(new Pulls.Entry(p.name(), p.pull(), p.constraint()));
-        return entries.isEmpty() ? null : new Pulls(null, entries);
+    public PullMarks pulls() {
+        List<PullMarks.Mark> entries = new java.util.ArrayList<>();
+        for (Parameter p : parameters) if (p.constrained()) entries.add(new PullMarks.Mark(p.name(), p.pull(), p.constraint()));
+        return entries.isEmpty() ? null : new PullMarks(null, entries);
     }
 }

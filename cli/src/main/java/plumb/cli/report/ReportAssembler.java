@@ -3,7 +3,7 @@ package plumb.cli.report;
 import java.util.ArrayList;
 import java.util.List;
 import plumb.cli.plot.CorrelationMatrix;
-import plumb.cli.plot.Impacts;
+import plumb.cli.plot.ImpactBars;
 import plumb.cli.plot.LimitBands;
 import plumb.cli.plot.ScanCurve;
 import plumb.engine.compile.CompiledModel;
@@ -59,40 +59,40 @@ public final class ReportAssembler {
     }
 
     /** The impacts ranking: exact shifts where refitted, linearised ones for the rest. */
-    public static Impacts impacts(CompiledModel m, FitResult best, List<plumb.engine.inference.Impacts.Entry> entries) {
-        List<Impacts.Entry> out = new ArrayList<>();
+    public static ImpactBars impacts(CompiledModel m, FitResult best, List<plumb.engine.inference.Impacts.Entry> entries) {
+        List<ImpactBars.Bar> out = new ArrayList<>();
         for (plumb.engine.inference.Impacts.Entry e : entries) {
             plumb.engine.inference.Impacts.Shift pre = e.refitted() ? e.prefit() : e.linearPrefit();
             plumb.engine.inference.Impacts.Shift post = e.refitted() ? e.postfit() : e.linearPostfit();
-            out.add(new Impacts.Entry(e.name(), e.pull(), e.constraint(), pre.up(), pre.down(), post.up(), post.down()));
+            out.add(new ImpactBars.Bar(e.name(), e.pull(), e.constraint(), pre.up(), pre.down(), post.up(), post.down()));
         }
-        return new Impacts(m.parameterNames[m.poi], best.values()[m.poi], best.errors()[m.poi], out);
+        return new ImpactBars(m.parameterNames[m.poi], best.values()[m.poi], best.errors()[m.poi], out);
     }
 
     /** The grouped breakdown of the POI's uncertainty. */
-    public static Results.Breakdown breakdown(plumb.engine.inference.Impacts.Breakdown b) {
-        List<Results.Breakdown.Group> groups = new ArrayList<>();
+    public static Results.ErrorBreakdown breakdown(plumb.engine.inference.Impacts.Breakdown b) {
+        List<Results.ErrorBreakdown.Group> groups = new ArrayList<>();
         for (plumb.engine.inference.Impacts.Contribution c : b.groups()) {
-            groups.add(new Results.Breakdown.Group(c.group(), c.members(), c.contribution(), c.fixedError()));
+            groups.add(new Results.ErrorBreakdown.Group(c.group(), c.members(), c.contribution(), c.fixedError()));
         }
-        return new Results.Breakdown(b.total(), b.statOnly(), groups);
+        return new Results.ErrorBreakdown(b.total(), b.statOnly(), groups);
     }
 
     /**
      * Yields per channel with the channel's observable and edges. A sample is the signal when its
      * factors include the parameter of interest (per channel: a sample may be signal in one only).
      */
-    public static List<ChannelYields> yields(Model model, CompiledModel m, List<Yields.ChannelYields> yields) {
-        List<ChannelYields> out = new ArrayList<>();
+    public static List<ChannelYieldBands> yields(Model model, CompiledModel m, List<Yields.ChannelYields> yields) {
+        List<ChannelYieldBands> out = new ArrayList<>();
         for (int c = 0; c < yields.size(); c++) {
             Yields.ChannelYields y = yields.get(c);
             Channel ch = model.channels().get(c);
-            List<ChannelYields.SampleYields> samples = new ArrayList<>();
+            List<ChannelYieldBands.SampleBands> samples = new ArrayList<>();
             for (Yields.SampleYields s : y.samples()) {
-                samples.add(new ChannelYields.SampleYields(s.name(), isSignal(model, ch, s.name()), band(s.prefit()),
+                samples.add(new ChannelYieldBands.SampleBands(s.name(), isSignal(model, ch, s.name()), band(s.prefit()),
                         s.postfit() == null ? null : band(s.postfit())));
             }
-            out.add(new ChannelYields(y.name(), m.observables[c], m.edges[c], y.observed(), samples,
+            out.add(new ChannelYieldBands(y.name(), m.observables[c], m.edges[c], y.observed(), samples,
                     band(y.totalPrefit()), y.totalPostfit() == null ? null : band(y.totalPostfit())));
         }
         return out;
@@ -104,8 +104,8 @@ public final class ReportAssembler {
         return false;
     }
 
-    private static ChannelYields.Band band(Yields.Band b) {
-        return new ChannelYields.Band(b.values(), b.errors());
+    private static ChannelYieldBands.BinBand band(Yields.Band b) {
+        return new ChannelYieldBands.BinBand(b.values(), b.errors());
     }
 
     /**
@@ -131,12 +131,12 @@ public final class ReportAssembler {
     }
 
     /** Observed (null when blinded) and expected discovery tests. */
-    public static Results.Discovery discovery(Discovery.Significance observed, Discovery.Significance expected) {
-        return new Results.Discovery(observed == null ? null : significance(observed), significance(expected));
+    public static Results.DiscoveryValues discovery(Discovery.Significance observed, Discovery.Significance expected) {
+        return new Results.DiscoveryValues(observed == null ? null : significance(observed), significance(expected));
     }
 
-    private static Results.Significance significance(Discovery.Significance s) {
-        return new Results.Significance(s.q0(), s.z(), s.p());
+    private static Results.Q0Values significance(Discovery.Significance s) {
+        return new Results.Q0Values(s.q0(), s.z(), s.p());
     }
 
     /** One point of the limits table or figure; a model without a limit gives NaN everywhere. */
@@ -147,15 +147,15 @@ public final class ReportAssembler {
     }
 
     /** The saturated-model goodness of fit. */
-    public static Results.GoodnessOfFit gof(GoodnessOfFit.Result r) {
-        return new Results.GoodnessOfFit(r.statistic(), r.ndof(), r.p());
+    public static Results.GofValues gof(GoodnessOfFit.Result r) {
+        return new Results.GofValues(r.statistic(), r.ndof(), r.p());
     }
 
     /** One row per injected value. */
-    public static List<Results.Injection> injection(List<InjectionSummary> summaries) {
-        List<Results.Injection> out = new ArrayList<>();
+    public static List<Results.InjectionValues> injection(List<InjectionSummary> summaries) {
+        List<Results.InjectionValues> out = new ArrayList<>();
         for (InjectionSummary s : summaries) {
-            out.add(new Results.Injection(s.injected(), s.toys(), s.converged(), s.mean(), s.meanError(), s.pullMean(),
+            out.add(new Results.InjectionValues(s.injected(), s.toys(), s.converged(), s.mean(), s.meanError(), s.pullMean(),
                     s.pullWidth(), s.coverage68()));
         }
         return out;

@@ -1,7 +1,7 @@
 package plumb.cli.report;
 
 import java.util.List;
-import plumb.cli.plot.Impacts;
+import plumb.cli.plot.ImpactBars;
 import plumb.cli.plot.ScanCurve;
 
 /**
@@ -13,11 +13,11 @@ import plumb.cli.plot.ScanCurve;
  * @param closures   Asimov closure checks shown with the injection tests
  * @param breakdown  grouped breakdown of the POI's uncertainty shown with the impacts, or null
  */
-public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, int impactsTop,
-                          List<ChannelYields> yields, ScanCurve scan, Results.Discovery discovery,
-                          Results.Limits limits, Results.GoodnessOfFit gof, List<Results.Injection> injection,
+public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts, int impactsTop,
+                          List<ChannelYieldBands> yields, ScanCurve scan, Results.DiscoveryValues discovery,
+                          Results.Limits limits, Results.GofValues gof, List<Results.InjectionValues> injection,
                           List<Results.Attachment> attachments, List<Results.Closure> closures,
-                          Results.Breakdown breakdown) {
+                          Results.ErrorBreakdown breakdown) {
 
     /** Default number of parameters in the impacts ranking. */
     public static final int DEFAULT_IMPACTS_TOP = 20;
@@ -44,11 +44,11 @@ public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, i
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withImpacts(Impacts impacts, int top) {
+    public ReportInput withImpacts(ImpactBars impacts, int top) {
         return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withYields(List<ChannelYields> yields) {
+    public ReportInput withYields(List<ChannelYieldBands> yields) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
@@ -56,7 +56,7 @@ public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, i
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withDiscovery(Results.Discovery discovery) {
+    public ReportInput withDiscovery(Results.DiscoveryValues discovery) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
@@ -64,11 +64,11 @@ public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, i
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withGoodnessOfFit(Results.GoodnessOfFit gof) {
+    public ReportInput withGoodnessOfFit(Results.GofValues gof) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withInjection(List<Results.Injection> injection) {
+    public ReportInput withInjection(List<Results.InjectionValues> injection) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
@@ -80,7 +80,7 @@ public record ReportInput(RunSummary summary, FitSection fit, Impacts impacts, i
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 
-    public ReportInput withBreakdown(Results.Breakdown breakdown) {
+    public ReportInput withBreakdown(Results.ErrorBreakdown breakdown) {
         return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
     }
 }

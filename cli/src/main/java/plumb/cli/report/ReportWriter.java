@@ -16,12 +16,12 @@ import plumb.cli.plot.Figure;
 import plumb.cli.plot.FigureFiles;
 import plumb.cli.plot.FigureWriter;
 import plumb.cli.plot.ImpactsFigure;
-import plumb.cli.plot.Impacts;
+import plumb.cli.plot.ImpactBars;
 import plumb.cli.plot.LimitBands;
 import plumb.cli.plot.LimitsFigure;
 import plumb.cli.plot.Linearity;
 import plumb.cli.plot.LinearityFigure;
-import plumb.cli.plot.Pulls;
+import plumb.cli.plot.PullMarks;
 import plumb.cli.plot.PullsFigure;
 import plumb.cli.plot.ScanCurve;
 import plumb.cli.plot.ScanFigure;
@@ -229,7 +229,7 @@ public final class ReportWriter {
 
     private void pullsSection() {
         open("pulls", "Nuisance-parameter pulls");
-        Pulls pulls = in.fit() == null ? null : in.fit().pulls();
+        PullMarks pulls = in.fit() == null ? null : in.fit().pulls();
         if (pulls == null) {
             notRun();
             return;
@@ -242,7 +242,7 @@ public final class ReportWriter {
 
     private void impactsSection() throws IOException {
         open("impacts", "Impacts on the parameter of interest");
-        Impacts impacts = in.impacts();
+        ImpactBars impacts = in.impacts();
         if (impacts == null || impacts.entries().isEmpty()) {
             notRun();
             return;
@@ -253,18 +253,18 @@ public final class ReportWriter {
         figure("impacts", "Largest impacts, with each parameter's pull.", () -> ImpactsFigure.of(impacts, in.impactsTop()));
         Table.Builder t = Table.builder(null, "Parameter", "Pull", "Constraint", "Pre-fit +1σ", "Pre-fit −1σ",
                 "Post-fit +1σ", "Post-fit −1σ");
-        for (Impacts.Entry e : impacts.top(impacts.entries().size())) {
+        for (ImpactBars.Bar e : impacts.top(impacts.entries().size())) {
             t.row(e.parameter(), fixed(e.pull(), 2), fixed(e.constraint(), 2), Table.number(e.prefitUp(), 3),
                     Table.number(e.prefitDown(), 3), Table.number(e.postfitUp(), 3), Table.number(e.postfitDown(), 3));
         }
         table(t.build(), "impacts");
-        Results.Breakdown b = in.breakdown();
+        Results.ErrorBreakdown b = in.breakdown();
         if (b != null) {
             Table.Builder g = Table.builder("Breakdown of the uncertainty on " + impacts.poi(), "Group", "Parameters",
                     "Share of the error", "Error with the group held");
             g.row("total", "", Table.number(b.total(), 3), "");
             g.row("statistical only", "", Table.number(b.statOnly(), 3), "");
-            for (Results.Breakdown.Group gr : b.groups()) {
+            for (Results.ErrorBreakdown.Group gr : b.groups()) {
                 g.row(gr.name(), Integer.toString(gr.parameters()), Table.number(gr.error(), 3), Table.number(gr.fixedError(), 3));
             }
             table(g.build(), "impacts_breakdown");
@@ -279,7 +279,7 @@ public final class ReportWriter {
             notRun();
             return;
         }
-        for (ChannelYields ch : in.yields()) {
+        for (ChannelYieldBands ch : in.yields()) {
             html.append("<h3>").append(esc(ch.name())).append("</h3>\n");
             if (ch.observed() == null) html.append("<p class=\"muted\">Blinded channel: no observed counts.</p>\n");
             String base = "yields_" + FigureWriter.safeName(ch.name());
@@ -293,20 +293,20 @@ public final class ReportWriter {
         close();
     }
 
-    private static Table yieldsTable(ChannelYields ch, boolean postfit) {
+    private static Table yieldsTable(ChannelYieldBands ch, boolean postfit) {
         List<String> header = new ArrayList<>();
         header.add("Bin");
-        for (ChannelYields.SampleYields s : ch.samples()) header.add(s.name());
+        for (ChannelYieldBands.SampleBands s : ch.samples()) header.add(s.name());
         header.add("Total");
         if (ch.observed() != null) header.add("Observed");
         Table.Builder t = Table.builder((postfit ? "Post-fit" : "Pre-fit") + " yields, " + ch.name(), header.toArray(new String[0]));
-        ChannelYields.Band total = postfit ? ch.totalPostfit() : ch.totalPrefit();
+        ChannelYieldBands.BinBand total = postfit ? ch.totalPostfit() : ch.totalPrefit();
         for (int b = 0; b < ch.bins(); b++) {
             List<String> row = new ArrayList<>();
             row.add(ch.edges() == null ? Integer.toString(b)
                     : Table.number(ch.edges()[b], 4) + "–" + Table.number(ch.edges()[b + 1], 4));
-            for (ChannelYields.SampleYields s : ch.samples()) {
-                ChannelYields.Band band = postfit ? s.postfit() : s.prefit();
+            for (ChannelYieldBands.SampleBands s : ch.samples()) {
+                ChannelYieldBands.BinBand band = postfit ? s.postfit() : s.prefit();
                 row.add(Table.measurement(band.yields()[b], band.errors()[b]));
             }
             row.add(Table.measurement(total.yields()[b], total.errors()[b]));
@@ -334,7 +334,7 @@ public final class ReportWriter {
 
     private void discoverySection() throws IOException {
         open("discovery", "Discovery significance");
-        Results.Discovery d = in.discovery();
+        Results.DiscoveryValues d = in.discovery();
         if (d == null) {
             notRun();
             return;
@@ -347,7 +347,7 @@ public final class ReportWriter {
         close();
     }
 
-    private static void significanceRow(Table.Builder t, String label, Results.Significance s) {
+    private static void significanceRow(Table.Builder t, String label, Results.Q0Values s) {
         if (s == null) {
             t.row(label, Table.MISSING, Table.MISSING, Table.MISSING);
         } else {
@@ -386,7 +386,7 @@ public final class ReportWriter {
 
     private void gofSection() throws IOException {
         open("gof", "Goodness of fit");
-        Results.GoodnessOfFit g = in.gof();
+        Results.GofValues g = in.gof();
         if (g == null) {
             notRun();
             return;
@@ -400,7 +400,7 @@ public final class ReportWriter {
 
     private void injectionSection() throws IOException {
         open("injection", "Signal injection and closure");
-        List<Results.Injection> inj = in.injection();
+        List<Results.InjectionValues> inj = in.injection();
         List<Results.Closure> closures = in.closures();
         if (inj.isEmpty() && closures.isEmpty()) {
             notRun();
@@ -429,7 +429,7 @@ public final class ReportWriter {
             Table.Builder t = Table.builder(null, "Injected", "Toys", "Converged", "Mean fitted", "Pull mean", "Pull width",
                     "68% coverage");
             List<Linearity.Point> points = new ArrayList<>();
-            for (Results.Injection r : inj) {
+            for (Results.InjectionValues r : inj) {
                 t.row(Table.number(r.injected(), 4), Integer.toString(r.toys()), Integer.toString(r.converged()),
                         Table.measurement(r.mean(), r.meanError()), fixed(r.pullMean(), 3), fixed(r.pullWidth(), 3),
                         fixed(r.coverage68(), 3));

@@ -13,16 +13,16 @@ public final class Results {
     }
 
     /** One discovery test: q0, its significance Z and p-value. */
-    public record Significance(double q0, double z, double p) {
+    public record Q0Values(double q0, double z, double p) {
     }
 
     /**
-     * Discovery test of POI = 0 (cli-contract.md, {@code plumb discovery}).
+     * DiscoveryValues test of POI = 0 (cli-contract.md, {@code plumb discovery}).
      *
      * @param observed null for a blinded model
      * @param expected on the Asimov data set at POI = 1
      */
-    public record Discovery(Significance observed, Significance expected) {
+    public record DiscoveryValues(Q0Values observed, Q0Values expected) {
     }
 
     /**
@@ -42,11 +42,11 @@ public final class Results {
     }
 
     /** Saturated-model goodness of fit (cli-contract.md, {@code plumb gof}); p NaN when ndof ≤ 0. */
-    public record GoodnessOfFit(double statistic, int ndof, double p) {
+    public record GofValues(double statistic, int ndof, double p) {
     }
 
     /** One signal-injection study (cli-contract.md, {@code plumb inject}). */
-    public record Injection(double injected, int toys, int converged, double mean, double meanError,
+    public record InjectionValues(double injected, int toys, int converged, double mean, double meanError,
                             double pullMean, double pullWidth, double coverage68) {
     }
 
@@ -64,8 +64,8 @@ public final class Results {
      * Uncertainty of the parameter of interest split by groups of parameters (each group's share
      * in quadrature), with the total and the statistical part.
      */
-    public record Breakdown(double total, double statOnly, List<Group> groups) {
-        public Breakdown {
+    public record ErrorBreakdown(double total, double statOnly, List<Group> groups) {
+        public ErrorBreakdown {
             groups = List.copyOf(groups);
         }
 

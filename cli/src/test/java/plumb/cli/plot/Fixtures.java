@@ -57,30 +57,30 @@ public final class Fixtures {
                         new StackedYields.Layer("resonance", signal, true)), error, blinded ? null : observed);
     }
 
-    public static Pulls pulls() {
-        List<Pulls.Entry> e = new ArrayList<>();
+    public static PullMarks pulls() {
+        List<PullMarks.Mark> e = new ArrayList<>();
         String[] names = {"photon_energy_scale", "photon_resolution", "lumi", "trigger_eff", "isolation_eff",
                 "continuum_shape", "fake_rate", "pileup_model", "vertex_choice", "beam_spread"};
         double[] pulls = {0.42, -0.31, 0.05, 1.3, -0.8, -2.2, 0.2, 0.0, -0.15, 0.6};
         double[] cons = {0.71, 0.92, 0.98, 0.85, 0.99, 0.55, 1.0, 0.97, 0.93, Double.NaN};
-        for (int i = 0; i < names.length; i++) e.add(new Pulls.Entry(names[i], pulls[i], cons[i]));
-        return new Pulls(null, e);
+        for (int i = 0; i < names.length; i++) e.add(new PullMarks.Mark(names[i], pulls[i], cons[i]));
+        return new PullMarks(null, e);
     }
 
-    public static Impacts impacts() {
-        List<Impacts.Entry> e = new ArrayList<>();
-        Pulls p = pulls();
+    public static ImpactBars impacts() {
+        List<ImpactBars.Bar> e = new ArrayList<>();
+        PullMarks p = pulls();
         double[] scale = {0.09, 0.06, 0.035, 0.02, 0.025, 0.11, 0.015, 0.004, 0.01, 0.008};
         for (int i = 0; i < p.entries().size(); i++) {
-            Pulls.Entry pe = p.entries().get(i);
+            PullMarks.Mark pe = p.entries().get(i);
             double s = scale[i];
             double c = Double.isNaN(pe.constraint()) ? 1 : pe.constraint();
             // Parameter 3 moves the POI the same way up and down (a non-linear case).
             double down = i == 3 ? 0.4 * s : -0.9 * s;
-            e.add(new Impacts.Entry(pe.name(), pe.pull(), pe.constraint(), s, down, s * c, down * c));
+            e.add(new ImpactBars.Bar(pe.name(), pe.pull(), pe.constraint(), s, down, s * c, down * c));
         }
-        e.add(new Impacts.Entry("bkg_norm_free", Double.NaN, Double.NaN, Double.NaN, Double.NaN, 0.05, -0.045));
-        return new Impacts("mu_res", 1.08, 0.27, e);
+        e.add(new ImpactBars.Bar("bkg_norm_free", Double.NaN, Double.NaN, Double.NaN, Double.NaN, 0.05, -0.045));
+        return new ImpactBars("mu_res", 1.08, 0.27, e);
     }
 
     public static CorrelationMatrix correlation(int n) {

@@ -8,7 +8,7 @@ import java.util.Map;
 import plumb.cli.plot.CorrelationMatrix;
 import plumb.cli.plot.Fixtures;
 import plumb.cli.plot.LimitBands;
-import plumb.cli.plot.Pulls;
+import plumb.cli.plot.PullMarks;
 import plumb.cli.plot.StackedYields;
 
 /** A complete report input in the demo scenario (fictional collider, two-photon resonance). */
@@ -31,7 +31,7 @@ final class ReportFixtures {
 
         List<FitSection.Parameter> params = new ArrayList<>();
         params.add(new FitSection.Parameter("mu_res", 1.08, 0.27, 1, Double.NaN, Double.NaN, Double.NaN));
-        for (Pulls.Entry e : Fixtures.pulls().entries()) {
+        for (PullMarks.Mark e : Fixtures.pulls().entries()) {
             double c = Double.isNaN(e.constraint()) ? 1 : e.constraint();
             params.add(new FitSection.Parameter(e.name(), e.pull(), c, 0, 1, e.pull(), c));
         }
@@ -40,11 +40,11 @@ final class ReportFixtures {
         for (FitSection.Parameter p : params) names.add(p.name());
         FitSection fit = new FitSection(true, 1234.56789, params, new CorrelationMatrix(null, names, corr.matrix()), 1.73, 4210);
 
-        List<ChannelYields> yields = List.of(channel(Fixtures.diphoton("post-fit"), true), channel(Fixtures.falling(true), false));
+        List<ChannelYieldBands> yields = List.of(channel(Fixtures.diphoton("post-fit"), true), channel(Fixtures.falling(true), false));
 
-        List<Results.Injection> injections = new ArrayList<>();
+        List<Results.InjectionValues> injections = new ArrayList<>();
         for (var p : Fixtures.linearity().points()) {
-            injections.add(new Results.Injection(p.injected(), 200, 198, p.fitted(), p.error(), 0.03, 1.02, 0.675));
+            injections.add(new Results.InjectionValues(p.injected(), 200, 198, p.fitted(), p.error(), 0.03, 1.02, 0.675));
         }
         List<LimitBands.Point> limitPoints = Fixtures.limits(true).points();
 
@@ -53,19 +53,19 @@ final class ReportFixtures {
                 .withImpacts(Fixtures.impacts(), 8)
                 .withYields(yields)
                 .withScan(Fixtures.scan())
-                .withDiscovery(new Results.Discovery(new Results.Significance(9.61, 3.1, 9.68e-4),
-                        new Results.Significance(12.25, 3.5, 2.33e-4)))
+                .withDiscovery(new Results.DiscoveryValues(new Results.Q0Values(9.61, 3.1, 9.68e-4),
+                        new Results.Q0Values(12.25, 3.5, 2.33e-4)))
                 .withLimits(new Results.Limits("mu_res", "asymptotic", 0.95, "mass [GeV]", limitPoints))
-                .withGoodnessOfFit(new Results.GoodnessOfFit(14.2, 15, 0.51))
+                .withGoodnessOfFit(new Results.GofValues(14.2, 15, 0.51))
                 .withInjection(injections)
                 .withAttachments(List.of(new Results.Attachment("json/fit.json", "fit result (JSON)",
                         "{\"converged\": true}".getBytes(StandardCharsets.UTF_8))));
     }
 
     /** Report-side yields from a figure fixture: pre-fit = 0.9 × post-fit, errors 5% / 3%. */
-    static ChannelYields channel(StackedYields s, boolean withPostfit) {
+    static ChannelYieldBands channel(StackedYields s, boolean withPostfit) {
         int n = s.bins();
-        List<ChannelYields.SampleYields> samples = new ArrayList<>();
+        List<ChannelYieldBands.SampleBands> samples = new ArrayList<>();
         double[] pre = new double[n];
         double[] post = new double[n];
         for (StackedYields.Layer l : s.layers()) {
@@ -80,8 +80,8 @@ final class ReportFixtures {
                 pre[b] += yPre[b];
                 post[b] += y[b];
             }
-            samples.add(new ChannelYields.SampleYields(l.name(), l.signal(), new ChannelYields.Band(yPre, ePre),
-                    withPostfit ? new ChannelYields.Band(y, ePost) : null));
+            samples.add(new ChannelYieldBands.SampleBands(l.name(), l.signal(), new ChannelYieldBands.BinBand(yPre, ePre),
+                    withPostfit ? new ChannelYieldBands.BinBand(y, ePost) : null));
         }
         double[] preErr = new double[n];
         double[] postErr = new double[n];
@@ -89,7 +89,7 @@ final class ReportFixtures {
             preErr[b] = 0.05 * pre[b];
             postErr[b] = 0.03 * post[b];
         }
-        return new ChannelYields(s.channel(), s.observable(), s.edges(), s.observed(), samples,
-                new ChannelYields.Band(pre, preErr), withPostfit ? new ChannelYields.Band(post, postErr) : null);
+        return new ChannelYieldBands(s.channel(), s.observable(), s.edges(), s.observed(), samples,
+                new ChannelYieldBands.BinBand(pre, preErr), withPostfit ? new ChannelYieldBands.BinBand(post, postErr) : null);
     }
 }

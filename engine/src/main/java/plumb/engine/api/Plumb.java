@@ -100,16 +100,16 @@ public final class Plumb {
         if (!best.converged()) throw new InferenceException("the best fit did not converge (" + best.status() + "); no yields");
         double[] cov = Covariances.full(fitter.likelihood(), best);
         if (cov == null) throw new InferenceException("the post-fit covariance is not positive definite; no yields");
-        List<YieldsOutcome.Channel> channels = new ArrayList<>();
+        List<YieldsOutcome.ChannelSums> channels = new ArrayList<>();
         for (Yields.ChannelYields c : Yields.compute(p, best, cov)) {
-            List<YieldsOutcome.Sample> samples = new ArrayList<>();
-            for (Yields.SampleYields s : c.samples()) samples.add(new YieldsOutcome.Sample(s.name(), sum(s.prefit()), sum(s.postfit())));
+            List<YieldsOutcome.SampleSums> samples = new ArrayList<>();
+            for (Yields.SampleYields s : c.samples()) samples.add(new YieldsOutcome.SampleSums(s.name(), sum(s.prefit()), sum(s.postfit())));
             double observed = Double.NaN;
             if (c.observed() != null) {
                 observed = 0;
                 for (double n : c.observed()) observed += n;
             }
-            channels.add(new YieldsOutcome.Channel(c.name(), observed, samples, sum(c.totalPrefit()), sum(c.totalPostfit())));
+            channels.add(new YieldsOutcome.ChannelSums(c.name(), observed, samples, sum(c.totalPrefit()), sum(c.totalPostfit())));
         }
         return new YieldsOutcome(channels);
     }
@@ -133,9 +133,9 @@ public final class Plumb {
         FitResult best = convergedFit(p, "scan");
         ProfileScan scan = new ProfileScan(p, best);
         double[] range = ProfileScan.defaultRange(m, best, k);
-        List<ScanOutcome.Point> pts = new ArrayList<>();
+        List<ScanOutcome.ProfilePoint> pts = new ArrayList<>();
         for (ProfileScan.Point x : ProfileScan.rebased(scan.points(k, range[0], range[1], points, threads(), null))) {
-            pts.add(new ScanOutcome.Point(x.value(), 2 * x.deltaNll(), x.status().name()));
+            pts.add(new ScanOutcome.ProfilePoint(x.value(), 2 * x.deltaNll(), x.status().name()));
         }
         List<ProfileScan.Interval> iv = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads());
         return new ScanOutcome(parameter, best.values()[k], best.errors()[k], pts, iv.get(0).low(), iv.get(0).high(),

@@ -14,7 +14,7 @@ import java.util.List;
  * @param low95     lower end of the 95 % interval (2ΔNLL = 3.84)
  * @param high95    upper end of the 95 % interval
  */
-public record ScanOutcome(String parameter, double best, double error, List<Point> points, double low68,
+public record ScanOutcome(String parameter, double best, double error, List<ProfilePoint> points, double low68,
                           double high68, double low95, double high95) {
 
     public ScanOutcome {
@@ -24,5 +24,5 @@ public record ScanOutcome(String parameter, double best, double error, List<Poin
     /**
      * One point: twice the profiled −ln L above the lowest found (NaN when its refit failed).
      */
-    public record Point(double value, double twoDeltaNll, String status) { }
+    public record ProfilePoint(double value, double twoDeltaNll, String status) { }
 }

@@ -30,7 +30,7 @@ public final class LibraryExample {
         }
 
         YieldsOutcome yields = Plumb.yields(problem);
-        YieldsOutcome.Channel peak = yields.channel("peak");
+        YieldsOutcome.ChannelSums peak = yields.channel("peak");
         out.printf(Locale.ROOT, "peak: observed %.0f, post-fit %.2f +- %.2f%n", peak.observed(),
                 peak.totalPostfit().value(), peak.totalPostfit().error());
 

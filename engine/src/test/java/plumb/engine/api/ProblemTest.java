@@ -85,6 +85,6 @@ class ProblemTest {
         // one symmetric error from the best fit; 15 % covers the asymmetry of a Poisson profile.
         assertEquals(fit.error("mu"), scan.high68() - scan.best(), 0.15 * fit.error("mu"));
         assertEquals(fit.error("mu"), scan.best() - scan.low68(), 0.15 * fit.error("mu"));
-        assertEquals(0, scan.points().stream().mapToDouble(ScanOutcome.Point::twoDeltaNll).min().orElseThrow(), 0.5);
+        assertEquals(0, scan.points().stream().mapToDouble(ScanOutcome.ProfilePoint::twoDeltaNll).min().orElseThrow(), 0.5);
     }
 }

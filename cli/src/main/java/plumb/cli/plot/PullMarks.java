@@ -9,20 +9,20 @@ import java.util.List;
  * @param title   figure title, or null for a default
  * @param entries one per parameter; free parameters have no pull and are left out by the caller
  */
-public record Pulls(String title, List<Entry> entries) {
+public record PullMarks(String title, List<Mark> entries) {
 
     /**
      * @param name       parameter name
      * @param pull       (value − prefitValue) / prefitWidth
      * @param constraint post-fit error / prefitWidth, the half-length of the error bar; NaN: none
      */
-    public record Entry(String name, double pull, double constraint) {
-        public Entry {
+    public record Mark(String name, double pull, double constraint) {
+        public Mark {
             if (name == null) throw new IllegalArgumentException("pull entry without a name");
         }
     }
 
-    public Pulls {
+    public PullMarks {
         if (entries == null || entries.isEmpty()) throw new IllegalArgumentException("no parameters to show pulls of");
         entries = List.copyOf(entries);
     }

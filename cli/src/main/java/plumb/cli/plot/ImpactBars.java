@@ -13,7 +13,7 @@ import java.util.List;
  * @param poiError its uncertainty (NaN: not shown)
  * @param entries  one per nuisance parameter, any order
  */
-public record Impacts(String poi, double poiValue, double poiError, List<Entry> entries) {
+public record ImpactBars(String poi, double poiValue, double poiError, List<Bar> entries) {
 
     /**
      * POI shifts (refit value minus best fit) for one parameter. NaN marks a shift not computed.
@@ -26,9 +26,9 @@ public record Impacts(String poi, double poiValue, double poiError, List<Entry> 
      * @param postfitUp   shift at value + post-fit error
      * @param postfitDown shift at value − post-fit error
      */
-    public record Entry(String parameter, double pull, double constraint, double prefitUp, double prefitDown,
+    public record Bar(String parameter, double pull, double constraint, double prefitUp, double prefitDown,
                         double postfitUp, double postfitDown) {
-        public Entry {
+        public Bar {
             if (parameter == null) throw new IllegalArgumentException("impact entry without a parameter name");
         }
 
@@ -42,15 +42,15 @@ public record Impacts(String poi, double poiValue, double poiError, List<Entry> 
         }
     }
 
-    public Impacts {
+    public ImpactBars {
         if (poi == null) throw new IllegalArgumentException("impacts need the name of the parameter of interest");
         entries = List.copyOf(entries);
     }
 
-    /** The {@code n} largest entries by {@link Entry#size()}, largest first (ties keep input order). */
-    public List<Entry> top(int n) {
-        List<Entry> sorted = new ArrayList<>(entries);
-        sorted.sort(Comparator.comparingDouble(Entry::size).reversed());
+    /** The {@code n} largest entries by {@link Bar#size()}, largest first (ties keep input order). */
+    public List<Bar> top(int n) {
+        List<Bar> sorted = new ArrayList<>(entries);
+        sorted.sort(Comparator.comparingDouble(Bar::size).reversed());
         return sorted.subList(0, Math.min(n, sorted.size()));
     }
 }

@@ -15,12 +15,12 @@ import plumb.cli.plot.StackedYields;
  * @param totalPrefit  total expectation before the fit
  * @param totalPostfit total expectation after the fit, or null when no fit was made
  */
-public record ChannelYields(String name, String observable, double[] edges, double[] observed,
-                            List<SampleYields> samples, Band totalPrefit, Band totalPostfit) {
+public record ChannelYieldBands(String name, String observable, double[] edges, double[] observed,
+                            List<SampleBands> samples, BinBand totalPrefit, BinBand totalPostfit) {
 
     /** Per-bin yields with their uncertainties. */
-    public record Band(double[] yields, double[] errors) {
-        public Band {
+    public record BinBand(double[] yields, double[] errors) {
+        public BinBand {
             if (yields.length != errors.length) throw new IllegalArgumentException(yields.length + " yields but " + errors.length + " errors");
             yields = yields.clone();
             errors = errors.clone();
@@ -33,10 +33,10 @@ public record ChannelYields(String name, String observable, double[] edges, doub
      * @param signal  true for a sample scaled by the parameter of interest
      * @param postfit null when no fit was made
      */
-    public record SampleYields(String name, boolean signal, Band prefit, Band postfit) {
+    public record SampleBands(String name, boolean signal, BinBand prefit, BinBand postfit) {
     }
 
-    public ChannelYields {
+    public ChannelYieldBands {
         samples = List.copyOf(samples);
         if (samples.isEmpty()) throw new IllegalArgumentException("channel " + name + " has no samples");
     }
@@ -49,8 +49,8 @@ public record ChannelYields(String name, String observable, double[] edges, doub
     /** Figure input for the pre-fit ({@code postfit} false) or post-fit stack. */
     public StackedYields stacked(boolean postfit) {
         List<StackedYields.Layer> layers = new ArrayList<>();
-        for (SampleYields s : samples) layers.add(new StackedYields.Layer(s.name(), (postfit ? s.postfit() : s.prefit()).yields(), s.signal()));
-        Band total = postfit ? totalPostfit : totalPrefit;
+        for (SampleBands s : samples) layers.add(new StackedYields.Layer(s.name(), (postfit ? s.postfit() : s.prefit()).yields(), s.signal()));
+        BinBand total = postfit ? totalPostfit : totalPrefit;
         return new StackedYields(name, postfit ? "post-fit" : "pre-fit", observable, edges, layers, total.errors(), observed);
     }
 

@@ -40,20 +40,20 @@ import java.util.Map;
  * @param count      toys per injected value
  * @param injections one entry per injected value, in the order given
  */
-record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisances, long first, int count,
-                   List<Injection> injections) {
+record InjectionToyFits(ObjectNode run, Map<String, Object> labels, String[] nuisances, long first, int count,
+                   List<ValueFits> injections) {
 
     /** Value of the "format" key of part files. */
     static final String PART_FORMAT = "plumb-toy-batch/1";
 
     /** The toys of one injected value, in index order. */
-    record Injection(double injected, ToyFit[] toys) {
+    record ValueFits(double injected, ToyFit[] toys) {
     }
 
     /** Summaries of every injected value, in order. */
     List<InjectionSummary> summaries() {
         List<InjectionSummary> out = new ArrayList<>();
-        for (Injection j : injections) out.add(InjectionSummary.of(j.injected(), j.toys(), nuisances));
+        for (ValueFits j : injections) out.add(InjectionSummary.of(j.injected(), j.toys(), nuisances));
         return out;
     }
 
@@ -174,7 +174,7 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
             g.writeNumberField("first", first);
             g.writeNumberField("count", count);
             g.writeArrayFieldStart("injections");
-            for (Injection j : injections) {
+            for (ValueFits j : injections) {
                 g.writeStartObject();
                 g.writeNumberField("injected", j.injected());
                 g.writeArrayFieldStart("toys");
@@ -208,7 +208,7 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
     }
 
     /** Reads a part file; anything wrong is an {@link InputException} naming the file and the JSON path. */
-    static ToyCampaign readPart(Path file) {
+    static InjectionToyFits readPart(Path file) {
         JsonNode root;
         try {
             root = Json.mapper().readTree(Files.newInputStream(file));
@@ -238,7 +238,7 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
         JsonNode injected = r.array(run, "injected");
         JsonNode list = r.array(root, "injections");
         if (list.size() != injected.size()) throw r.bad("injections", list.size() + " entries, expected " + injected.size());
-        List<Injection> injections = new ArrayList<>();
+        List<ValueFits> injections = new ArrayList<>();
         for (int j = 0; j < list.size(); j++) {
             String path = "injections[" + j + "]";
             JsonNode toys = r.array(list.get(j), path, "toys");
@@ -261,9 +261,9 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
                 for (int k = 0; k < p.length; k++) p[k] = r.number(pulls.get(k), tp + ".pulls[" + k + "]");
                 fits[i] = new ToyFit(index, status, r.number(t.get("poi"), tp + ".poi"), r.number(t.get("poiError"), tp + ".poiError"), p);
             }
-            injections.add(new Injection(list.get(j).path("injected").asDouble(), fits));
+            injections.add(new ValueFits(list.get(j).path("injected").asDouble(), fits));
         }
-        return new ToyCampaign((ObjectNode) run, labels, nuisances, first, (int) count, injections);
+        return new InjectionToyFits((ObjectNode) run, labels, nuisances, first, (int) count, injections);
     }
 
     /**
@@ -271,13 +271,13 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
      * line naming the file) a part whose run differs from the first's, parts that overlap, and
      * gaps between them.
      */
-    static ToyCampaign merge(List<Path> files) {
-        List<ToyCampaign> parts = new ArrayList<>();
+    static InjectionToyFits merge(List<Path> files) {
+        List<InjectionToyFits> parts = new ArrayList<>();
         List<Path> order = new ArrayList<>();
         for (Path f : files) {
-            ToyCampaign c = readPart(f);
+            InjectionToyFits c = readPart(f);
             if (!parts.isEmpty()) {
-                ToyCampaign ref = parts.get(0);
+                InjectionToyFits ref = parts.get(0);
                 String diff = firstDifference(ref.run(), c.run());
                 if (diff != null) {
                     throw new InputException(f + ": a different run than " + order.get(0) + " (run." + diff + " differs)");
@@ -292,7 +292,7 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
         long next = parts.get(idx[0]).first();
         long total = 0;
         for (int k = 0; k < idx.length; k++) {
-            ToyCampaign c = parts.get(idx[k]);
+            InjectionToyFits c = parts.get(idx[k]);
             Path f = order.get(idx[k]);
             if (c.first() < next) {
                 throw new InputException(String.format(java.util.Locale.ROOT,
@@ -307,8 +307,8 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
             total += c.count();
         }
         if (total > Integer.MAX_VALUE) throw new InputException(files.get(0) + ": more than " + Integer.MAX_VALUE + " toys in total");
-        ToyCampaign head = parts.get(idx[0]);
-        List<Injection> merged = new ArrayList<>();
+        InjectionToyFits head = parts.get(idx[0]);
+        List<ValueFits> merged = new ArrayList<>();
         for (int j = 0; j < head.injections().size(); j++) {
             ToyFit[] all = new ToyFit[(int) total];
             int at = 0;
@@ -317,9 +317,9 @@ record ToyCampaign(ObjectNode run, Map<String, Object> labels, String[] nuisance
                 System.arraycopy(t, 0, all, at, t.length);
                 at += t.length;
             }
-            merged.add(new Injection(head.injections().get(j).injected(), all));
+            merged.add(new ValueFits(head.injections().get(j).injected(), all));
         }
-        return new ToyCampaign(head.run(), head.labels(), head.nuisances(), head.first(), (int) total, merged);
+        return new InjectionToyFits(head.run(), head.labels(), head.nuisances(), head.first(), (int) total, merged);
     }
 
     /** The first key of {@code a} whose value differs in {@code b} (or is missing), null when equal. */
