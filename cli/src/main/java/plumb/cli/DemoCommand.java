@@ -43,7 +43,7 @@ final class DemoCommand implements Callable<Integer> {
             byte[] bytes = in.readAllBytes();
             AtomicFiles.write(model, o -> o.write(bytes));
         } catch (IOException e) {
-            throw new InputException("--out " + out + ": cannot write " + model + ": " + e.getMessage());
+            throw new InputException("--out " + out + ": cannot write " + model + ": " + Outputs.cause(e));
         }
         ReportJob job = new ReportJob(List.of(model), fit, toys, ReportCommand.DEFAULT_IMPACTS_TOP, null);
         return ReportCommand.run(job, out, spec.commandLine().getOut(), spec.commandLine().getErr(), "demo");

@@ -4,9 +4,14 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
+import plumb.cli.io.AtomicFiles;
+import plumb.engine.model.ModelWriter;
 import plumb.models.SyntheticModels;
 
+import java.io.ByteArrayOutputStream;
 import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.util.zip.GZIPOutputStream;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 
@@ -38,15 +43,31 @@ final class GenerateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        byte[] text;
         try {
-            SyntheticModels.generateFile(channels, bins, samples, nuisances, seed, out);
+            text = ModelWriter.toJson(SyntheticModels.generate(channels, bins, samples, nuisances, seed))
+                    .getBytes(StandardCharsets.UTF_8);
         } catch (IllegalArgumentException e) {
             throw new InputException(e.getMessage());
+        }
+        // through AtomicFiles: a device or pipe named by --out is written into, never replaced
+        boolean gzip = out.getFileName() != null && out.getFileName().toString().endsWith(".json.gz");
+        try {
+            byte[] bytes = gzip ? gzip(text) : text;
+            AtomicFiles.write(out, o -> o.write(bytes));
         } catch (IOException e) {
-            throw new InputException("--out " + out + ": " + e.getMessage());
+            throw Outputs.cannotWrite(out, e);
         }
         spec.commandLine().getOut().printf("wrote %s (%d channels x %d bins, %d samples, %d nuisance parameters, seed %d)%n",
                 out, channels, bins, samples, nuisances, seed);
         return ExitCodes.OK;
+    }
+
+    private static byte[] gzip(byte[] text) throws IOException {
+        ByteArrayOutputStream buffer = new ByteArrayOutputStream(text.length / 4 + 64);
+        try (GZIPOutputStream z = new GZIPOutputStream(buffer)) {
+            z.write(text);
+        }
+        return buffer.toByteArray();
     }
 }

@@ -349,11 +349,11 @@ final class InjectCommand implements Callable<Integer> {
     }
 
     private static String sha256(ModelInput.Loaded loaded) {
-        try (InputStream in = new DigestInputStream(Files.newInputStream(loaded.file()), MessageDigest.getInstance("SHA-256"))) {
+        try (InputStream in = new DigestInputStream(Files.newInputStream(loaded.content()), MessageDigest.getInstance("SHA-256"))) {
             in.transferTo(java.io.OutputStream.nullOutputStream());
             return HexFormat.of().formatHex(((DigestInputStream) in).getMessageDigest().digest());
         } catch (IOException e) {
-            throw new InputException(loaded.file() + ": cannot read: " + e.getMessage());
+            throw new InputException(loaded.file() + ": cannot read: " + Outputs.cause(e));
         } catch (NoSuchAlgorithmException e) {
             throw new IllegalStateException(e); // every Java platform has SHA-256
         }

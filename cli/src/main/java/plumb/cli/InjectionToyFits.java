@@ -156,7 +156,7 @@ record InjectionToyFits(ObjectNode run, Map<String, Object> labels, String[] nui
                 AtomicFiles.write(Path.of(target), this::writePart);
             }
         } catch (IOException | RuntimeException e) {
-            throw new InputException("cannot write " + target + ": " + e.getMessage());
+            throw Outputs.cannotWrite(target, e);
         }
     }
 

@@ -3,6 +3,7 @@ package plumb.cli;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
+import plumb.cli.table.Escape;
 
 import java.io.PrintWriter;
 
@@ -40,7 +41,26 @@ public final class Main implements Runnable {
         CommandLine cl = commandLine();
         cl.setOut(out);
         cl.setErr(err);
+        String unknown = unknownCommand(cl, args);
+        if (unknown != null) {
+            err.println("plumb: unknown command '" + Escape.controls(unknown) + "'; the commands are: "
+                    + String.join(", ", cl.getSubcommands().keySet()) + " ('plumb --help' describes them)");
+            err.flush();
+            return ExitCodes.BAD_INPUT;
+        }
         return cl.execute(args);
+    }
+
+    /**
+     * The first argument when it is neither an option nor a command. Checked before picocli
+     * parses, which would otherwise answer {@code plumb nosuch --help} with the top-level help.
+     */
+    private static String unknownCommand(CommandLine cl, String[] args) {
+        for (String a : args) {
+            if (a.startsWith("-")) continue;   // --debug before the command, or -h/--help/-V
+            return cl.getSubcommands().containsKey(a) ? null : a;
+        }
+        return null;
     }
 
     /** "plumb: " for the top command, "plumb fit: " for a subcommand. */
@@ -54,9 +74,17 @@ public final class Main implements Runnable {
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, args) -> {
             CommandLine c = ex.getCommandLine();
-            c.getErr().println(prefix(c) + ex.getMessage());
+            c.getErr().println(prefix(c) + Escape.controls(String.valueOf(ex.getMessage())));
             c.getErr().flush();
             return ExitCodes.BAD_INPUT;
+        });
+        // checks every command shares run after parsing and before the command itself
+        CommandLine.IExecutionStrategy run = new CommandLine.RunLast();
+        cl.setExecutionStrategy(parseResult -> {
+            CommandLine.ParseResult leaf = parseResult;
+            while (leaf.hasSubcommand()) leaf = leaf.subcommand();
+            if (!leaf.isUsageHelpRequested() && !leaf.isVersionHelpRequested()) OutputChecks.check(leaf);
+            return run.execute(parseResult);
         });
         cl.setExecutionExceptionHandler((ex, c, parseResult) -> {
             boolean debug = parseResult.hasMatchedOption("--debug")
@@ -65,9 +93,10 @@ public final class Main implements Runnable {
                     ? ExitCodes.BAD_INPUT : ExitCodes.FAILED;
             String what = ex.getMessage() == null ? ex.getClass().getSimpleName() : ex.getMessage();
             if (code == ExitCodes.FAILED && !(ex instanceof ComputationException)) {
-                what = "internal error: " + what + " (run with --debug for details)";
+                what = "internal error: " + what + (debug ? "" : " (run with --debug for details)");
             }
-            c.getErr().println(prefix(c) + what);
+            // one line whatever a name in the message holds: control characters made visible
+            c.getErr().println(prefix(c) + Escape.controls(what));
             if (debug) ex.printStackTrace(c.getErr());
             c.getErr().flush();
             return code;

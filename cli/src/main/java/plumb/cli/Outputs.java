@@ -1,12 +1,17 @@
 package plumb.cli;
 
 import plumb.cli.io.AtomicFiles;
+import plumb.cli.io.IoErrors;
 
 import java.io.IOException;
 import java.io.PrintWriter;
+import java.io.UncheckedIOException;
 import java.nio.file.Path;
 
-/** Result files of the commands: written whole or not at all ({@link AtomicFiles}), or to standard output. */
+/**
+ * Result files of the commands: written whole or not at all ({@link AtomicFiles}), or to standard
+ * output when the name is "-". Devices and pipes are written into, never replaced.
+ */
 public final class Outputs {
 
     private Outputs() {
@@ -22,7 +27,19 @@ public final class Outputs {
         try {
             AtomicFiles.writeString(Path.of(target), text);
         } catch (IOException | RuntimeException e) {
-            throw new InputException("cannot write " + target + ": " + e.getMessage());
+            throw cannotWrite(target, e);
         }
+    }
+
+    /** "cannot write FILE: cause", exit status 2; the cause in a user's words (permission denied, …). */
+    public static InputException cannotWrite(Object target, Exception e) {
+        return new InputException("cannot write " + target + ": " + cause(e));
+    }
+
+    /** The reason of an I/O failure without the path. */
+    public static String cause(Exception e) {
+        if (e instanceof UncheckedIOException u) return IoErrors.describe(u.getCause());
+        if (e instanceof IOException io) return IoErrors.describe(io);
+        return e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
     }
 }

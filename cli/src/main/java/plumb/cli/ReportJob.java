@@ -166,14 +166,14 @@ final class ReportJob {
 
         in = injection(in, main, hasPoi);
 
-        RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.file()),
+        RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.content()),
                 p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
                 fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
         try {
             return new Written(ReportWriter.write(in, dir), summary);
         } catch (IOException | RuntimeException e) {
-            throw new InputException("--out " + dir + ": cannot write the report: " + e.getMessage());
+            throw new InputException("--out " + dir + ": cannot write the report: " + Outputs.cause(e));
         }
     }
 
@@ -254,7 +254,7 @@ final class ReportJob {
         try {
             return RunSummary.sha256(file);
         } catch (IOException e) {
-            throw new InputException(file + ": cannot read: " + e.getMessage());
+            throw new InputException(file + ": cannot read: " + Outputs.cause(e));
         }
     }
 

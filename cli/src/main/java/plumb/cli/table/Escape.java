@@ -10,6 +10,33 @@ public final class Escape {
     private Escape() {
     }
 
+    /**
+     * One terminal line: control characters (C0, DEL, C1 and the line and paragraph separators)
+     * become visible escapes ({@code \n}, {@code \r}, {@code \t}, {@code \e}, else
+     * {@code \u001b} style), so a name from a file cannot move the cursor, ring the bell or start
+     * a new line. A backslash stays as it is.
+     */
+    public static String controls(String s) {
+        StringBuilder out = null;
+        for (int i = 0; i < s.length(); i++) {
+            char c = s.charAt(i);
+            boolean control = c < 0x20 || (c >= 0x7f && c <= 0x9f) || c == '\u2028' || c == '\u2029';
+            if (!control) {
+                if (out != null) out.append(c);
+                continue;
+            }
+            if (out == null) out = new StringBuilder(s.length() + 16).append(s, 0, i);
+            switch (c) {
+                case '\n' -> out.append("\\n");
+                case '\r' -> out.append("\\r");
+                case '\t' -> out.append("\\t");
+                case 0x1b -> out.append("\\e");
+                default -> out.append(String.format("\\u%04x", (int) c));
+            }
+        }
+        return out == null ? s : out.toString();
+    }
+
     /** HTML text and attribute values: {@code & < > " '} become character references. */
     public static String html(String s) {
         StringBuilder out = new StringBuilder(s.length() + 16);

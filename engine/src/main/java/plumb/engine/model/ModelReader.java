@@ -11,6 +11,7 @@ import com.fasterxml.jackson.core.StreamReadFeature;
 import com.fasterxml.jackson.core.exc.StreamConstraintsException;
 import java.io.BufferedInputStream;
 import java.io.EOFException;
+import java.io.FileInputStream;
 import java.io.FilterInputStream;
 import java.io.IOException;
 import java.io.InputStream;
@@ -96,6 +97,25 @@ public final class ModelReader {
     }
 
     /**
+     * Reads and validates a model from a stream (standard input, say), plain or gzip-compressed,
+     * capped at {@link #MAX_BYTES}.
+     *
+     * @param source names the stream in error messages
+     */
+    public static Model read(InputStream in, String source) {
+        try {
+            InputStream body = unzipped(new BufferedInputStream(in, 1 << 16), MAX_BYTES);
+            try (JsonParser p = JSON.createParser(body)) {
+                return readAndValidate(p, source);
+            }
+        } catch (TooLarge e) {
+            throw tooLarge(source, MAX_BYTES);
+        } catch (IOException e) {
+            throw new ModelException(source, "", "cannot read: %s", describe(e));
+        }
+    }
+
+    /**
      * Parses and validates a model given as JSON text.
      *
      * @param sourceName names the text in error messages (a file name, say); may be null
@@ -158,7 +178,12 @@ public final class ModelReader {
             int at = line.indexOf(advice);
             if (at > 0) line = line.substring(0, at);
         }
-        return line.replaceAll(", from `[^`]*`", "");
+        line = line.replaceAll(", from `[^`]*`", "");
+        // no parser internals: the start of an unclosed object as a line and column, no source
+        line = line.replaceAll("\\(start marker at \\[Source: [^;\\]]*; line: (\\d+), column: (\\d+)\\]\\)",
+                "(opened at line $1, column $2)");
+        line = line.replaceAll(" ?\\[Source: [^\\]]*\\]", "");
+        return line.replace("Unexpected end-of-input", "unexpected end of file");
     }
 
     /** An I/O failure in a modeller's words; the file itself is already named by the message. */
@@ -184,7 +209,16 @@ public final class ModelReader {
 
     /** The file's bytes, gunzipped when it starts with the gzip magic 1f 8b, capped at maxBytes. */
     private static InputStream open(Path file, long maxBytes) throws IOException {
-        InputStream in = new BufferedInputStream(Files.newInputStream(file), 1 << 16);
+        // a pipe (/dev/stdin, a FIFO) through FileInputStream: the channel stream of
+        // Files.newInputStream asks pipes for their position and fails with "Illegal seek"
+        boolean pipe = Files.exists(file) && !Files.isRegularFile(file) && !Files.isDirectory(file);
+        InputStream raw = pipe ? new FileInputStream(file.toFile()) : Files.newInputStream(file);
+        return unzipped(new BufferedInputStream(raw, 1 << 16), maxBytes);
+    }
+
+    /** {@code in} gunzipped when it starts with the gzip magic 1f 8b, capped at maxBytes; closed on failure. */
+    private static InputStream unzipped(BufferedInputStream bin, long maxBytes) throws IOException {
+        InputStream in = bin;
         try {
             in.mark(2);
             int b0 = in.read(), b1 = in.read();

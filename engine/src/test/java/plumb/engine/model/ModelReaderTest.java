@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
 import java.io.IOException;
 import java.io.OutputStream;
@@ -266,6 +267,57 @@ class ModelReaderTest {
         String json = ModelJsonFixtures.BASE.substring(0, ModelJsonFixtures.BASE.indexOf("\"parameters\""));
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, "m.json"));
         assertTrue(e.getMessage().contains(": not JSON: "), e.getMessage());
+    }
+
+    @Test
+    void truncatedTextAtAnyPointGivesLineAndColumnButNoParserInternals() {
+        String json = ModelJsonFixtures.BASE;
+        for (int cut = 1; cut < json.length(); cut += 7) {
+            String head = json.substring(0, cut);
+            ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(head, "m.json"));
+            String msg = e.getMessage();
+            if (!msg.contains("not JSON")) continue;   // a cut after a complete value may break a rule instead
+            assertTrue(msg.matches("m\\.json: line \\d+, column \\d+: not JSON: .*"), msg);
+            for (String internal : new String[] {"Source", "REDACTED", "StreamReadFeature", "`", "\n"}) {
+                assertFalse(msg.contains(internal), msg);
+            }
+        }
+        ModelException open = assertThrows(ModelException.class, () -> ModelReader.parse("{\n", "m.json"));
+        assertEquals("m.json: line 2, column 1: not JSON: unexpected end of file: expected close marker for Object "
+                + "(opened at line 1, column 1)", open.getMessage());
+    }
+
+    @Test
+    void readsANamedPipe() throws Exception {
+        // a pipe cannot seek: before, the channel stream of Files.newInputStream failed with "Illegal seek"
+        Path fifo = dir.resolve("model.fifo");
+        assumeTrue(new ProcessBuilder("mkfifo", fifo.toString()).start().waitFor() == 0, "mkfifo available");
+        Thread writer = new Thread(() -> {
+            try (OutputStream out = Files.newOutputStream(fifo)) {
+                out.write(ModelJsonFixtures.BASE.getBytes(StandardCharsets.UTF_8));
+            } catch (IOException e) {
+                throw new java.io.UncheckedIOException(e);
+            }
+        });
+        writer.start();
+        Model m = ModelReader.read(fifo);
+        writer.join(10_000);
+        assertEquals("diphoton-1500", m.name());
+    }
+
+    @Test
+    void readsAStreamPlainOrGzipped() throws IOException {
+        byte[] text = ModelJsonFixtures.BASE.getBytes(StandardCharsets.UTF_8);
+        assertEquals("diphoton-1500", ModelReader.read(new java.io.ByteArrayInputStream(text), "standard input").name());
+        java.io.ByteArrayOutputStream zipped = new java.io.ByteArrayOutputStream();
+        try (GZIPOutputStream z = new GZIPOutputStream(zipped)) {
+            z.write(text);
+        }
+        assertEquals("diphoton-1500",
+                ModelReader.read(new java.io.ByteArrayInputStream(zipped.toByteArray()), "standard input").name());
+        ModelException e = assertThrows(ModelException.class,
+                () -> ModelReader.read(new java.io.ByteArrayInputStream(new byte[] {'{'}), "standard input"));
+        assertTrue(e.getMessage().startsWith("standard input: line 1, column 2: not JSON"), e.getMessage());
     }
 
     @Test
