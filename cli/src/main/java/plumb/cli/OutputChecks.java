@@ -22,7 +22,7 @@ import java.util.Set;
 final class OutputChecks {
 
     /** Options that name a file or folder a command writes. */
-    static final Set<String> OUTPUTS = Set.of("--json", "--csv", "--out");
+    static final Set<String> OUTPUTS = Set.of("--json", "--csv", "--out", "--log");
 
     private OutputChecks() {
     }
