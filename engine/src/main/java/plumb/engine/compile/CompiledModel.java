@@ -53,6 +53,14 @@ public final class CompiledModel implements java.io.Serializable {
      * {@code exponential} norm term with κu·κd ≠ 1. The fitter treats each side as a smooth piece.
      */
     public final boolean[] kinked;
+    /**
+     * Parameters (length nParams) with a one-sided norm or shape term: up and down on the same side
+     * of nominal in some bin, under any interpolation. Such a term turns back inside the range
+     * (a turning point under smooth interpolation, a ridge at θ = 0 under linear or exponential),
+     * so −ln L can have a minimum on each side; the fitter looks on the other side
+     * ({@code OtherSideSearch}).
+     */
+    public final boolean[] oneSided;
     /** Global bin of each γ (length nGamma). */
     public final int[] gammaBin;
     /** γ index of each global bin, or −1 (length nBins). */
@@ -133,6 +141,7 @@ public final class CompiledModel implements java.io.Serializable {
         prefitWidth = b.prefitWidth;
         gammaBin = b.gammaBin;
         kinked = b.kinked;
+        oneSided = b.oneSided;
         binGamma = b.binGamma;
         nChannels = b.channelNames.length;
         channelNames = b.channelNames;
@@ -185,6 +194,12 @@ public final class CompiledModel implements java.io.Serializable {
     /** Whether any channel is blinded (has no observed counts). */
     public boolean anyBlinded() {
         for (double[] o : observed) if (o == null) return true;
+        return false;
+    }
+
+    /** Whether any parameter has a one-sided term ({@link #oneSided}): −ln L may have several minima. */
+    public boolean anyOneSided() {
+        for (boolean b : oneSided) if (b) return true;
         return false;
     }
 
@@ -265,7 +280,7 @@ public final class CompiledModel implements java.io.Serializable {
         String[] parameterNames;
         ParameterKind[] kind;
         double[] nominal, lower, upper, auxNominal, width, tau, prefitWidth;
-        boolean[] fixed, kinked;
+        boolean[] fixed, kinked, oneSided;
         int[] constraintType, gammaBin, binGamma;
         String[] channelNames, observables;
         double[][] edges, observed;

@@ -193,6 +193,7 @@ public final class ModelCompiler {
         DoubleList shapeS = new DoubleList();
         DoubleList shapeA = new DoubleList();
         double[] coeffs = new double[NormInterpolation.COEFFS];
+        TreeSet<Integer> oneSided = new TreeSet<>();
 
         for (int c = 0; c < nChannels; c++) {
             Channel ch = channels.get(c);
@@ -231,6 +232,7 @@ public final class ModelCompiler {
                     warnAbout(b.warnings, where, v, s);
                     if (v.norm() != null) {
                         if (keepNorm(v, pruneBelow)) {
+                            if (turnsBack(v.norm().up() - 1, v.norm().down() - 1, 1)) oneSided.add(p);
                             NormInterpolation.coefficients(normMode(v), v.norm().up(), v.norm().down(), coeffs, 0);
                             mulParam.add(p);
                             mulLocal.add(Arrays.binarySearch(local, p));
@@ -242,6 +244,7 @@ public final class ModelCompiler {
                     }
                     if (v.shape() != null) {
                         if (keepShape(v, s, pruneBelow)) {
+                            if (turningBins(v, s) > 0) oneSided.add(p);
                             shapeParam.add(p);
                             shapeLocal.add(Arrays.binarySearch(local, p));
                             shapeMode.add(v.shapeMode() == plumb.engine.model.Interpolation.LINEAR
@@ -273,6 +276,8 @@ public final class ModelCompiler {
         mulStart.add(mulParam.size());
         shapeStart.add(shapeParam.size());
 
+        b.oneSided = new boolean[b.nParams];
+        for (int p : oneSided) b.oneSided[p] = true;
         b.kinked = new boolean[b.nParams];
         for (int t = 0; t < mulParam.size(); t++) {
             int mode = (int) mulCoeffs.get(t * NormInterpolation.COEFFS);
@@ -363,13 +368,37 @@ public final class ModelCompiler {
         return v.shape() != null && !(shapeEffect(v, s) < pruneBelow);
     }
 
+    /**
+     * Smallest turn back, relative to the nominal yield, that counts as one-sided for the fitter: a
+     * term whose up and down effects lie on the same side of nominal turns back by about the
+     * smaller of the two, and a turn of less than 0.1 % of the yield (rounding of a variation meant
+     * to stay at nominal on one side) cannot outweigh the constraint and make a second minimum.
+     */
+    static final double TURN_BACK_MIN = 1e-3;
+
+    /** Whether effects up and down of a yield {@code nominal} lie on the same side and both matter. */
+    static boolean turnsBack(double up, double down, double nominal) {
+        return up * down > 0 && Math.min(Math.abs(up), Math.abs(down)) >= TURN_BACK_MIN * Math.abs(nominal);
+    }
+
+    /** Bins where the shape part of v turns back ({@link #turnsBack}). */
+    static int turningBins(Variation v, Sample s) {
+        double[] n = s.yields();
+        int count = 0;
+        for (int bin = 0; bin < n.length; bin++) {
+            if (turnsBack(v.shape().up()[bin] - n[bin], v.shape().down()[bin] - n[bin], n[bin])) count++;
+        }
+        return count;
+    }
+
     /** Warnings an analyst wants to see before fitting: one-sided and over-100 % variations. */
     private static void warnAbout(List<String> warnings, String where, Variation v, Sample s) {
         if (v.norm() != null) {
             double up = v.norm().up() - 1, down = v.norm().down() - 1;
             if (up * down > 0) {
-                warnings.add(String.format(Locale.ROOT, "%s: norm variation of %s is one-sided (up %.3g, down %.3g)",
-                        where, v.parameter(), v.norm().up(), v.norm().down()));
+                warnings.add(String.format(Locale.ROOT, "%s: norm variation of %s is one-sided (up %.3g, down %.3g)%s",
+                        where, v.parameter(), v.norm().up(), v.norm().down(),
+                        turnsBack(up, down, 1) ? severalMinima(v.parameter(), v.normMode()) : ""));
             }
             if (Math.abs(up) > 1 || Math.abs(down) > 1) {
                 warnings.add(String.format(Locale.ROOT, "%s: norm variation of %s exceeds 100%%", where, v.parameter()));
@@ -383,9 +412,11 @@ public final class ModelCompiler {
                 if (up != 0 || down != 0) moving++;
                 if (up * down > 0) sameSide++;
             }
-            if (moving > 0 && 2 * sameSide > moving) {
-                warnings.add(String.format(Locale.ROOT, "%s: shape variation of %s is one-sided in %d of %d bins",
-                        where, v.parameter(), sameSide, moving));
+            int turning = turningBins(v, s);
+            if (turning > 0 || (moving > 0 && 2 * sameSide > moving)) {
+                warnings.add(String.format(Locale.ROOT, "%s: shape variation of %s is one-sided in %d of %d bins%s",
+                        where, v.parameter(), sameSide, moving,
+                        turning > 0 ? severalMinima(v.parameter(), v.shapeMode()) : ""));
             }
             // Over 100 % in a bin that holds a real part of the sample (1 % of its total or more):
             // far tails of a narrow peak move by large factors without mattering.
@@ -402,6 +433,12 @@ public final class ModelCompiler {
                         where, v.parameter(), over, over == 1 ? "" : "s"));
             }
         }
+    }
+
+    /** The clause a one-sided warning ends with: why it matters for the fit. */
+    private static String severalMinima(String parameter, plumb.engine.model.Interpolation mode) {
+        return String.format(Locale.ROOT, "; with %s interpolation the yield turns back, so -ln L may have several"
+                + " minima in %s (the fit also looks on the other side)", mode.jsonName(), parameter);
     }
 
     /** Growable int array for the compiler (not used in hot paths). */

@@ -2,6 +2,8 @@ package plumb.engine.inference;
 
 import plumb.engine.minimise.MinimumStatus;
 
+import java.util.List;
+
 /**
  * One maximum-likelihood fit. Arrays are the result's own; treat them as read-only.
  *
@@ -15,13 +17,44 @@ import plumb.engine.minimise.MinimumStatus;
  * @param held parameters held during the fit (nAll)
  * @param evaluations likelihood evaluations made
  * @param seconds wall time of the minimisation and the errors
+ * @param otherMinima the other minima the fit met (higher than this one), lowest first; empty when
+ *     it met none or the model cannot have several ({@link OtherSideSearch})
+ * @param atKink parameters (nAll) whose value ends on the kink of a linear or exponential
+ *     interpolation at θ = 0: their error is the curvature of one side only
  */
 public record FitResult(MinimumStatus status, double nll, double[] values, double[] errors,
-                        double[] covariance, boolean[] held, int evaluations, int iterations, double seconds)
+                        double[] covariance, boolean[] held, int evaluations, int iterations, double seconds,
+                        List<OtherMinimum> otherMinima, boolean[] atKink)
         implements java.io.Serializable {
+
+    /** A fit that met no other minimum and has no parameter on a kink. */
+    public FitResult(MinimumStatus status, double nll, double[] values, double[] errors, double[] covariance,
+                     boolean[] held, int evaluations, int iterations, double seconds) {
+        this(status, nll, values, errors, covariance, held, evaluations, iterations, seconds, List.of(),
+                new boolean[values.length]);
+    }
+
+    /**
+     * A minimum other than the reported one.
+     *
+     * @param deltaNll its −ln L minus the reported fit's (&gt; 0)
+     * @param values every parameter (nAll) there
+     */
+    public record OtherMinimum(double deltaNll, double[] values) implements java.io.Serializable { }
 
     public boolean converged() {
         return status.isMinimum();
+    }
+
+    /** Whether the fit met another, higher minimum: the model has several. */
+    public boolean severalMinima() {
+        return !otherMinima.isEmpty();
+    }
+
+    /** Whether any parameter ends on a kink of its interpolation. */
+    public boolean anyAtKink() {
+        for (boolean b : atKink) if (b) return true;
+        return false;
     }
 
     /** Correlation of model parameters i and j, NaN when unavailable. */

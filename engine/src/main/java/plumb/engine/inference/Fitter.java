@@ -9,7 +9,9 @@ import plumb.engine.minimise.MinimumResult;
 import plumb.engine.minimise.MinimumStatus;
 import plumb.engine.minimise.ReferenceMinimiser;
 
+import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.List;
 
 /**
  * Fits one model to one data set, many times: a fit from the nominal values, or refits from a
@@ -33,6 +35,7 @@ public final class Fitter {
     private final boolean[] baseHeld;
     private final double[] baseStart;
     private boolean computeErrors = true;
+    private boolean searchOtherSides = true;
 
     /**
      * @param held   parameters (index &lt; nAll) to hold in every fit, with their values in {@code heldValues}
@@ -134,21 +137,100 @@ public final class Fitter {
      * values. Errors and covariance are computed unless the fitter was made with {@link #valuesOnly}.
      */
     public FitResult fit(double[] start, int[] hold, double[] holdValues) {
+        return fitFrom(new double[][] {start}, hold, holdValues);
+    }
+
+    /**
+     * Fits from each start with the listed parameters held and keeps the lowest minimum; then, on a
+     * model with one-sided terms, looks for a lower one on their other side ({@link OtherSideSearch}).
+     * Profiles pass several starts (a warm start and the best fit's values) so that a point never
+     * stays in a worse basin than a fit from scratch would find.
+     */
+    public FitResult fitFrom(double[][] starts, int[] hold, double[] holdValues) {
         long t0 = System.nanoTime();
-        double[] x = Arrays.copyOf(start, dim);
         boolean[] held = baseHeld.clone();
-        for (int k = 0; k < hold.length; k++) {
-            held[hold[k]] = true;
-            x[hold[k]] = holdValues[k];
+        for (int k : hold) held[k] = true;
+        MinimumResult best = null;
+        List<MinimumResult> met = new ArrayList<>();
+        int evaluations = 0, iterations = 0;
+        for (double[] start : starts) {
+            double[] x = Arrays.copyOf(start, dim);
+            for (int k = 0; k < hold.length; k++) x[hold[k]] = holdValues[k];
+            for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
+            MinimumResult r = local(x, held);
+            evaluations += r.evaluations();
+            iterations += r.iterations();
+            if (best == null || better(r, best)) {
+                if (best != null && best.converged()) met.add(best);
+                best = r;
+            } else if (r.converged()) {
+                met.add(r);
+            }
         }
-        for (int i = 0; i < dim; i++) if (baseHeld[i] && !contains(hold, i)) x[i] = baseStart[i];
+        int[] candidates = searchOtherSides ? OtherSideSearch.candidates(m, held) : new int[0];
+        if (candidates.length > 0 && best.converged()) {
+            OtherSideSearch.Outcome o = OtherSideSearch.run(m, best, candidates, lower, upper, x -> local(x, held));
+            if (o.best() != best) met.add(best);
+            met.addAll(o.others());
+            best = o.best();
+            evaluations += o.evaluations();
+            iterations += o.iterations();
+        }
+        List<FitResult.OtherMinimum> others = otherMinima(best, met);
+        best = new MinimumResult(best.status(), best.x(), best.value(), best.gradient(), best.hessian(), best.fixed(),
+                best.decrement(), iterations, evaluations);
+        return toResult(best, held, System.nanoTime() - t0, others);
+    }
+
+    /** Whether a is a better end than b: a minimum beats a failure, then the lower −ln L wins. */
+    private static boolean better(MinimumResult a, MinimumResult b) {
+        if (a.converged() != b.converged()) return a.converged();
+        return a.value() < b.value();
+    }
+
+    /** The distinct minima in {@code met} other than best, as results report them (lowest first). */
+    private List<FitResult.OtherMinimum> otherMinima(MinimumResult best, List<MinimumResult> met) {
+        List<FitResult.OtherMinimum> out = new ArrayList<>();
+        List<double[]> seen = new ArrayList<>();
+        seen.add(best.x());
+        met.sort((a, b) -> Double.compare(a.value(), b.value()));
+        for (MinimumResult r : met) {
+            boolean known = false;
+            for (double[] x : seen) known |= OtherSideSearch.same(m, r.x(), x);
+            if (known) continue;
+            seen.add(r.x());
+            double[] values = new double[m.nAll];
+            nll.allValues(r.x(), values);
+            out.add(new FitResult.OtherMinimum(r.value() - best.value(), values));
+        }
+        return List.copyOf(out);
+    }
+
+    /**
+     * Whether fits look for other minima across one-sided terms (default true). Off only to
+     * measure what the search changes.
+     */
+    public void searchOtherSides(boolean on) {
+        searchOtherSides = on;
+    }
+
+    /**
+     * Whether −ln L may have several minima for this fitter: the model has one-sided terms and the
+     * search is on. Profiles then start each point from more than one place ({@link #fitFrom}).
+     */
+    public boolean mayHaveSeveralMinima() {
+        return searchOtherSides && m.anyOneSided();
+    }
+
+    /** One descent from x to the minimum of its basin: Newton, clip-kink check, restart. */
+    private MinimumResult local(double[] x, boolean[] held) {
         MinimumResult r = settle(minimiser, x, held);
         if (!r.converged() && restarting != null) {
             // Neither converged nor on a clip kink: the minimiser's restart from the best point.
             MinimumResult again = settle(restarting, r.x(), held);
             r = again.converged() || again.value() < r.value() ? counted(again, r) : counted(r, again);
         }
-        return toResult(r, held, System.nanoTime() - t0);
+        return r;
     }
 
     /**
@@ -277,7 +359,7 @@ public final class Fitter {
         return false;
     }
 
-    private FitResult toResult(MinimumResult r, boolean[] held, long nanos) {
+    private FitResult toResult(MinimumResult r, boolean[] held, long nanos, List<FitResult.OtherMinimum> others) {
         final int nP = m.nParams;
         double[] values = new double[m.nAll];
         nll.allValues(r.x(), values);
@@ -305,7 +387,11 @@ public final class Fitter {
             }
         }
         for (int i = 0; i < dim; i++) if (held[i]) errors[i] = 0;
+        boolean[] atKink = new boolean[m.nAll];
+        for (int i = 0; i < m.nParams; i++) {
+            atKink[i] = m.kinked[i] && !held[i] && (r.x()[i] == 0 || r.x()[i] == LEFT_OF_KINK);
+        }
         return new FitResult(status, r.value(), values, errors, covTheta, heldAll, r.evaluations(), r.iterations(),
-                nanos * 1e-9);
+                nanos * 1e-9, others, atKink);
     }
 }

@@ -90,7 +90,16 @@ public final class PoiProfile {
         FitResult cached = conditional.get(mu);
         if (cached != null) return cached;
         double[] start = nearestStart(mu);
-        FitResult r = fitter.fit(start, m.poi, mu);
+        FitResult r;
+        if (fitter.mayHaveSeveralMinima()) {
+            // Several minima possible: the neighbour's basin may not be this μ's lowest. The lowest
+            // of the warm start, the best fit's values and a start from scratch, then the fitter's
+            // search across one-sided terms.
+            r = fitter.fitFrom(new double[][] {start, best().values(), fitter.nominalStart()}, new int[] {m.poi},
+                    new double[] {mu});
+        } else {
+            r = fitter.fit(start, m.poi, mu);
+        }
         fits++;
         if (!minimumFound(r)) {
             r = fitter.fit(fitter.nominalStart(), m.poi, mu);

@@ -72,6 +72,7 @@ final class Refits {
      * the profiled layout is held inside the fitter's likelihood for this fit and released after.
      */
     FitResult refit(Fitter fitter, int k, double value) {
+        if (fitter.mayHaveSeveralMinima()) return refitEverywhere(fitter, k, value);
         FitResult r = refitFrom(fitter, k, value, start(k, value));
         if (r.converged()) return r;
         // A failed warm start (a strongly non-linear response): once more from the best fit with
@@ -86,12 +87,29 @@ final class Refits {
         return third.converged() ? third : r;
     }
 
-    private FitResult refitFrom(Fitter fitter, int k, double value, double[] x) {
-        if (k < dim) return fitter.fit(x, new int[] {k}, new double[] {value});
+    /**
+     * A refit where −ln L may have several minima: the lowest of the fits from the warm start, from
+     * the best fit with only θ_k moved, and from the nominal values (the start of a fit from
+     * scratch), followed by the fitter's search on the other side of one-sided terms. So the point
+     * never lies above a fresh fit with θ_k held, and a warm start that strays into a worse basin
+     * far from the best fit does not decide the result.
+     */
+    private FitResult refitEverywhere(Fitter fitter, int k, double value) {
+        double[] plain = Arrays.copyOf(best.values(), dim);
+        double[] nominal = fitter.nominalStart();
+        if (k < dim) {
+            plain[k] = value;
+            nominal[k] = value;
+        }
+        return refitFrom(fitter, k, value, start(k, value), plain, nominal);
+    }
+
+    private FitResult refitFrom(Fitter fitter, int k, double value, double[]... starts) {
+        if (k < dim) return fitter.fitFrom(starts, new int[] {k}, new double[] {value});
         int g = k - m.nParams;
         fitter.likelihood().holdGamma(g, value);
         try {
-            return fitter.fit(x, new int[0], new double[0]);
+            return fitter.fitFrom(starts, new int[0], new double[0]);
         } finally {
             fitter.likelihood().holdGamma(g, Double.NaN);
         }
