@@ -41,6 +41,12 @@ public final class Sensitivity {
     public record Request(CompiledModel model, int[] held, double[] heldValues, FitSettings settings, boolean postfit,
                           double cl, double[] scales, int exactTop, int threads) { }
 
+    /** A request from a problem (its data set is not used: everything runs on Asimov data sets). */
+    public static Request request(Problem p, boolean postfit, double cl, double[] scales, int exactTop, int threads) {
+        return new Request(p.model(), p.heldIndices(), p.heldValues(), p.settings(), postfit, cl, scales.clone(),
+                exactTop, threads);
+    }
+
     /**
      * One change of one target. {@code scale} 0 means removed (held at its generating value).
      * Exact values are NaN when not computed; {@code exactError} says why a computed one failed.
