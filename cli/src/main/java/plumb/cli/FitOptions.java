@@ -44,9 +44,9 @@ public final class FitOptions {
             description = "Seed of every random number used (default: ${DEFAULT-VALUE}).")
     public long seed;
 
-    @Option(names = "--optimizer", paramLabel = "newton|reference", defaultValue = "newton",
-            description = "Minimiser: newton (default) or reference (derivative-free BOBYQA, a cross-check).")
-    public String optimizer;
+    @Option(names = {"--optimizer", "--minimiser"}, paramLabel = "newton|bfgs|reference", defaultValue = "newton",
+            description = "Minimiser: newton (default), bfgs (quasi-Newton on gradients) or reference (derivative-free BOBYQA, a cross-check).")
+    public String minimiser;
 
     @Option(names = "--explicit-mcstat",
             description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
@@ -60,12 +60,13 @@ public final class FitOptions {
     }
 
     public FitSettings settings() {
-        FitSettings.Optimizer o = switch (optimizer.toLowerCase(Locale.ROOT)) {
-            case "newton" -> FitSettings.Optimizer.NEWTON;
-            case "reference" -> FitSettings.Optimizer.REFERENCE;
-            default -> throw new InputException("--optimizer: unknown minimiser '" + optimizer + "', expected newton or reference");
+        FitSettings.MinimiserKind o = switch (minimiser.toLowerCase(Locale.ROOT)) {
+            case "newton" -> FitSettings.MinimiserKind.NEWTON;
+            case "bfgs" -> FitSettings.MinimiserKind.BFGS;
+            case "reference" -> FitSettings.MinimiserKind.REFERENCE;
+            default -> throw new InputException("--optimizer: unknown minimiser '" + minimiser + "', expected newton, bfgs or reference");
         };
-        return FitSettings.defaults().withOptimizer(o).withExplicitGamma(explicitMcStat);
+        return FitSettings.defaults().withMinimiser(o).withExplicitGamma(explicitMcStat);
     }
 
     /** The --fix options resolved against the model: parameter index to value, in the order given. */

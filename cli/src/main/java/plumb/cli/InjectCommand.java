@@ -104,9 +104,9 @@ final class InjectCommand implements Callable<Integer> {
             description = "Seed of the toys (default: ${DEFAULT-VALUE}); equal seeds give equal results.")
     long seed;
 
-    @Option(names = "--optimizer", paramLabel = "newton|reference", defaultValue = "newton",
-            description = "Minimiser: newton (default) or reference (derivative-free BOBYQA).")
-    String optimizer;
+    @Option(names = {"--optimizer", "--minimiser"}, paramLabel = "newton|bfgs|reference", defaultValue = "newton",
+            description = "Minimiser: newton (default), bfgs (quasi-Newton on gradients) or reference (derivative-free BOBYQA).")
+    String minimiser;
 
     @Option(names = "--explicit-mcstat",
             description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
@@ -271,7 +271,7 @@ final class InjectCommand implements Callable<Integer> {
         c.fix = fit.fix;
         c.threads = fit.threads;
         c.seed = fit.seed;
-        c.optimizer = fit.optimizer;
+        c.minimiser = fit.minimiser;
         c.explicitMcStat = fit.explicitMcStat;
         return c;
     }
@@ -282,7 +282,7 @@ final class InjectCommand implements Callable<Integer> {
         o.fix = fix;
         o.threads = threads;
         o.seed = seed;
-        o.optimizer = optimizer;
+        o.minimiser = minimiser;
         o.explicitMcStat = explicitMcStat;
         return o;
     }
@@ -343,7 +343,7 @@ final class InjectCommand implements Callable<Integer> {
         run.put("seed", seed);
         ArrayNode f = run.putArray("fix");
         fixes.forEach((i, v) -> f.add(m.parameterNames[i] + "=" + v));
-        run.put("optimizer", s.optimizer().name().toLowerCase(Locale.ROOT));
+        run.put("optimizer", s.minimiser().name().toLowerCase(Locale.ROOT));
         run.put("explicitMcStat", s.explicitGamma());
         return run;
     }

@@ -37,7 +37,7 @@ class IndependentMinimiserTest {
         CompiledModel m = ModelCompiler.compile(model(name));
         DataSet d = DataSet.observed(m);
         FitResult newton = new Fitter(m, d, FitSettings.defaults()).fit();
-        FitResult bobyqa = new Fitter(m, d, FitSettings.defaults().withOptimizer(FitSettings.Optimizer.REFERENCE)).fit();
+        FitResult bobyqa = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE)).fit();
         assertTrue(newton.converged(), newton.status().toString());
         assertEquals(bobyqa.nll(), newton.nll(), 1e-6);
         for (int i = 0; i < m.nParams; i++) {

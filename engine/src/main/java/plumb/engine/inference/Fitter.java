@@ -3,8 +3,10 @@ package plumb.engine.inference;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.likelihood.BinnedNll;
 import plumb.engine.likelihood.DataSet;
+import plumb.engine.minimise.BoundedBfgs;
 import plumb.engine.minimise.BoundedNewton;
 import plumb.engine.minimise.Minimiser;
+import plumb.engine.minimise.MinimiserOptions;
 import plumb.engine.minimise.MinimumResult;
 import plumb.engine.minimise.MinimumStatus;
 import plumb.engine.minimise.ReferenceMinimiser;
@@ -26,7 +28,7 @@ public final class Fitter {
     private final Minimiser minimiser;
     /** With its restart, for fits that neither converge nor end on a clip kink; null if none. */
     private final Minimiser restarting;
-    /** Stationarity needed to accept a minimum on a clip kink ({@link ClipKinkCheck}). */
+    /** Stationarity needed to accept a minimum on a clip kink ({@link ClipKinkSettler}). */
     private final double kinkTolerance;
     private final int dim;
     private final double[] lower;
@@ -45,9 +47,9 @@ public final class Fitter {
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
         this.kinkTolerance = settings.options().fallbackTolerance();
         this.dim = nll.dimension();
-        boolean reference = settings.optimizer() == FitSettings.Optimizer.REFERENCE;
-        this.minimiser = reference ? new ReferenceMinimiser(dim) : new BoundedNewton(dim, settings.options().withRestart(false));
-        this.restarting = reference || !settings.options().restart() ? null : new BoundedNewton(dim, settings.options());
+        this.minimiser = minimiser(settings.minimiser(), settings.options().withRestart(false));
+        this.restarting = settings.minimiser() == FitSettings.MinimiserKind.REFERENCE || !settings.options().restart()
+                ? null : minimiser(settings.minimiser(), settings.options());
         lower = Arrays.copyOf(model.lower, dim);
         upper = Arrays.copyOf(model.upper, dim);
         baseHeld = Arrays.copyOf(model.fixed, dim);
@@ -61,6 +63,14 @@ public final class Fitter {
                 nll.holdGamma(i - model.nParams, heldValues[k]);
             }
         }
+    }
+
+    private Minimiser minimiser(FitSettings.MinimiserKind kind, MinimiserOptions options) {
+        return switch (kind) {
+            case NEWTON -> new BoundedNewton(dim, options);
+            case BFGS -> new BoundedBfgs(dim, options);
+            case REFERENCE -> new ReferenceMinimiser(dim);
+        };
     }
 
     /** A fitter for the problem: its model, data, settings and held parameters. */
@@ -234,13 +244,13 @@ public final class Fitter {
     }
 
     /**
-     * Minimises from x, then lets {@link ClipKinkCheck} recognise a minimum on a clip kink; when the
+     * Minimises from x, then lets {@link ClipKinkSettler} recognise a minimum on a clip kink; when the
      * check moves the point along the kink to a lower value, Newton goes on from there.
      */
     private MinimumResult settle(Minimiser with, double[] x, boolean[] held) {
         MinimumResult r = minimiseWithKinks(with, x, held);
         for (int round = 0; round < KINK_ROUNDS && !r.converged(); round++) {
-            MinimumResult checked = ClipKinkCheck.check(nll, r, lower, upper, kinkTolerance);
+            MinimumResult checked = ClipKinkSettler.settle(nll, r, lower, upper, kinkTolerance);
             if (checked.converged() || !(checked.value() < r.value())) {
                 r = checked;
                 break;
@@ -257,7 +267,7 @@ public final class Fitter {
                 before.evaluations() + result.evaluations());
     }
 
-    /** Rounds of (Newton, clip-kink check) before a fit is given up ({@link ClipKinkCheck}). */
+    /** Rounds of (Newton, clip-kink check) before a fit is given up ({@link ClipKinkSettler}). */
     private static final int KINK_ROUNDS = 3;
 
     private MinimumResult minimiseWithKinks(Minimiser with, double[] x, boolean[] held) {

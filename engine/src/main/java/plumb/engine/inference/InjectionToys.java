@@ -158,7 +158,7 @@ public final class InjectionToys {
      */
     public AsimovClosure closure(double[] generating) {
         DataSet asimov = DataSets.asimov(m, generating);
-        FitSettings tight = new FitSettings(settings.explicitGamma(), settings.optimizer(),
+        FitSettings tight = new FitSettings(settings.explicitGamma(), settings.minimiser(),
                 settings.options().withTolerance(CLOSURE_FIT_TOLERANCE));
         Fitter fitter = new Fitter(m, asimov, tight, held, heldValues);
         FitResult r = fitter.fit();

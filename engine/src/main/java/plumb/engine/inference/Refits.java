@@ -36,7 +36,7 @@ final class Refits {
 
     /** The settings of refit workers: the fit's, with the smaller evaluation budget. */
     static FitSettings refitSettings(FitSettings s) {
-        return new FitSettings(s.explicitGamma(), s.optimizer(),
+        return new FitSettings(s.explicitGamma(), s.minimiser(),
                 s.options().withMaxEvaluations(Math.min(REFIT_EVALUATIONS, s.options().maxEvaluations())));
     }
 

@@ -43,7 +43,7 @@ class ClipKinkTest {
         assertEquals(MinimumStatus.CONVERGED_AT_KINK, newton.status());
         assertEquals(1.0, newton.values()[m.indexOf("theta")], 1e-7);
         // references.md item 11: an independent derivative-free minimiser finds the same minimum
-        FitResult reference = new Fitter(m, d, FitSettings.defaults().withOptimizer(FitSettings.Optimizer.REFERENCE)).fit();
+        FitResult reference = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE)).fit();
         assertTrue(newton.nll() <= reference.nll() + 1e-9, newton.nll() + " vs " + reference.nll());
         assertEquals(reference.values()[m.indexOf("theta")], newton.values()[m.indexOf("theta")], 1e-4);
     }

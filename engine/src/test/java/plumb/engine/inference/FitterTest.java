@@ -46,12 +46,33 @@ class FitterTest {
         CompiledModel m = ModelCompiler.compile(TestModels.mixed(seed, mc));
         DataSet d = DataSet.observed(m);
         FitResult newton = new Fitter(m, d, FitSettings.defaults()).fit();
-        FitResult reference = new Fitter(m, d, FitSettings.defaults().withOptimizer(FitSettings.Optimizer.REFERENCE)).fit();
+        FitResult reference = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE)).fit();
         assertTrue(newton.converged());
         assertEquals(reference.nll(), newton.nll(), 1e-6);
         for (int i = 0; i < m.nParams; i++) {
             assertEquals(reference.values()[i], newton.values()[i], 1e-4 * Math.max(1, Math.abs(newton.values()[i])),
                     m.parameterNames[i]);
+        }
+    }
+
+    /**
+     * The quasi-Newton minimiser, selectable with --optimizer bfgs, reaches Newton's minimum with
+     * the same errors: it confirms its minimum with the exact Hessian, so the covariance is the same
+     * matrix evaluated at (nearly) the same point.
+     */
+    @ParameterizedTest
+    @CsvSource({"GAUSSIAN,3", "POISSON,5"})
+    void bfgsMinimiserAgrees(ModelOptions.McStatConstraint mc, long seed) {
+        CompiledModel m = ModelCompiler.compile(TestModels.mixed(seed, mc));
+        DataSet d = DataSet.observed(m);
+        FitResult newton = new Fitter(m, d, FitSettings.defaults()).fit();
+        FitResult bfgs = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.BFGS)).fit();
+        assertTrue(newton.converged());
+        assertTrue(bfgs.converged(), bfgs.status().name());
+        assertEquals(newton.nll(), bfgs.nll(), 1e-7);
+        for (int i = 0; i < m.nParams; i++) {
+            assertEquals(newton.values()[i], bfgs.values()[i], 1e-3 * newton.errors()[i], m.parameterNames[i]);
+            assertEquals(newton.errors()[i], bfgs.errors()[i], 1e-3 * newton.errors()[i], m.parameterNames[i]);
         }
     }
 }

@@ -44,7 +44,7 @@ public class FitBenchmark {
         DataSet data = DataSet.observed(m);
         newton = new Fitter(m, data, FitSettings.defaults());
         if (size.equals("medium")) {
-            reference = new Fitter(m, data, FitSettings.defaults().withOptimizer(FitSettings.Optimizer.REFERENCE));
+            reference = new Fitter(m, data, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE));
         }
     }
 

@@ -7,10 +7,11 @@ import plumb.engine.minimise.MinimumStatus;
 import java.util.Arrays;
 
 /**
- * Recognises a minimum that sits on a clip kink. Where a sample's unclipped yield in a bin
+ * Settles a fit that stopped on a clip kink: moves the point along the kink to its lowest value
+ * and certifies it as a minimum there. Where a sample's unclipped yield in a bin
  * reaches zero, max(0, ·) (docs/model-format.md) makes −ln L non-differentiable; a Newton
  * minimiser that ends there finds no step that lowers f and reports a failed line search,
- * although the point is the minimum. This check takes such a point, finds the entries on the
+ * although the point is the minimum. This class takes such a point, finds the entries on the
  * kink (at most {@link #MAX_KINKS}), evaluates the gradient of each smooth piece that meets there
  * (a step of about 1e-9 events across each kink), and accepts the point when zero lies in the
  * convex hull of those gradients over the variables that are free and off their bounds —
@@ -19,7 +20,7 @@ import java.util.Arrays;
  * steps within the kink's tangent space (which the pieces share) move it along the kink first.
  * A point that cannot be certified is returned unchanged: still not converged.
  */
-final class ClipKinkCheck {
+final class ClipKinkSettler {
 
     /** Kinks handled at one point: 2^k pieces meet there. */
     static final int MAX_KINKS = 3;
@@ -28,10 +29,10 @@ final class ClipKinkCheck {
     /** How far beyond the kink the pieces are probed, in events per (1 + n). */
     static final double PROBE = 1e-9;
 
-    private ClipKinkCheck() {
+    private ClipKinkSettler() {
     }
 
-    static MinimumResult check(BinnedNll nll, MinimumResult r, double[] lower, double[] upper, double tolerance) {
+    static MinimumResult settle(BinnedNll nll, MinimumResult r, double[] lower, double[] upper, double tolerance) {
         if (r.converged() || r.status() == MinimumStatus.NON_FINITE) return r;
         final int n = r.dimension();
         double[] x = r.x().clone();
