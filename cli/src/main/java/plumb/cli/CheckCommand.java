@@ -9,7 +9,11 @@ import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.model.ParameterKind;
 
+import plumb.engine.tooling.Lint;
+
 import java.io.PrintWriter;
+import java.util.ArrayList;
+import java.util.List;
 import java.util.concurrent.Callable;
 
 /** {@code plumb check MODEL}: validates a model and summarises it. */
@@ -22,17 +26,21 @@ final class CheckCommand implements Callable<Integer> {
     @Option(names = "--json", paramLabel = "FILE", description = "Write the summary as JSON ('-' for standard output).")
     String json;
 
+    @Option(names = "--strict", description = "Exit with status 1 when there is any warning (for CI pipelines).")
+    boolean strict;
+
     @Spec CommandSpec spec;
 
     @Override
     public Integer call() {
         ModelInput.Loaded loaded = input.load();
         CompiledModel m = loaded.compiled();
+        List<String> warnings = warnings(loaded);
         PrintWriter out = spec.commandLine().getOut();
         int factors = factors(m), nuisances = m.nParams - factors - binFactors(m);
         if (json != null) {
-            Outputs.write(json, Json.write(toJson(m)), out);
-            if ("-".equals(json)) return ExitCodes.OK;
+            Outputs.write(json, Json.write(toJson(m, warnings)), out);
+            if ("-".equals(json)) return status(warnings);
         }
         out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
         out.printf("  %d channels, %d bins, %d samples%n", m.nChannels, m.nBins, m.nSamples);
@@ -48,16 +56,31 @@ final class CheckCommand implements Callable<Integer> {
             out.printf("  pruned %d variation parts (options.pruneBelow):%n", m.pruned.size());
             m.pruned.forEach(p -> out.println("    " + p));
         }
-        if (!m.warnings.isEmpty()) {
-            out.printf("  %d warnings:%n", m.warnings.size());
-            m.warnings.forEach(w -> out.println("    warning: " + w));
+        if (!warnings.isEmpty()) {
+            out.printf("  %d warnings:%n", warnings.size());
+            warnings.forEach(w -> out.println("    warning: " + w));
         }
         out.flush();
-        return ExitCodes.OK;
+        return status(warnings);
+    }
+
+    private int status(List<String> warnings) {
+        if (!strict || warnings.isEmpty()) return ExitCodes.OK;
+        spec.commandLine().getErr().printf("plumb check: --strict: %d warning%s%n", warnings.size(),
+                warnings.size() == 1 ? "" : "s");
+        spec.commandLine().getErr().flush();
+        return ExitCodes.FAILED;
+    }
+
+    /** The compiler's warnings (one-sided and over-100 % variations), then the lint warnings. */
+    static List<String> warnings(ModelInput.Loaded loaded) {
+        List<String> all = new ArrayList<>(loaded.compiled().warnings);
+        all.addAll(Lint.warnings(loaded.model()));
+        return all;
     }
 
     /** The check result file of docs/cli-contract.md. */
-    static ObjectNode toJson(CompiledModel m) {
+    static ObjectNode toJson(CompiledModel m, List<String> warningLines) {
         int factors = factors(m);
         ObjectNode root = Json.result(m.labels, m.anyBlinded() ? "blinded" : "observed");
         root.put("valid", true);
@@ -73,7 +96,7 @@ final class CheckCommand implements Callable<Integer> {
         var pruned = root.putArray("pruned");
         m.pruned.forEach(pruned::add);
         var warnings = root.putArray("warnings");
-        m.warnings.forEach(warnings::add);
+        warningLines.forEach(warnings::add);
         return root;
     }
 

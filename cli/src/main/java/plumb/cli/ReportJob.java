@@ -97,8 +97,9 @@ final class ReportJob {
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         boolean hasPoi = m.poi >= 0;
 
-        attach("check", CheckCommand.toJson(m));
-        warnings.addAll(m.warnings);
+        List<String> checkWarnings = CheckCommand.warnings(main);
+        attach("check", CheckCommand.toJson(m, checkWarnings));
+        warnings.addAll(checkWarnings);
 
         Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
         FitResult best = fitter.fit();
