@@ -65,6 +65,15 @@ public final class BinnedNll implements Objective {
     private final double[] hMat;
     private final double[] extended;
     private final double[] extendedGrad;
+    /** Channels whose samples all take part in the MC-statistics term: their Hessian is one rank-one term per bin. */
+    private final boolean[] channelAllMc;
+    /** Up to {@link #FUSED} bins' vectors ∇c_b (local indices, stride maxLocal) and weights, awaiting one fused update. */
+    private final double[] pendingVec;
+    private final double[] pendingWeight;
+    private final int stride;
+
+    /** Bins per fused rank-k update of a channel's Hessian block: the block is read and written once per this many bins. */
+    private static final int FUSED = 4;
 
     /** A likelihood in the profiled layout. */
     public BinnedNll(CompiledModel model, DataSet data) {
@@ -119,6 +128,15 @@ public final class BinnedNll implements Objective {
         hMat = new double[maxLocal * maxLocal];
         extended = new double[model.nAll];
         extendedGrad = new double[model.nAll];
+        channelAllMc = new boolean[model.nChannels];
+        for (int c = 0; c < model.nChannels; c++) {
+            boolean all = true;
+            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) all &= model.sampleMcStat[s];
+            channelAllMc[c] = all;
+        }
+        stride = maxLocal;
+        pendingVec = new double[FUSED * maxLocal];
+        pendingWeight = new double[FUSED];
     }
 
     public CompiledModel model() {
@@ -569,6 +587,10 @@ public final class BinnedNll implements Objective {
      * columns (explicit layout).
      */
     private void binOuterProducts(int c, double[] hess, int n, boolean explicit) {
+        if (!explicit && channelAllMc[c]) {
+            allMcOuterProducts(c, hess, n);
+            return;
+        }
         final int[] local = m.channelParams[c];
         final int L = local.length;
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
@@ -596,6 +618,86 @@ public final class BinnedNll implements Objective {
                 if (hgg > 0) rankOne(hLoc, -1 / hgg, L);
             }
         }
+        scatter(local, hess, n);
+    }
+
+    /**
+     * {@link #binOuterProducts} for a channel whose samples all take part in the MC-statistics term
+     * (profiled layout). Then ∇ν_b = γ_b ∇c_b and the mixed derivative h_b = (w_b + q_b c_b γ_b) ∇c_b,
+     * so the bin's two rank-one terms q_b ∇ν∇νᵀ − h_b h_bᵀ / H_γγ are one,
+     * [q_b γ_b² − (w_b + q_b c_b γ_b)² / H_γγ] ∇c_b ∇c_bᵀ, with the cancellation in a scalar. The
+     * channel's block then is Vᵀ·diag(weights)·V over its bins, summed {@link #FUSED} bins per pass.
+     */
+    private void allMcOuterProducts(int c, double[] hess, int n) {
+        final int[] local = m.channelParams[c];
+        final int L = local.length;
+        final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+        Arrays.fill(hMat, 0, L * L, 0);
+        int pending = 0;
+        for (int b = b0; b < b1; b++) {
+            double qb = q[b];
+            double wb = w[b];
+            if (qb == 0 && wb == 0) continue;
+            double gammaB = binGammaValue[b];
+            double weight = qb * gammaB * gammaB;
+            int g = m.binGamma[b];
+            if (g >= 0 && gammaInterior[g]) {
+                double cb = cPart[b];
+                double hgg = qb * cb * cb + constraintCurvature(m.nParams + g, gammaValue[g]);
+                if (hgg > 0) {
+                    double kappa = wb + qb * cb * gammaB;
+                    weight -= kappa * kappa / hgg;
+                }
+            }
+            if (weight == 0) continue;
+            mcGradient(c, b, pendingVec, pending * stride);
+            pendingWeight[pending++] = weight;
+            if (pending == FUSED) {
+                fusedUpdate(L);
+                pending = 0;
+            }
+        }
+        for (int k = 0; k < pending; k++) rankOne(pendingVec, k * stride, pendingWeight[k], L);
+        scatter(local, hess, n);
+    }
+
+    /** ∇c_b (derivatives of the bin's MC-statistics part at γ = 1) in local indices, into out[at ..]. */
+    private void mcGradient(int c, int b, double[] out, int at) {
+        final int L = m.channelParams[c].length;
+        final int db = b - m.channelBinStart[c];
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        Arrays.fill(out, at, at + L, 0);
+        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+            int e = m.sampleEntryStart[s] + db;
+            double bs = base[e];
+            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) out[at + m.mulLocal[k]] += bs * dC[k];
+            if (clipped[e]) continue;
+            double cs = sampleC[s];
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                int so = m.shapeCoeffStart[k] + db;
+                out[at + m.shapeLocal[k]] += cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
+            }
+        }
+    }
+
+    /** Upper triangle of hMat += Σ_k weight_k v_k v_kᵀ over the {@link #FUSED} pending vectors. */
+    private void fusedUpdate(int L) {
+        final double[] v = pendingVec;
+        final int o1 = stride, o2 = 2 * stride, o3 = 3 * stride;
+        final double c0 = pendingWeight[0], c1 = pendingWeight[1], c2 = pendingWeight[2], c3 = pendingWeight[3];
+        for (int i = 0; i < L; i++) {
+            final double a0 = c0 * v[i], a1 = c1 * v[o1 + i], a2 = c2 * v[o2 + i], a3 = c3 * v[o3 + i];
+            if (a0 == 0 && a1 == 0 && a2 == 0 && a3 == 0) continue;
+            final int row = i * L;
+            for (int j = i; j < L; j++) {
+                hMat[row + j] += a0 * v[j] + a1 * v[o1 + j] + a2 * v[o2 + j] + a3 * v[o3 + j];
+            }
+        }
+    }
+
+    /** hess += the symmetric block held in hMat's upper triangle, at the channel's parameters. */
+    private void scatter(int[] local, double[] hess, int n) {
+        final int L = local.length;
         for (int i = 0; i < L; i++) {
             int pi = local[i];
             for (int j = i; j < L; j++) {
@@ -685,12 +787,17 @@ public final class BinnedNll implements Objective {
 
     /** Upper triangle of hMat += f · v vᵀ. */
     private void rankOne(double[] v, double f, int L) {
+        rankOne(v, 0, f, L);
+    }
+
+    /** Upper triangle of hMat += f · v vᵀ, v read from v[at .. at + L). */
+    private void rankOne(double[] v, int at, double f, int L) {
         if (f == 0) return;
         for (int i = 0; i < L; i++) {
-            double vi = f * v[i];
+            double vi = f * v[at + i];
             if (vi == 0) continue;
             final int row = i * L;
-            for (int j = i; j < L; j++) hMat[row + j] += vi * v[j];
+            for (int j = i; j < L; j++) hMat[row + j] += vi * v[at + j];
         }
     }
 
