@@ -30,6 +30,11 @@ public final class ClusterOptions {
             description = "Seconds to wait for the Spark master and a first executor (default: ${DEFAULT-VALUE}).")
     public int sparkTimeout;
 
+    /** The runner of {@code options} (threads when null: a command called from another one, the report). */
+    public static WorkRunner runner(ClusterOptions options, int threads) {
+        return options == null ? WorkRunner.threads(threads) : options.runner(threads);
+    }
+
     /** The master to use: --spark, or under spark-submit the one it was given; null for threads. */
     public String master() {
         if (spark != null) return spark;

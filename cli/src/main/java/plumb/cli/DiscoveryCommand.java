@@ -8,6 +8,7 @@ import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.Discovery;
 import plumb.engine.inference.InferenceException;
 import plumb.engine.inference.ToyPValue;
@@ -25,6 +26,8 @@ final class DiscoveryCommand implements Callable<Integer> {
     @Mixin ModelInput input;
     @Mixin FitOptions fit;
 
+    @Mixin ClusterOptions cluster;
+
     @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N background-only toys.")
     Integer toys;
 
@@ -38,7 +41,7 @@ final class DiscoveryCommand implements Callable<Integer> {
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
-        DiscoveryTests c = compute(l, fit, toys);
+        DiscoveryTests c = compute(l, fit, toys, cluster);
         PoiData d = c.data();
         Discovery.Significance observed = c.observed(), expected = c.expected();
         ToyPValue toy = c.toy();
@@ -64,6 +67,11 @@ final class DiscoveryCommand implements Callable<Integer> {
      * @throws ComputationException when a needed fit fails
      */
     static DiscoveryTests compute(ModelInput.Loaded l, FitOptions fit, Integer toys) {
+        return compute(l, fit, toys, null);
+    }
+
+    /** As above, the toys run where {@code cluster} says (null: threads). */
+    static DiscoveryTests compute(ModelInput.Loaded l, FitOptions fit, Integer toys, ClusterOptions cluster) {
         CompiledModel m = l.compiled();
         // The expected significance is on the Asimov set at --asimov-poi (default 1); --data asimov
         // then tests that same set.
@@ -81,9 +89,10 @@ final class DiscoveryCommand implements Callable<Integer> {
             if (!d.blinded()) {
                 observed = Discovery.compute(m, d.data(), d.settings(), d.held(), d.heldValues());
                 if (toys != null) {
-                    try (Progress bar = Progress.start("toys", toys)) {
+                    try (WorkRunner runner = ClusterOptions.runner(cluster, fit.threadCount());
+                         Progress bar = Progress.start("toys", toys)) {
                         toy = Discovery.toys(m, d.data(), d.settings(), d.held(), d.heldValues(), toys, fit.seed,
-                                fit.threadCount(), bar.callback());
+                                runner, bar.callback());
                     }
                 }
             }

@@ -10,6 +10,7 @@ import picocli.CommandLine.Spec;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.GoodnessOfFit;
 import plumb.engine.inference.InferenceException;
 import plumb.engine.inference.ToyPValue;
@@ -27,6 +28,8 @@ final class GofCommand implements Callable<Integer> {
     @Mixin ModelInput input;
     @Mixin FitOptions fit;
 
+    @Mixin ClusterOptions cluster;
+
     @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N toys drawn at the best fit.")
     Integer toys;
 
@@ -41,7 +44,7 @@ final class GofCommand implements Callable<Integer> {
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
-        GofTests c = compute(m, p, fit, toys);
+        GofTests c = compute(m, p, fit, toys, cluster);
         GoodnessOfFit.Result r = c.result();
         ToyPValue toy = c.toy();
         PrintWriter out = spec.commandLine().getOut();
@@ -60,13 +63,19 @@ final class GofCommand implements Callable<Integer> {
      * @throws ComputationException when the fit fails
      */
     static GofTests compute(CompiledModel m, FitOptions.Prepared p, FitOptions fit, Integer toys) {
+        return compute(m, p, fit, toys, null);
+    }
+
+    /** As above, the toys run where {@code cluster} says (null: threads). */
+    static GofTests compute(CompiledModel m, FitOptions.Prepared p, FitOptions fit, Integer toys, ClusterOptions cluster) {
         try {
             GoodnessOfFit.Result r = GoodnessOfFit.compute(m, p.data(), p.settings(), p.held(), p.heldValues());
             ToyPValue toy = null;
             if (toys != null) {
-                try (Progress bar = Progress.start("toys", toys)) {
+                try (WorkRunner runner = ClusterOptions.runner(cluster, fit.threadCount());
+                     Progress bar = Progress.start("toys", toys)) {
                     toy = GoodnessOfFit.toys(m, p.data(), r.statistic(), r.fit().values(), p.settings(), p.held(),
-                            p.heldValues(), toys, fit.seed, fit.threadCount(), bar.callback());
+                            p.heldValues(), toys, fit.seed, runner, bar.callback());
                 }
             }
             return new GofTests(r, toy);

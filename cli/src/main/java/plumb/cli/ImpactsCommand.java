@@ -10,6 +10,7 @@ import picocli.CommandLine.Model.CommandSpec;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
 import plumb.engine.inference.Impacts;
@@ -27,6 +28,8 @@ final class ImpactsCommand implements Callable<Integer> {
 
     @Mixin ModelInput input;
     @Mixin FitOptions fit;
+
+    @Mixin ClusterOptions cluster;
 
     @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
     String json;
@@ -51,7 +54,10 @@ final class ImpactsCommand implements Callable<Integer> {
         if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
-        ImpactRanking c = compute(m, p, best, exactTop, includeMcStat, fit.threadCount());
+        ImpactRanking c;
+        try (WorkRunner runner = cluster.runner(fit.threadCount())) {
+            c = compute(m, p, best, exactTop, includeMcStat, runner);
+        }
         List<Impacts.Entry> entries = c.entries();
         Impacts.Breakdown breakdown = c.breakdown();
         PrintWriter out = spec.commandLine().getOut();
@@ -81,6 +87,12 @@ final class ImpactsCommand implements Callable<Integer> {
      */
     static ImpactRanking compute(CompiledModel m, FitOptions.Prepared p, FitResult best, Integer exactTop,
                             boolean includeMcStat, int threads) {
+        return compute(m, p, best, exactTop, includeMcStat, WorkRunner.threads(threads));
+    }
+
+    /** As above, the exact refits run by {@code runner} (threads or a cluster; the same numbers). */
+    static ImpactRanking compute(CompiledModel m, FitOptions.Prepared p, FitResult best, Integer exactTop,
+                            boolean includeMcStat, WorkRunner runner) {
         if (!best.converged() || best.covariance() == null) {
             throw new ComputationException("the best fit did not converge (" + best.status() + "); no impacts");
         }
@@ -89,7 +101,7 @@ final class ImpactsCommand implements Callable<Integer> {
         int exact = exactTop == null ? n : Math.min(exactTop, n);
         List<Impacts.Entry> entries;
         try (Progress bar = Progress.start("impacts", 4L * exact)) {
-            entries = impacts.rank(exact, threads, bar.callback());
+            entries = impacts.rank(exact, runner, bar.callback());
         }
         return new ImpactRanking(entries, impacts.breakdown());
     }

@@ -239,7 +239,7 @@ final class InjectCommand implements Callable<Integer> {
 
         List<InjectionToyFits.ValueFits> injections = new ArrayList<>();
         long firstToy = first == null ? 0 : first;
-        try (WorkRunner runner = cluster == null ? WorkRunner.threads(threadCount) : cluster.runner(threadCount)) {
+        try (WorkRunner runner = ClusterOptions.runner(cluster, threadCount)) {
             for (int k = 0; k < mu.size(); k++) {
                 ToyFit[] fits;
                 try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],

@@ -11,6 +11,7 @@ import picocli.CommandLine.Spec;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.AsymptoticUpperLimit;
 import plumb.engine.inference.ExpectedBands;
 import plumb.engine.inference.InferenceException;
@@ -47,6 +48,8 @@ final class LimitCommand implements Callable<Integer> {
     List<Path> models;
 
     @Mixin FitOptions fit;
+
+    @Mixin ClusterOptions cluster;
 
     @Option(names = "--cl", defaultValue = "0.95", paramLabel = "CL",
             description = "Confidence level, e.g. 0.95 or 0.90 (default: ${DEFAULT-VALUE}).")
@@ -130,17 +133,28 @@ final class LimitCommand implements Callable<Integer> {
         // Resolve every model's data first: bad options fail before any long computation.
         List<PoiData> data = new ArrayList<>();
         for (ModelInput.Loaded l : loaded) data.add(PoiData.resolve(l.file(), l.compiled(), fit, 0.0, 0.0));
-        List<ModelLimit> outcomes;
-        if (toys == null) {
-            // Asymptotic limits: one model per thread, each computed sequentially (deterministic).
-            outcomes = ParallelRunner.run(loaded.size(), threads, () -> null,
-                    (w, i) -> compute(loaded.get(i), xs[i], data.get(i), 1, null), null);
-        } else {
-            outcomes = new ArrayList<>();
-            for (int i = 0; i < loaded.size(); i++) {
-                try (Progress bar = Progress.start("toys " + loaded.get(i).file().getFileName(),
-                        (long) toys * 11)) {
-                    outcomes.add(compute(loaded.get(i), xs[i], data.get(i), threads, bar));
+        List<ModelLimit> outcomes = new ArrayList<>();
+        try (WorkRunner runner = ClusterOptions.runner(cluster, threads)) {
+            if (toys == null) {
+                // Asymptotic limits: one model per thread or task, each computed sequentially (deterministic).
+                List<CompiledModel> compiled = new ArrayList<>();
+                List<AsymptoticWork.Inputs> inputs = new ArrayList<>();
+                for (int i = 0; i < loaded.size(); i++) {
+                    PoiData d = data.get(i);
+                    compiled.add(loaded.get(i).compiled());
+                    inputs.add(new AsymptoticWork.Inputs(d.data(), d.expected(), d.settings(), d.held(), d.heldValues()));
+                }
+                List<AsymptoticWork.Limit> limits = runner.runEach(compiled, new AsymptoticWork(inputs, cl), null);
+                for (int i = 0; i < loaded.size(); i++) {
+                    AsymptoticWork.Limit l = limits.get(i);
+                    outcomes.add(new ModelLimit(loaded.get(i), xs[i], data.get(i), l.result(), l.error()));
+                }
+            } else {
+                for (int i = 0; i < loaded.size(); i++) {
+                    try (Progress bar = Progress.start("toys " + loaded.get(i).file().getFileName(),
+                            (long) toys * 11)) {
+                        outcomes.add(compute(loaded.get(i), xs[i], data.get(i), runner, bar));
+                    }
                 }
             }
         }
@@ -149,13 +163,12 @@ final class LimitCommand implements Callable<Integer> {
         return new LimitTable(outcomes, key);
     }
 
-    private ModelLimit compute(ModelInput.Loaded l, double x, PoiData d, int threads, Progress bar) {
+    /** The toy limit of one model, its toys run by {@code runner}. */
+    private ModelLimit compute(ModelInput.Loaded l, double x, PoiData d, WorkRunner runner, Progress bar) {
         CompiledModel m = l.compiled();
         try {
-            LimitResult r = toys == null
-                    ? AsymptoticUpperLimit.compute(m, d.data(), d.expected(), d.settings(), d.held(), d.heldValues(), cl)
-                    : ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
-                    d.held(), d.heldValues(), cl, toys, fit.seed, threads), bar.callback());
+            LimitResult r = ToyLimits.compute(new ToyLimits.Request(m, d.data(), d.generation(), d.expected(), d.settings(),
+                    d.held(), d.heldValues(), cl, toys, fit.seed, 1), runner, bar.callback());
             return new ModelLimit(l, x, d, r, null);
         } catch (InferenceException e) {
             return new ModelLimit(l, x, d, null, e.getMessage());

@@ -49,19 +49,37 @@ public final class Discovery {
      */
     public static ToyPValue toys(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues,
                                  int toys, long seed, int threads, IntConsumer progress) {
+        return toys(m, data, settings, held, heldValues, toys, seed, WorkRunner.threads(threads), progress);
+    }
+
+    /** As above, the toys run by {@code runner} (threads or a cluster; the same numbers either way). */
+    public static ToyPValue toys(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues,
+                                 int toys, long seed, WorkRunner runner, IntConsumer progress) {
         PoiProfile profile = new PoiProfile(m, data, settings, held, heldValues, "the " + data.kind() + " data");
         double observed = profile.q0();
         double[] generating = profile.at(0).values();
-        double[] expected = DataSets.expectedCounts(m, generating);
-        boolean[] channels = data.channelIncluded();
-        List<Double> q = ParallelRunner.run(toys, threads, () -> Fitter.valuesOnly(m, data, settings, held, heldValues),
-                (fitter, i) -> {
-                    fitter.setData(Toys.generate(m, expected, generating, channels, seed, i, true));
-                    return q0(m, fitter, generating);
-                }, progress);
+        List<Double> q = runner.run(m, new ToyWork(data, settings, held, heldValues, generating, seed), toys, progress);
         double[] stats = new double[toys];
         for (int i = 0; i < toys; i++) stats[i] = q.get(i);
         return ToyPValue.of(observed, stats);
+    }
+
+    /** Background-only toy i: q0 of the toy drawn at {@code generating} with the stream (seed, i). */
+    private record ToyWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, double[] generating,
+                           long seed) implements RangeWork<ToyWork.Worker, Double> {
+
+        record Worker(Fitter fitter, double[] expected) { }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            return new Worker(Fitter.valuesOnly(m, data, settings, held, heldValues), DataSets.expectedCounts(m, generating));
+        }
+
+        @Override
+        public Double run(Worker w, CompiledModel m, int i) {
+            w.fitter().setData(Toys.generate(m, w.expected(), generating, data.channelIncluded(), seed, i, true));
+            return q0(m, w.fitter(), generating);
+        }
     }
 
     /** q0 of the fitter's current data, fits started from {@code start}; NaN when a fit fails. */

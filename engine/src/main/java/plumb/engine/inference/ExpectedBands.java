@@ -5,7 +5,7 @@ package plumb.engine.inference;
  * bands (band N is the limit at the Φ(N) quantile of the background-only outcomes). Also used
  * for the toy-statistics errors of those limits. NaN marks a value that could not be computed.
  */
-public record ExpectedBands(double minus2, double minus1, double median, double plus1, double plus2) {
+public record ExpectedBands(double minus2, double minus1, double median, double plus1, double plus2) implements java.io.Serializable {
 
     /** The band numbers N, in the order of the components. */
     public static final int[] N = {-2, -1, 0, 1, 2};

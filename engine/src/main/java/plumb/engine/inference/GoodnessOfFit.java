@@ -138,17 +138,42 @@ public final class GoodnessOfFit {
     public static double[] toyStatistics(CompiledModel m, DataSet data, double[] fitted, FitSettings settings,
                                          int[] held, double[] heldValues, int toys, long seed, int threads,
                                          IntConsumer progress) {
-        double[] expected = DataSets.expectedCounts(m, fitted);
-        boolean[] channels = data.channelIncluded();
-        List<Double> s = ParallelRunner.run(toys, threads, () -> Fitter.valuesOnly(m, data, settings, held, heldValues),
-                (fitter, i) -> {
-                    DataSet toy = Toys.generate(m, expected, fitted, channels, seed, i, true);
-                    fitter.setData(toy);
-                    FitResult r = fitter.fit(fitted, -1, 0);
-                    return PoiProfile.minimumFound(r) ? statistic(m, toy, r.values(), null) : Double.NaN;
-                }, progress);
+        return toyStatistics(m, data, fitted, settings, held, heldValues, toys, seed, WorkRunner.threads(threads), progress);
+    }
+
+    /** As above, the toys run by {@code runner} (threads or a cluster; the same numbers either way). */
+    public static double[] toyStatistics(CompiledModel m, DataSet data, double[] fitted, FitSettings settings,
+                                         int[] held, double[] heldValues, int toys, long seed, WorkRunner runner,
+                                         IntConsumer progress) {
+        List<Double> s = runner.run(m, new ToyWork(data, settings, held, heldValues, fitted.clone(), seed), toys, progress);
         double[] out = new double[toys];
         for (int i = 0; i < toys; i++) out[i] = s.get(i);
         return out;
+    }
+
+    /** As {@link #toys(CompiledModel, DataSet, double, double[], FitSettings, int[], double[], int, long, int, IntConsumer)} on {@code runner}. */
+    public static ToyPValue toys(CompiledModel m, DataSet data, double observed, double[] fitted, FitSettings settings,
+                                 int[] held, double[] heldValues, int toys, long seed, WorkRunner runner, IntConsumer progress) {
+        return ToyPValue.of(observed, toyStatistics(m, data, fitted, settings, held, heldValues, toys, seed, runner, progress));
+    }
+
+    /** Toy i drawn at the best fit with the stream (seed, i), fitted, its statistic at its own best fit. */
+    private record ToyWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, double[] fitted,
+                           long seed) implements RangeWork<ToyWork.Worker, Double> {
+
+        record Worker(Fitter fitter, double[] expected) { }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            return new Worker(Fitter.valuesOnly(m, data, settings, held, heldValues), DataSets.expectedCounts(m, fitted));
+        }
+
+        @Override
+        public Double run(Worker w, CompiledModel m, int i) {
+            DataSet toy = Toys.generate(m, w.expected(), fitted, data.channelIncluded(), seed, i, true);
+            w.fitter().setData(toy);
+            FitResult r = w.fitter().fit(fitted, -1, 0);
+            return PoiProfile.minimumFound(r) ? statistic(m, toy, r.values(), null) : Double.NaN;
+        }
     }
 }

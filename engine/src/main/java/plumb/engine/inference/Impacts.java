@@ -198,20 +198,20 @@ public final class Impacts {
      * @param progress called with the number of finished refits (from worker threads), or null
      */
     public List<Entry> rank(int exactTop, int threads, IntConsumer progress) {
+        return rank(exactTop, WorkRunner.threads(threads), progress);
+    }
+
+    /** As {@link #rank(int, int, IntConsumer)}, the refits run by {@code runner} (threads or a cluster; the same numbers). */
+    public List<Entry> rank(int exactTop, WorkRunner runner, IntConsumer progress) {
         List<Entry> lin = linearised();
         int n = exactTop < 0 ? lin.size() : Math.min(exactTop, lin.size());
         List<Entry> chosen = lin.subList(0, n);
         int poi = m.poi;
-        Refits refits = new Refits(m, best, dim, anyGamma() ? fullCovariance() : null);
-        List<FitResult> fits = ParallelRunner.run(4 * n, threads,
-                () -> Fitter.valuesOnly(m, data, Refits.refitSettings(settings), held, heldValues),
-                (fitter, t) -> {
-                    int k = chosen.get(t / 4).parameter();
-                    double v = best.values()[k];
-                    double d = (t % 4) < 2 ? best.errors()[k] : m.prefitWidth[k];
-                    double target = refits.clip(k, (t % 2) == 0 ? v + d : v - d);
-                    return refits.refit(fitter, k, target);
-                }, progress);
+        int[] parameters = new int[n];
+        for (int e = 0; e < n; e++) parameters[e] = chosen.get(e).parameter();
+        RefitWork work = new RefitWork(data, Refits.refitSettings(settings), held, heldValues, best, dim,
+                anyGamma() ? fullCovariance() : null, parameters);
+        List<RefitPoi> fits = runner.run(m, work, 4 * n, progress);
         List<Entry> out = new ArrayList<>(lin.size());
         for (int e = 0; e < n; e++) {
             Entry l = chosen.get(e);
@@ -224,10 +224,43 @@ public final class Impacts {
         return out;
     }
 
-    private Shift shift(FitResult up, FitResult down, int poi) {
+    /** What the ranking keeps of a refit: its status and POI value. */
+    private record RefitPoi(MinimumStatus status, double poi) implements java.io.Serializable {
+        boolean converged() {
+            return status.isMinimum();
+        }
+    }
+
+    /**
+     * Refit t: parameter {@code parameters[t / 4]} held at best ± post-fit error (t % 4 = 0, 1)
+     * or ± pre-fit width (2, 3), warm-started from the best fit.
+     */
+    private record RefitWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, FitResult best,
+                             int dim, double[] full, int[] parameters)
+            implements RangeWork<RefitWork.Worker, RefitPoi> {
+
+        record Worker(Fitter fitter, Refits refits) { }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            return new Worker(Fitter.valuesOnly(m, data, settings, held, heldValues), new Refits(m, best, dim, full));
+        }
+
+        @Override
+        public RefitPoi run(Worker w, CompiledModel m, int t) {
+            int k = parameters[t / 4];
+            double v = best.values()[k];
+            double d = (t % 4) < 2 ? best.errors()[k] : m.prefitWidth[k];
+            double target = w.refits().clip(k, (t % 2) == 0 ? v + d : v - d);
+            FitResult r = w.refits().refit(w.fitter(), k, target);
+            return new RefitPoi(r.status(), r.values()[m.poi]);
+        }
+    }
+
+    private Shift shift(RefitPoi up, RefitPoi down, int poi) {
         double b = best.values()[poi];
-        return new Shift(up.converged() ? up.values()[poi] - b : Double.NaN,
-                down.converged() ? down.values()[poi] - b : Double.NaN, up.status(), down.status());
+        return new Shift(up.converged() ? up.poi() - b : Double.NaN,
+                down.converged() ? down.poi() - b : Double.NaN, up.status(), down.status());
     }
 
     private double pull(int k) {

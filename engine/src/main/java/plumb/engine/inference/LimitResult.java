@@ -20,7 +20,7 @@ import java.util.List;
  */
 public record LimitResult(double cl, String method, double observed, ExpectedBands expected, double observedError,
                           ExpectedBands expectedError, double muHat, List<ClsPoint> points, int toys, int failedToys,
-                          int fits, double seconds) {
+                          int fits, double seconds) implements java.io.Serializable {
 
     public LimitResult {
         points = List.copyOf(points);
@@ -40,5 +40,6 @@ public record LimitResult(double cl, String method, double observed, ExpectedBan
      * @param expectedCls CLs of each expected band at this μ (order of {@link ExpectedBands#N})
      */
     public record ClsPoint(double mu, double qObserved, double clsb, double clb, double cls, double clsError,
-                           int toysSb, int toysB, double[] expectedCls) { }
+                           int toysSb, int toysB, double[] expectedCls)
+            implements java.io.Serializable { }
 }

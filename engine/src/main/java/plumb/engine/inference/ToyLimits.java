@@ -73,7 +73,15 @@ public final class ToyLimits {
      * @throws InferenceException when a fit to the data fails or a limit cannot be bracketed
      */
     public static LimitResult compute(Request r, IntConsumer progress) {
-        return new Run(r, progress).limit();
+        return compute(r, WorkRunner.threads(r.threads()), progress);
+    }
+
+    /**
+     * As {@link #compute(Request, IntConsumer)}, each set of toys run by {@code runner} (threads or
+     * a cluster; the same numbers either way). The adaptive choice of μ values stays here.
+     */
+    public static LimitResult compute(Request r, WorkRunner runner, IntConsumer progress) {
+        return new Run(r, runner, progress).limit();
     }
 
     /** Toy tasks per μ value tested (both hypotheses). */
@@ -84,10 +92,137 @@ public final class ToyLimits {
     /** A toy of the background-only set, drawn once: its data and best fit (null when it failed). */
     private record BackgroundToy(DataSet data, FitResult best) { }
 
+    /** A toy's outcome: a value (q̃μ, or 0 for a usable background fit; NaN when a fit failed) and the fits made. */
+    private record Outcome(double value, int fits) implements java.io.Serializable { }
+
+    /** What both toy sets share: the fitter's settings, the channels toys fill, the background-only stream. */
+    private record Common(DataSet fitterData, FitSettings settings, int[] held, double[] heldValues, boolean[] channels,
+                          double[] generatingZero, long seedB) implements java.io.Serializable {
+
+        Fitter fitter(CompiledModel m) {
+            return Fitter.valuesOnly(m, fitterData, settings, held, heldValues);
+        }
+
+        /** Background-only toy i with its best fit (null when the fit found no minimum) and the fits made. */
+        BackgroundToy background(CompiledModel m, Fitter fitter, double[] expectedZero, int i) {
+            DataSet toy = Toys.generate(m, expectedZero, generatingZero, channels, seedB, i, true);
+            fitter.setData(toy);
+            FitResult best = fitter.fit(generatingZero, -1, 0);
+            return new BackgroundToy(toy, PoiProfile.minimumFound(best) ? best : null);
+        }
+    }
+
+    /**
+     * The background-only toys, drawn and fitted once. On threads of this process each toy is kept
+     * ({@code keep}, not shipped) for the μ values tested later; in a cluster those recompute it.
+     */
+    private static final class BackgroundWork implements RangeWork<BackgroundWork.Worker, Outcome> {
+        private final Common c;
+        private final transient BackgroundToy[] keep;
+
+        BackgroundWork(Common c, BackgroundToy[] keep) {
+            this.c = c;
+            this.keep = keep;
+        }
+
+        record Worker(Fitter fitter, double[] expectedZero) { }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            return new Worker(c.fitter(m), DataSets.expectedCounts(m, c.generatingZero));
+        }
+
+        @Override
+        public Outcome run(Worker w, CompiledModel m, int i) {
+            BackgroundToy t = c.background(m, w.fitter(), w.expectedZero(), i);
+            if (keep != null) keep[i] = t;
+            return new Outcome(t.best() == null ? Double.NaN : 0, 1);
+        }
+    }
+
+    /**
+     * Both toy sets at one μ: indices 0 .. n−1 the signal-plus-background toys, n .. 2n−1 the
+     * background-only ones (taken from {@code background} when it is at hand, else drawn and
+     * fitted again: the same numbers, not counted twice).
+     */
+    private static final class PointWork implements RangeWork<PointWork.Worker, Outcome> {
+        private final Common c;
+        private final double mu;
+        private final double[] generating;
+        private final long seedSb;
+        private final int n;
+        private final transient BackgroundToy[] background;
+
+        PointWork(Common c, double mu, double[] generating, long seedSb, int n, BackgroundToy[] background) {
+            this.c = c;
+            this.mu = mu;
+            this.generating = generating;
+            this.seedSb = seedSb;
+            this.n = n;
+            this.background = background;
+        }
+
+        static final class Worker {
+            final Fitter fitter;
+            final double[] expected;
+            double[] expectedZero;
+
+            Worker(Fitter fitter, double[] expected) {
+                this.fitter = fitter;
+                this.expected = expected;
+            }
+        }
+
+        @Override
+        public Worker worker(CompiledModel m) {
+            return new Worker(c.fitter(m), DataSets.expectedCounts(m, generating));
+        }
+
+        @Override
+        public Outcome run(Worker w, CompiledModel m, int i) {
+            int[] fits = new int[1];
+            if (i < n) {
+                w.fitter.setData(Toys.generate(m, w.expected, generating, c.channels, seedSb, i, true));
+                FitResult best = w.fitter.fit(generating, -1, 0);
+                fits[0]++;
+                double q = PoiProfile.minimumFound(best) ? qTilde(m, w.fitter, best, mu, fits) : Double.NaN;
+                return new Outcome(q, fits[0]);
+            }
+            BackgroundToy toy;
+            if (background != null) {
+                toy = background[i - n];
+                w.fitter.setData(toy.data());
+            } else {
+                if (w.expectedZero == null) w.expectedZero = DataSets.expectedCounts(m, c.generatingZero);
+                toy = c.background(m, w.fitter, w.expectedZero, i - n);
+            }
+            if (toy.best() == null) return new Outcome(Double.NaN, 0);
+            double q = qTilde(m, w.fitter, toy.best(), mu, fits);
+            return new Outcome(q, fits[0]);
+        }
+    }
+
+    /** q̃μ of the fitter's data given its best fit; NaN when a fit fails. Adds the fits made to {@code fits[0]}. */
+    private static double qTilde(CompiledModel m, Fitter fitter, FitResult best, double mu, int[] fits) {
+        double muHat = best.values()[m.poi];
+        if (muHat > mu) return 0;
+        double denominator = best.nll();
+        if (muHat < 0) {   // only with a POI range below 0: the q̃μ denominator is L(0, θ̂̂(0))
+            FitResult zero = fitter.fit(best.values(), m.poi, 0);
+            fits[0]++;
+            if (!PoiProfile.minimumFound(zero)) return Double.NaN;
+            denominator = zero.nll();
+        }
+        FitResult at = fitter.fit(best.values(), m.poi, mu);
+        fits[0]++;
+        return PoiProfile.minimumFound(at) ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
+    }
+
     private static final class Run {
         final Request r;
         final CompiledModel m;
         final IntConsumer progress;
+        final WorkRunner runner;
         final AtomicInteger done = new AtomicInteger();
         final AtomicInteger fits = new AtomicInteger();
         final boolean[] channels;
@@ -96,12 +231,15 @@ public final class ToyLimits {
         final double lo, hi, alpha;
         final List<LimitResult.ClsPoint> points = new ArrayList<>();
         BackgroundToy[] background;
+        boolean[] backgroundFailed;
+        Common common;
         double[] generatingZero;
         int failed;
 
-        Run(Request r, IntConsumer progress) {
+        Run(Request r, WorkRunner runner, IntConsumer progress) {
             this.r = r;
             this.m = r.model();
+            this.runner = runner;
             this.progress = progress;
             if (r.data() != null) {
                 channels = r.data().channelIncluded().clone();
@@ -212,52 +350,45 @@ public final class ToyLimits {
         }
 
         void throwBackgroundToys() {
-            double[] expected = DataSets.expectedCounts(m, generatingZero);
             long seed = Toys.toySeed(r.seed() ^ STREAM_B, 0);
-            List<BackgroundToy> toys = ParallelRunner.run(r.toys(), r.threads(), this::newFitter, (fitter, i) -> {
-                DataSet toy = Toys.generate(m, expected, generatingZero, channels, seed, i, true);
-                fitter.setData(toy);
-                FitResult best = fitter.fit(generatingZero, -1, 0);
-                fits.incrementAndGet();
-                return new BackgroundToy(toy, PoiProfile.minimumFound(best) ? best : null);
-            }, this::tick);
-            background = toys.toArray(new BackgroundToy[0]);
-            for (BackgroundToy t : background) if (t.best() == null) failed++;
+            common = new Common(r.data() != null ? r.data() : r.asimovZero(), r.settings(), r.held(), r.heldValues(),
+                    channels, generatingZero, seed);
+            background = new BackgroundToy[r.toys()];
+            List<Outcome> out = runTasks(new BackgroundWork(common, background), r.toys());
+            for (Outcome o : out) {
+                fits.addAndGet(o.fits());
+                if (Double.isNaN(o.value())) failed++;
+            }
+            backgroundFailed = new boolean[r.toys()];
+            for (int i = 0; i < backgroundFailed.length; i++) backgroundFailed[i] = Double.isNaN(out.get(i).value());
+            if (background.length > 0 && background[0] == null) background = null;   // ran elsewhere: not at hand
         }
 
-        Fitter newFitter() {
-            return Fitter.valuesOnly(m, r.data() != null ? r.data() : r.asimovZero(), r.settings(), r.held(), r.heldValues());
-        }
-
-        void tick(int ignored) {
-            int d = done.incrementAndGet();
-            if (progress != null) progress.accept(d);
+        /** Runs one set of toy tasks, the progress counted on from the sets before. */
+        List<Outcome> runTasks(RangeWork<?, Outcome> work, int count) {
+            int base = done.get();
+            List<Outcome> out = runner.run(m, work, count, progress == null ? null : d -> progress.accept(base + d));
+            done.set(base + count);
+            return out;
         }
 
         /** Throws both toy sets at μ and stores its CLs point (kept sorted by μ). */
         void addPoint(double mu) {
             double[] generating = generatingPoint(mu);
-            double[] expected = DataSets.expectedCounts(m, generating);
             long seedSb = Toys.toySeed(r.seed() ^ STREAM_SB, 0);
             int n = r.toys();
-            List<Double> q = ParallelRunner.run(2 * n, r.threads(), this::newFitter, (fitter, i) -> {
-                if (i < n) {
-                    fitter.setData(Toys.generate(m, expected, generating, channels, seedSb, i, true));
-                    FitResult best = fitter.fit(generating, -1, 0);
-                    fits.incrementAndGet();
-                    return PoiProfile.minimumFound(best) ? qTilde(fitter, best, mu) : Double.NaN;
-                }
-                BackgroundToy toy = background[i - n];
-                if (toy.best() == null) return Double.NaN;
-                fitter.setData(toy.data());
-                return qTilde(fitter, toy.best(), mu);
-            }, this::tick);
+            List<Outcome> out = runTasks(new PointWork(common, mu, generating, seedSb, n, background), 2 * n);
+            List<Double> q = new ArrayList<>(2 * n);
+            for (Outcome o : out) {
+                q.add(o.value());
+                fits.addAndGet(o.fits());
+            }
             double[] qSb = new double[n], qB = new double[n];
             for (int i = 0; i < n; i++) {
                 qSb[i] = q.get(i);
                 qB[i] = q.get(n + i);
                 if (Double.isNaN(qSb[i])) failed++;
-                if (Double.isNaN(qB[i]) && background[i].best() != null) failed++;
+                if (Double.isNaN(qB[i]) && !backgroundFailed[i]) failed++;
             }
             double qObs = observed == null ? Double.NaN : observed.qTilde(mu);
             double[] sb = fraction(qSb, qObs), b = fraction(qB, qObs);
@@ -273,22 +404,6 @@ public final class ToyLimits {
             points.add(new LimitResult.ClsPoint(mu, qObs, sb[0], b[0], cls[0], cls[1], (int) sb[2], (int) b[2],
                     expectedCls));
             points.sort(Comparator.comparingDouble(LimitResult.ClsPoint::mu));
-        }
-
-        /** q̃μ of the fitter's data given its best fit; NaN when a fit fails. */
-        double qTilde(Fitter fitter, FitResult best, double mu) {
-            double muHat = best.values()[m.poi];
-            if (muHat > mu) return 0;
-            double denominator = best.nll();
-            if (muHat < 0) {   // only with a POI range below 0: the q̃μ denominator is L(0, θ̂̂(0))
-                FitResult zero = fitter.fit(best.values(), m.poi, 0);
-                fits.incrementAndGet();
-                if (!PoiProfile.minimumFound(zero)) return Double.NaN;
-                denominator = zero.nll();
-            }
-            FitResult at = fitter.fit(best.values(), m.poi, mu);
-            fits.incrementAndGet();
-            return PoiProfile.minimumFound(at) ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
         }
 
         /**

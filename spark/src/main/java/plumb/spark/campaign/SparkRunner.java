@@ -51,6 +51,9 @@ public final class SparkRunner implements WorkRunner {
      */
     static volatile int failFirstAttemptOf = -1;
 
+    /** Failures injected so far (executors of an embedded run share this process). */
+    static final java.util.concurrent.atomic.AtomicInteger INJECTED = new java.util.concurrent.atomic.AtomicInteger();
+
     private final JavaSparkContext sc;
     private final String master;
     private final Map<CompiledModel, ModelBytes.Shared> broadcasts = new IdentityHashMap<>();
@@ -83,8 +86,10 @@ public final class SparkRunner implements WorkRunner {
             t.setDaemon(true);
             return t;
         });
+        AtomicReference<JavaSparkContext> started = new AtomicReference<>();
         Future<JavaSparkContext> f = starter.submit(() -> {
             JavaSparkContext sc = JavaSparkContext.fromSparkContext(SparkContext.getOrCreate(conf(effective)));
+            started.set(sc);
             sc.parallelize(List.of(1), 1).count();   // a first task: the master and an executor answer
             return sc;
         });
@@ -93,15 +98,36 @@ public final class SparkRunner implements WorkRunner {
             return new SparkRunner(f.get(timeoutSeconds, TimeUnit.SECONDS), master);
         } catch (TimeoutException e) {
             f.cancel(true);
+            stopQuietly(started.get());
             throw new ComputationException(String.format(Locale.ROOT,
                     "--spark %s: no answer from the master or no executor within %d s (--spark-timeout)", master, timeoutSeconds));
         } catch (ExecutionException e) {
+            stopQuietly(started.get());
             Throwable t = e.getCause();
             String why = t.getMessage() == null ? t.getClass().getSimpleName() : t.getMessage().lines().findFirst().orElse("");
             throw new ComputationException("--spark " + master + ": Spark did not start: " + why);
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             throw new ComputationException("--spark " + master + ": interrupted while starting Spark");
+        }
+    }
+
+    /** Stops a context that started but did not answer, waiting a few seconds at most (it may hang). */
+    private static void stopQuietly(JavaSparkContext sc) {
+        if (sc == null) return;
+        Thread t = new Thread(() -> {
+            try {
+                sc.stop();
+            } catch (RuntimeException ignored) {
+                // already failing: the one-line message is what the user sees
+            }
+        }, "plumb-spark-stop");
+        t.setDaemon(true);
+        t.start();
+        try {
+            t.join(10_000);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
         }
     }
 
@@ -251,6 +277,7 @@ public final class SparkRunner implements WorkRunner {
     private static void injectedFailure(IndexRange range, int failTask) {
         TaskContext c = TaskContext.get();
         if (range.task() == failTask && c != null && c.attemptNumber() == 0) {
+            INJECTED.incrementAndGet();
             throw new IllegalStateException("injected failure of task " + failTask + " on its first attempt");
         }
     }
