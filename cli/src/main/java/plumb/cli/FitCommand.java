@@ -42,6 +42,14 @@ final class FitCommand implements Callable<Integer> {
             description = "Add asymmetric 68%% profile-likelihood intervals (errorLow/errorHigh) for the POI and the parameters named.")
     List<String> intervals;
 
+    @Option(names = "--starts", paramLabel = "N",
+            description = "Also fit from N seeded random starts (--seed) within ±2 pre-fit widths of the nominal values, "
+                    + "keep the lowest minimum and list the distinct minima found.")
+    Integer starts;
+
+    /** More random starts than anyone waits for: a typo, refused. */
+    static final int MAX_STARTS = 100_000;
+
     @Spec CommandSpec spec;
 
     @Override
@@ -49,14 +57,22 @@ final class FitCommand implements Callable<Integer> {
         CompiledModel m = input.load().compiled();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         int[] intervalParams = intervals == null ? new int[0] : ProfileIntervals.resolve(m, p, intervals);
-        FitResult r = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
-        Map<Integer, double[]> profile = intervals == null || !r.converged() ? Map.of()
-                : ProfileIntervals.compute(m, p, r, intervalParams, fit.threadCount());
+        if (starts != null && (starts < 0 || starts > MAX_STARTS)) {
+            throw new InputException("--starts " + starts + ": must be between 0 and " + MAX_STARTS);
+        }
+        Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
+        FitResult r = starts == null ? fitter.fit() : fitter.fitWithRandomStarts(starts, fit.seed);
+        Map<Integer, double[]> profile = ProfileIntervals.withKinks(m, p, r, intervalParams, fit.threadCount());
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(ProfileIntervals.addTo(toJson(m, p, r), m, profile)), out);
+        if (json != null) {
+            ObjectNode root = ProfileIntervals.addTo(toJson(m, p, r), m, profile);
+            if (starts != null) root.put("starts", starts);
+            Outputs.write(json, Json.write(root), out);
+        }
         if (!"-".equals(json)) {
             printTable(out, m, p, r);
             ProfileIntervals.print(out, m, r, profile);
+            printOtherMinima(out, m, r);
         }
         if (!r.converged()) {
             spec.commandLine().getErr().printf("plumb fit: the fit did not converge (%s)%n", r.status());
@@ -84,6 +100,20 @@ final class FitCommand implements Callable<Integer> {
             Json.put(o, "pull", pull(m, r, i));
             Json.put(o, "constraint", constraint(m, r, i));
             o.put("fixed", r.held()[i]);
+            o.put("atKink", r.atKink()[i]);
+        }
+        root.put("severalMinima", r.severalMinima());
+        ArrayNode others = root.putArray("otherMinima");
+        for (FitResult.OtherMinimum o : r.otherMinima()) {
+            ObjectNode e = others.addObject();
+            Json.put(e, "deltaNll", o.deltaNll());
+            ArrayNode differ = e.putArray("differences");
+            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
+                ObjectNode d = differ.addObject();
+                d.put("name", m.parameterNames[i]);
+                Json.put(d, "value", o.values()[i]);
+                Json.put(d, "bestValue", r.values()[i]);
+            }
         }
         ObjectNode corr = root.putObject("correlation");
         List<Integer> free = new ArrayList<>();
@@ -99,6 +129,53 @@ final class FitCommand implements Callable<Integer> {
         timing.put("seconds", r.seconds());
         timing.put("evaluations", r.evaluations());
         return root;
+    }
+
+    /** Parameters listed per other minimum: those that differ most from the best fit. */
+    static final int MOST_DIFFERENT = 3;
+
+    /** The other minima the fit met, and why parameters on a kink carry a profile interval. */
+    static void printOtherMinima(PrintWriter out, CompiledModel m, FitResult r) {
+        if (r.anyAtKink()) {
+            out.println("on kink: the minimum lies on the kink of a linear or exponential interpolation at 0; the symmetric");
+            out.println("  error is one side's curvature, the profile-likelihood interval above spans the kink.");
+        }
+        if (!r.severalMinima()) {
+            out.flush();
+            return;
+        }
+        out.printf(Locale.ROOT, "several minima: -ln L has %d other minim%s; the fit reports the lowest.%n",
+                r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a");
+        for (FitResult.OtherMinimum o : r.otherMinima()) {
+            StringBuilder b = new StringBuilder();
+            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
+                b.append(b.length() == 0 ? "" : ", ").append(m.parameterNames[i]).append(' ')
+                        .append(Numbers.fixed(o.values()[i], 2)).append(" (here ").append(Numbers.fixed(r.values()[i], 2))
+                        .append(')');
+            }
+            out.printf(Locale.ROOT, "  dNLL = +%s at %s%n", String.format(Locale.ROOT, "%.6f", o.deltaNll()), b);
+        }
+        out.flush();
+    }
+
+    /** Warnings for the report's run summary: other minima met, parameters ending on a kink. */
+    static List<String> minimaWarnings(CompiledModel m, FitResult r) {
+        List<String> out = new ArrayList<>();
+        if (r.severalMinima()) {
+            FitResult.OtherMinimum o = r.otherMinima().get(0);
+            List<String> names = new ArrayList<>();
+            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) names.add(m.parameterNames[i]);
+            out.add(String.format(Locale.ROOT, "the model has several minima: the fit met %d other minim%s of -ln L "
+                            + "(the nearest %.4g above, differing most in %s); results use the lowest",
+                    r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a", o.deltaNll(), String.join(", ", names)));
+        }
+        for (int i = 0; i < m.nAll; i++) {
+            if (r.atKink()[i]) {
+                out.add(String.format(Locale.ROOT, "%s ends on the kink of its interpolation at 0: its symmetric error is one "
+                        + "side's curvature; fit.json carries its profile interval", m.parameterNames[i]));
+            }
+        }
+        return out;
     }
 
     /** (value − prefitValue)/prefitWidth, NaN for free parameters. */
@@ -135,7 +212,8 @@ final class FitCommand implements Callable<Integer> {
                 hiddenBinFactors++;
                 continue;
             }
-            String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained" : "");
+            String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained " : "")
+                    + (r.atKink()[i] ? "on kink" : "");
             t.row(m.parameterNames[i],
                     r.held()[i] ? Table.number(r.values()[i], 4) + " (fixed)" : Table.measurement(r.values()[i], r.errors()[i]),
                     decimals(pull), decimals(cons), flags.strip());

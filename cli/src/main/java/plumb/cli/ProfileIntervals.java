@@ -54,6 +54,20 @@ final class ProfileIntervals {
         return out;
     }
 
+    /**
+     * The intervals asked for and those of every parameter that ends on an interpolation kink,
+     * whose symmetric error is the curvature of one side only; none when the fit did not converge.
+     */
+    static Map<Integer, double[]> withKinks(CompiledModel m, FitOptions.Prepared p, FitResult best, int[] asked,
+                                            int threads) {
+        if (!best.converged()) return Map.of();
+        Set<Integer> params = new LinkedHashSet<>();
+        for (int k : asked) params.add(k);
+        for (int k = 0; k < m.nAll; k++) if (best.atKink()[k]) params.add(k);
+        if (params.isEmpty()) return Map.of();
+        return compute(m, p, best, params.stream().mapToInt(Integer::intValue).toArray(), threads);
+    }
+
     static ObjectNode addTo(ObjectNode root, CompiledModel m, Map<Integer, double[]> profile) {
         if (profile.isEmpty()) return root;
         for (JsonNode node : root.withArray("parameters")) {

@@ -103,7 +103,9 @@ final class ReportJob {
 
         Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
         FitResult best = fitter.fit();
-        attach("fit", FitCommand.toJson(m, p, best));
+        attach("fit", ProfileIntervals.addTo(FitCommand.toJson(m, p, best), m,
+                ProfileIntervals.withKinks(m, p, best, new int[0], threads)));
+        warnings.addAll(FitCommand.minimaWarnings(m, best));
         if (!best.converged()) nonConverged.add("best fit (" + best.status() + ")");
         ReportInput in = ReportInput.of(new RunSummary(m.name, null, null, null, null, null, null, 0, null, null, null))
                 .withFit(ReportAssembler.fit(m, best));

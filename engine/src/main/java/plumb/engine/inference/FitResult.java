@@ -1,5 +1,6 @@
 package plumb.engine.inference;
 
+import plumb.engine.compile.CompiledModel;
 import plumb.engine.minimise.MinimumStatus;
 
 import java.util.List;
@@ -40,7 +41,30 @@ public record FitResult(MinimumStatus status, double nll, double[] values, doubl
      * @param deltaNll its −ln L minus the reported fit's (&gt; 0)
      * @param values every parameter (nAll) there
      */
-    public record OtherMinimum(double deltaNll, double[] values) implements java.io.Serializable { }
+    public record OtherMinimum(double deltaNll, double[] values) implements java.io.Serializable {
+
+        /**
+         * The {@code count} parameters whose values differ most from {@code best}'s, largest first:
+         * the difference in pre-fit widths for constrained parameters, in the best fit's errors for
+         * free ones (in units when there is no error).
+         */
+        public int[] mostDifferent(CompiledModel m, FitResult best, int count) {
+            Integer[] order = new Integer[values.length];
+            double[] size = new double[values.length];
+            for (int i = 0; i < values.length; i++) {
+                order[i] = i;
+                double w = m.constrained(i) ? m.prefitWidth[i] : best.errors()[i];
+                double scale = w > 0 && Double.isFinite(w) ? w : 1;
+                size[i] = best.held()[i] ? 0 : Math.abs(values[i] - best.values()[i]) / scale;
+            }
+            java.util.Arrays.sort(order, (a, b) -> Double.compare(size[b], size[a]));
+            int n = 0;
+            while (n < Math.min(count, order.length) && size[order[n]] > 0) n++;
+            int[] out = new int[n];
+            for (int k = 0; k < n; k++) out[k] = order[k];
+            return out;
+        }
+    }
 
     public boolean converged() {
         return status.isMinimum();

@@ -192,6 +192,19 @@ public final class Fitter {
         return toResult(best, held, System.nanoTime() - t0, others);
     }
 
+    /**
+     * A fit from the nominal values and from {@code extra} seeded random starts
+     * ({@link RandomStarts}), keeping the lowest minimum; the distinct minima met are in
+     * {@link FitResult#otherMinima()}.
+     */
+    public FitResult fitWithRandomStarts(int extra, long seed) {
+        double[][] random = RandomStarts.around(m, baseStart, baseHeld, extra, seed);
+        double[][] starts = new double[extra + 1][];
+        starts[0] = baseStart;
+        System.arraycopy(random, 0, starts, 1, extra);
+        return fitFrom(starts, new int[0], new double[0]);
+    }
+
     /** Whether a is a better end than b: a minimum beats a failure, then the lower −ln L wins. */
     private static boolean better(MinimumResult a, MinimumResult b) {
         if (a.converged() != b.converged()) return a.converged();
