@@ -238,6 +238,7 @@ public final class CompiledModel implements java.io.Serializable {
         b.prefitWidth = prefitWidth;
         b.fixed = fixed;
         b.kinked = kinked;
+        b.oneSided = oneSided;
         b.constraintType = constraintType;
         b.gammaBin = gammaBin;
         b.binGamma = binGamma;

@@ -34,6 +34,19 @@ class ModelVariantsTest {
         }
     }
 
+    /** A variant carries every field of the model (a field added to the model but not to the copy would be null). */
+    @Test
+    void variantsCopyEveryField() throws IllegalAccessException {
+        CompiledModel copy = ModelVariants.constraintsScaled(m, new int[0], 1.0);
+        for (java.lang.reflect.Field f : CompiledModel.class.getFields()) {
+            if (java.lang.reflect.Modifier.isStatic(f.getModifiers())) continue;
+            Object a = f.get(m), b = f.get(copy);
+            if (a == null) continue;
+            assertEquals(a.getClass(), b == null ? null : b.getClass(), f.getName());
+            if (!a.getClass().isArray()) assertEquals(a, b, f.getName());
+        }
+    }
+
     @Test
     void scaledConstraintsChangeOnlyTheNamedWidths() {
         int[] some = {m.indexOf("bkgNorm"), m.indexOf("lumi")};
