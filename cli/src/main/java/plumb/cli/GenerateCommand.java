@@ -5,12 +5,11 @@ import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.cli.io.AtomicFiles;
+import plumb.engine.model.Model;
 import plumb.engine.model.ModelWriter;
 import plumb.models.SyntheticModels;
 
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
-import java.nio.charset.StandardCharsets;
 import java.util.zip.GZIPOutputStream;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
@@ -43,31 +42,30 @@ final class GenerateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        byte[] text;
+        Model model;
         try {
-            text = ModelWriter.toJson(SyntheticModels.generate(channels, bins, samples, nuisances, seed))
-                    .getBytes(StandardCharsets.UTF_8);
+            model = SyntheticModels.generate(channels, bins, samples, nuisances, seed);
         } catch (IllegalArgumentException e) {
             throw new InputException(e.getMessage());
         }
-        // through AtomicFiles: a device or pipe named by --out is written into, never replaced
+        // through AtomicFiles: a device or pipe named by --out is written into, never replaced;
+        // the text is formatted straight into the stream (a large model is hundreds of megabytes)
         boolean gzip = out.getFileName() != null && out.getFileName().toString().endsWith(".json.gz");
         try {
-            byte[] bytes = gzip ? gzip(text) : text;
-            AtomicFiles.write(out, o -> o.write(bytes));
+            AtomicFiles.write(out, o -> {
+                if (gzip) {
+                    GZIPOutputStream z = new GZIPOutputStream(o, 1 << 16);
+                    ModelWriter.write(model, z);
+                    z.finish();
+                } else {
+                    ModelWriter.write(model, o);
+                }
+            });
         } catch (IOException e) {
             throw Outputs.cannotWrite(out, e);
         }
         spec.commandLine().getOut().printf("wrote %s (%d channels x %d bins, %d samples, %d nuisance parameters, seed %d)%n",
                 out, channels, bins, samples, nuisances, seed);
         return ExitCodes.OK;
-    }
-
-    private static byte[] gzip(byte[] text) throws IOException {
-        ByteArrayOutputStream buffer = new ByteArrayOutputStream(text.length / 4 + 64);
-        try (GZIPOutputStream z = new GZIPOutputStream(buffer)) {
-            z.write(text);
-        }
-        return buffer.toByteArray();
     }
 }

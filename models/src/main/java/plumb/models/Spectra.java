@@ -116,9 +116,47 @@ final class Spectra {
         return y;
     }
 
-    /** Six significant digits, by exact decimal arithmetic so that the result is the same everywhere. */
+    /**
+     * Six significant digits, half-even on the exact decimal value of x, so that the result is the
+     * same everywhere. Fast path: x scaled by an exact power of ten into [10⁵, 10⁶) is within
+     * 2·10⁻¹⁰ of its true value, so unless it lies within 10⁻⁶ of a rounding boundary the nearest
+     * integer r is the exact decimal rounding (also where the scaling error crosses 10⁵ or 10⁶: the
+     * digits then round to the same power of ten), and r / 10^k (one correctly rounded IEEE operation
+     * on exact operands) is the double BigDecimal gives. Near a boundary, exact decimal arithmetic.
+     * A generated model holds tens of millions of numbers; BigDecimal for each took most of the
+     * generation time.
+     */
     static double round(double x) {
         if (x == 0.0 || !Double.isFinite(x)) return x;
+        double ax = Math.abs(x);
+        int k = 5 - (int) Math.floor(Math.log10(ax));
+        if (k >= -22 && k <= 22) {
+            double p = POW10[Math.abs(k)];
+            double scaled = k >= 0 ? ax * p : ax / p;
+            if (scaled >= 1e5 && scaled < 1e6) {
+                double whole = Math.floor(scaled);
+                double frac = scaled - whole;
+                if (Math.abs(frac - 0.5) > 1e-6) {
+                    double r = frac > 0.5 ? whole + 1 : whole;
+                    double v = k >= 0 ? r / p : r * p;
+                    return x < 0 ? -v : v;
+                }
+            }
+        }
+        return exactRound(x);
+    }
+
+    /** Six significant digits by exact decimal arithmetic (the reference for {@link #round(double)}). */
+    static double exactRound(double x) {
+        if (x == 0.0 || !Double.isFinite(x)) return x;
         return new BigDecimal(x).round(DIGITS).doubleValue();
+    }
+
+    /** 10⁰ … 10²², each exact in a double. */
+    private static final double[] POW10 = new double[23];
+
+    static {
+        double p = 1;
+        for (int i = 0; i < POW10.length; i++, p *= 10) POW10[i] = p;
     }
 }
