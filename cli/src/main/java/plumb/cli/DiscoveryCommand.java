@@ -34,11 +34,29 @@ final class DiscoveryCommand implements Callable<Integer> {
     @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
     String json;
 
+    @picocli.CommandLine.Parameters(index = "1..*", arity = "0..*", paramLabel = "MORE",
+            description = "Further models, one per signal hypothesis: the local p-value across them and the global "
+                    + "significance of the largest excess (look-elsewhere effect).")
+    java.util.List<java.nio.file.Path> more;
+
+    @Option(names = "--label", paramLabel = "KEY",
+            description = "With several models: the label that orders them, e.g. mass (default: the first numeric label all have).")
+    String label;
+
+    @Option(names = "--reference", paramLabel = "C0", defaultValue = "0.5",
+            description = "With several models: reference level of q0 whose up-crossings are counted (default: ${DEFAULT-VALUE}).")
+    double reference;
+
+    @Option(names = "--figure", paramLabel = "DIR",
+            description = "With several models: draw the local p-value curve into DIR/local-p.png and .svg.")
+    String figure;
+
     @Spec CommandSpec spec;
 
     @Override
     public Integer call() {
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        if (more != null && !more.isEmpty()) return scan();
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
         DiscoveryTests c = compute(l, fit, toys, cluster);
@@ -48,6 +66,27 @@ final class DiscoveryCommand implements Callable<Integer> {
         PrintWriter out = spec.commandLine().getOut();
         if (json != null) Outputs.write(json, Json.write(toJson(m, c, fit.seed)), out);
         if (!"-".equals(json)) print(out, l, d, observed, expected, toy);
+        return ExitCodes.OK;
+    }
+
+    /** Several models: the scan, the look-elsewhere effect, its table, JSON and figure. */
+    private int scan() {
+        java.nio.file.Path figureDir = WhatIf.figureDir(figure);
+        java.util.List<java.nio.file.Path> files = new java.util.ArrayList<>();
+        files.add(input.file);
+        files.addAll(more);
+        DiscoveryScan.Result r = DiscoveryScan.compute(files, fit, label, reference, toys);
+        PrintWriter out = spec.commandLine().getOut();
+        if (json != null) Outputs.write(json, Json.write(DiscoveryScan.toJson(r)), out);
+        if (!"-".equals(json)) {
+            out.print(plumb.cli.table.TableFormat.TEXT.render(DiscoveryScan.table(r)));
+            out.print(DiscoveryScan.summary(r));
+        }
+        if (figureDir != null) {
+            WhatIf.writeFigure(figureDir, "local-p", plumb.cli.plot.LookElsewhereFigure.of(r.scan(), r.key(),
+                    r.toys() == null ? Double.NaN : r.toys().zGlobal()), out);
+        }
+        out.flush();
         return ExitCodes.OK;
     }
 

@@ -34,6 +34,15 @@ public final class CommandLineTestSupport {
         return new Run(status, out.toString(), err.toString());
     }
 
+    /** JSON text parsed. */
+    public static JsonNode readJsonText(String text) {
+        try {
+            return new ObjectMapper().readTree(text);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
     /** A JSON file parsed. */
     public static JsonNode readJson(Path file) {
         try {
