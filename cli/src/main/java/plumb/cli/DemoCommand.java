@@ -27,7 +27,7 @@ final class DemoCommand implements Callable<Integer> {
             description = "Directory of the model and report (default: ${DEFAULT-VALUE}).")
     Path out;
 
-    @Option(names = "--toys", paramLabel = "N", defaultValue = "" + ReportCommand.DEFAULT_TOYS,
+    @Option(names = "--toys", converter = OptionValues.NonNegative.class, paramLabel = "N", defaultValue = "" + ReportCommand.DEFAULT_TOYS,
             description = "Toys per injected value of the injection test (default: ${DEFAULT-VALUE}).")
     int toys;
 

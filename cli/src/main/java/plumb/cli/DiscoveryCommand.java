@@ -28,7 +28,7 @@ final class DiscoveryCommand implements Callable<Integer> {
 
     @Mixin ClusterOptions cluster;
 
-    @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N background-only toys.")
+    @Option(names = "--toys", converter = OptionValues.Positive.class, paramLabel = "N", description = "Also the p-value from N background-only toys.")
     Integer toys;
 
     @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
@@ -59,6 +59,7 @@ final class DiscoveryCommand implements Callable<Integer> {
         if (more != null && !more.isEmpty()) return scan();
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
+        if (toys != null) FitOptions.requireCount("--toys", toys, m);
         DiscoveryTests c = compute(l, fit, toys, cluster);
         PoiData d = c.data();
         Discovery.Significance observed = c.observed(), expected = c.expected();

@@ -5,6 +5,7 @@ import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.DataSets;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.FitSettings;
+import plumb.engine.inference.MemoryBudget;
 import plumb.engine.likelihood.DataSet;
 
 import java.util.ArrayList;
@@ -26,7 +27,7 @@ public final class FitOptions {
             description = "Fit the observed data or the Asimov data set (default: ${DEFAULT-VALUE}).")
     public DataChoice data;
 
-    @Option(names = "--asimov-poi", paramLabel = "X",
+    @Option(names = "--asimov-poi", converter = OptionValues.Finite.class, paramLabel = "X",
             description = "POI value of the Asimov data set (default: 1 for fits, 0 for limits).")
     public Double asimovPoi;
 
@@ -37,7 +38,7 @@ public final class FitOptions {
     @Option(names = "--fix", paramLabel = "NAME=X", description = "Hold a parameter at X (repeatable).")
     public List<String> fix = new ArrayList<>();
 
-    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (default: all cores).")
+    @Option(names = "--threads", converter = OptionValues.Positive.class, paramLabel = "N", description = "Worker threads (default: all cores).")
     public Integer threads;
 
     @Option(names = "--seed", paramLabel = "N", defaultValue = "1",
@@ -51,6 +52,19 @@ public final class FitOptions {
     @Option(names = "--explicit-mcstat",
             description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
     public boolean explicitMcStat;
+
+    /** Bytes one toy's or scan point's results are assumed to take: a record and the parameter values. */
+    static long bytesPerTask(CompiledModel m) {
+        return 256 + 8L * m.nAll;
+    }
+
+    /**
+     * Refuses {@code option n} (toys, scan points) when their results would not fit in the heap,
+     * in one line naming the option, the size and the heap limit (exit status 2).
+     */
+    public static void requireCount(String option, long n, CompiledModel m) {
+        MemoryBudget.require(MemoryBudget.times(n, bytesPerTask(m)), option + " " + n);
+    }
 
     /** Worker threads to use: --threads, or all cores. */
     public int threadCount() {
@@ -83,6 +97,10 @@ public final class FitOptions {
                 v = Double.parseDouble(f.substring(eq + 1));
             } catch (NumberFormatException e) {
                 throw new InputException("--fix " + f + ": '" + f.substring(eq + 1) + "' is not a number");
+            }
+            if (!Double.isFinite(v)) throw new InputException("--fix " + f + ": the value must be a finite number");
+            if (out.containsKey(i)) {
+                throw new InputException("--fix " + f + ": " + name + " is already held by an earlier --fix; give each parameter once");
             }
             if (!(v >= m.lower[i] && v <= m.upper[i])) {
                 throw new InputException(String.format(Locale.ROOT, "--fix %s: %s is outside the range [%s, %s] of %s",

@@ -30,7 +30,7 @@ final class GofCommand implements Callable<Integer> {
 
     @Mixin ClusterOptions cluster;
 
-    @Option(names = "--toys", paramLabel = "N", description = "Also the p-value from N toys drawn at the best fit.")
+    @Option(names = "--toys", converter = OptionValues.Positive.class, paramLabel = "N", description = "Also the p-value from N toys drawn at the best fit.")
     Integer toys;
 
     @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
@@ -43,6 +43,7 @@ final class GofCommand implements Callable<Integer> {
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
         ModelInput.Loaded l = input.load();
         CompiledModel m = l.compiled();
+        if (toys != null) FitOptions.requireCount("--toys", toys, m);
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         GofTests c = compute(m, p, fit, toys, cluster);
         GoodnessOfFit.Result r = c.result();

@@ -34,10 +34,10 @@ final class ImpactsCommand implements Callable<Integer> {
     @Option(names = "--json", paramLabel = "FILE", description = "Write the result as JSON ('-' for standard output).")
     String json;
 
-    @Option(names = "--top", paramLabel = "N", description = "Show only the N largest impacts in the table.")
+    @Option(names = "--top", converter = OptionValues.Positive.class, paramLabel = "N", description = "Show only the N largest impacts in the table.")
     Integer top;
 
-    @Option(names = "--exact-top", paramLabel = "N",
+    @Option(names = "--exact-top", converter = OptionValues.NonNegative.class, paramLabel = "N",
             description = "Refit only the N largest by the linearised ranking (default: all; 0: linearised only).")
     Integer exactTop;
 
@@ -52,6 +52,13 @@ final class ImpactsCommand implements Callable<Integer> {
         if (exactTop != null && exactTop < 0) throw new InputException("--exact-top must be at least 0, got " + exactTop);
         CompiledModel m = input.load().compiled();
         if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
+        // impacts are shifts of the fitted POI: with the POI held every shift would be zero
+        if (fit.fixes(m).containsKey(m.poi)) {
+            throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held; impacts are shifts of its fitted value");
+        }
+        if (m.fixed[m.poi]) {
+            throw new InputException(input.file + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model; impacts need it free");
+        }
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
         ImpactRanking c;

@@ -58,11 +58,11 @@ final class InjectCommand implements Callable<Integer> {
 
     @Mixin ClusterOptions cluster;
 
-    @Option(names = "--mu", required = true, split = ",", paramLabel = "X",
+    @Option(names = "--mu", converter = OptionValues.Finite.class, required = true, split = ",", paramLabel = "X",
             description = "Injected POI value(s); several give the linearity of fitted against injected.")
     List<Double> mu;
 
-    @Option(names = "--toys", paramLabel = "N",
+    @Option(names = "--toys", converter = OptionValues.NonNegative.class, paramLabel = "N",
             description = "Toys per injected value (default: " + DEFAULT_TOYS + ", or none with --asimov alone).")
     Integer toys;
 
@@ -86,7 +86,7 @@ final class InjectCommand implements Callable<Integer> {
     @Option(names = "--first", paramLabel = "K", description = "Batch mode: first toy index (default 0 with --count).")
     Long first;
 
-    @Option(names = "--count", paramLabel = "N",
+    @Option(names = "--count", converter = OptionValues.Positive.class, paramLabel = "N",
             description = "Batch mode: run toys K..K+N-1 and write a part file (--json) for 'plumb merge-toys'.")
     Integer count;
 
@@ -97,7 +97,7 @@ final class InjectCommand implements Callable<Integer> {
     @Option(names = "--fix", paramLabel = "NAME=X", description = "Hold a parameter at X in generation and fits (repeatable).")
     List<String> fix = new ArrayList<>();
 
-    @Option(names = "--threads", paramLabel = "N", description = "Worker threads (default: all cores); results do not depend on it.")
+    @Option(names = "--threads", converter = OptionValues.Positive.class, paramLabel = "N", description = "Worker threads (default: all cores); results do not depend on it.")
     Integer threads;
 
     @Option(names = "--seed", paramLabel = "N", defaultValue = "1",

@@ -51,11 +51,11 @@ final class LimitCommand implements Callable<Integer> {
 
     @Mixin ClusterOptions cluster;
 
-    @Option(names = "--cl", defaultValue = "0.95", paramLabel = "CL",
+    @Option(names = "--cl", converter = OptionValues.ConfidenceLevel.class, defaultValue = "0.95", paramLabel = "CL",
             description = "Confidence level, e.g. 0.95 or 0.90 (default: ${DEFAULT-VALUE}).")
     double cl;
 
-    @Option(names = "--toys", paramLabel = "N",
+    @Option(names = "--toys", converter = OptionValues.Positive.class, paramLabel = "N",
             description = "Toy-based CLs with N toys per hypothesis at each POI value tested.")
     Integer toys;
 
@@ -126,6 +126,7 @@ final class LimitCommand implements Callable<Integer> {
         List<Path> files = modelFiles(models);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : files) loaded.add(ModelInput.load(f));
+        if (toys != null) for (ModelInput.Loaded l : loaded) FitOptions.requireCount("--toys", toys, l.compiled());
         String key = labelKey(loaded);
         double[] xs = new double[loaded.size()];
         for (int i = 0; i < xs.length; i++) xs[i] = x(loaded.get(i), key);

@@ -4,6 +4,8 @@ import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 import plumb.cli.table.Escape;
+import plumb.engine.inference.InferenceException;
+import plumb.engine.inference.MemoryBudget;
 
 import java.io.PrintWriter;
 
@@ -48,7 +50,16 @@ public final class Main implements Runnable {
             err.flush();
             return ExitCodes.BAD_INPUT;
         }
-        return cl.execute(args);
+        try {
+            return cl.execute(args);
+        } catch (OutOfMemoryError e) {
+            // the estimates before each allocation should prevent this; if one was short, still one
+            // line and an exit, never a stack trace or a process left running
+            err.println("plumb: out of memory (heap limit " + MemoryBudget.human(Runtime.getRuntime().maxMemory())
+                    + "); give Java more with -Xmx, e.g. PLUMB_JAVA_OPTS=-Xmx16g, or ask for less");
+            err.flush();
+            return ExitCodes.FAILED;
+        }
     }
 
     /**
@@ -90,9 +101,9 @@ public final class Main implements Runnable {
             boolean debug = parseResult.hasMatchedOption("--debug")
                     || parseResult.subcommands().stream().anyMatch(p -> p.hasMatchedOption("--debug"));
             int code = ex instanceof plumb.engine.model.ModelException || ex instanceof InputException
-                    ? ExitCodes.BAD_INPUT : ExitCodes.FAILED;
+                    || ex instanceof MemoryBudget.TooLargeException ? ExitCodes.BAD_INPUT : ExitCodes.FAILED;
             String what = ex.getMessage() == null ? ex.getClass().getSimpleName() : ex.getMessage();
-            if (code == ExitCodes.FAILED && !(ex instanceof ComputationException)) {
+            if (code == ExitCodes.FAILED && !(ex instanceof ComputationException || ex instanceof InferenceException)) {
                 what = "internal error: " + what + (debug ? "" : " (run with --debug for details)");
             }
             // one line whatever a name in the message holds: control characters made visible

@@ -42,12 +42,12 @@ final class ReportCommand implements Callable<Integer> {
     @Option(names = "--out", required = true, paramLabel = "DIR", description = "Directory of the report (created when missing).")
     Path out;
 
-    @Option(names = "--toys", paramLabel = "N", defaultValue = "" + DEFAULT_TOYS,
+    @Option(names = "--toys", converter = OptionValues.NonNegative.class, paramLabel = "N", defaultValue = "" + DEFAULT_TOYS,
             description = "Toys per injected value (1, 2, 3) of the injection test; 0 for the Asimov closure only "
                     + "(default: ${DEFAULT-VALUE}).")
     int toys;
 
-    @Option(names = "--impacts-top", paramLabel = "N", defaultValue = "" + DEFAULT_IMPACTS_TOP,
+    @Option(names = "--impacts-top", converter = OptionValues.Positive.class, paramLabel = "N", defaultValue = "" + DEFAULT_IMPACTS_TOP,
             description = "Parameters whose impacts are refitted exactly and drawn; the rest are linearised (default: ${DEFAULT-VALUE}).")
     int impactsTop;
 

@@ -33,7 +33,7 @@ final class ScanCommand implements Callable<Integer> {
     @Option(names = "--parameter", paramLabel = "NAME", description = "Parameter to scan (default: the POI).")
     String parameter;
 
-    @Option(names = "--points", paramLabel = "N", defaultValue = "21", description = "Scan points (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--points", converter = OptionValues.ScanPoints.class, paramLabel = "N", defaultValue = "21", description = "Scan points (default: ${DEFAULT-VALUE}).")
     int points;
 
     @Option(names = "--range", paramLabel = "LO:HI",
@@ -50,6 +50,7 @@ final class ScanCommand implements Callable<Integer> {
         if (points < 2) throw new InputException("--points must be at least 2, got " + points);
         double[] lohi = range == null ? null : parseRange(range);
         CompiledModel m = input.load().compiled();
+        FitOptions.requireCount("--points", points, m);
         int k = resolve(m, parameter);
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         for (int h : p.held()) {

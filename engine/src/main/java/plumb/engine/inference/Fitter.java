@@ -44,6 +44,8 @@ public final class Fitter {
      */
     public Fitter(CompiledModel model, DataSet data, FitSettings settings, int[] held, double[] heldValues) {
         this.m = model;
+        // refused before any n×n matrix is made: one line instead of an OutOfMemoryError
+        MemoryBudget.requireFitter(settings.explicitGamma() ? model.nAll : model.nParams);
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
         this.kinkTolerance = settings.options().fallbackTolerance();
         this.dim = nll.dimension();

@@ -22,6 +22,9 @@ public final class ParallelRunner {
     private ParallelRunner() {
     }
 
+    /** Bytes a task's result is assumed to take at least: its slot and a small record. */
+    static final long SLOT_BYTES = 64;
+
     /** A task: computes the result of one index with the thread's worker. */
     @FunctionalInterface
     public interface Task<W, R> {
@@ -34,15 +37,24 @@ public final class ParallelRunner {
      * @param progress called once per finished task (from worker threads), or null
      */
     public static <W, R> List<R> run(int count, int threads, Supplier<W> workers, Task<W, R> task, IntConsumer progress) {
+        MemoryBudget.require(MemoryBudget.times(count, SLOT_BYTES), String.format(java.util.Locale.ROOT,
+                "keeping the results of %d tasks", count));
         Object[] results = new Object[count];
         int n = Math.max(1, Math.min(threads, count));
         AtomicInteger next = new AtomicInteger();
         AtomicInteger done = new AtomicInteger();
         Runnable loop = () -> {
-            W worker = workers.get();
-            for (int i; (i = next.getAndIncrement()) < count; ) {
-                results[i] = task.run(worker, i);
-                if (progress != null) progress.accept(done.incrementAndGet());
+            try {
+                W worker = workers.get();
+                for (int i; (i = next.getAndIncrement()) < count; ) {
+                    results[i] = task.run(worker, i);
+                    if (progress != null) progress.accept(done.incrementAndGet());
+                }
+            } catch (Throwable failure) {
+                // a failed worker (an OutOfMemoryError included) stops the others: no task is
+                // handed out after it, so the run ends with its failure instead of going on
+                next.set(count);
+                throw failure;
             }
         };
         if (n == 1) {
@@ -62,6 +74,7 @@ public final class ParallelRunner {
                 throw new IllegalStateException("interrupted", e);
             } catch (ExecutionException e) {
                 if (e.getCause() instanceof RuntimeException re) throw re;
+                if (e.getCause() instanceof Error error) throw error;
                 throw new IllegalStateException(e.getCause());
             } finally {
                 pool.shutdownNow();

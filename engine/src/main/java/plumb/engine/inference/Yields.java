@@ -64,6 +64,7 @@ public final class Yields {
     public static List<ChannelYields> compute(CompiledModel m, DataSet data, double[] prefitValues, boolean[] held,
                                               FitResult best, double[] postfitCov) {
         int nAll = m.nAll;
+        MemoryBudget.requireSquares(nAll, 2, "the yield errors of " + nAll + " parameters (MC statistics included)");
         double[] prefitCov = new double[nAll * nAll];
         for (int i = 0; i < nAll; i++) {
             if (m.constrained(i) && !held[i]) prefitCov[i * nAll + i] = m.prefitWidth[i] * m.prefitWidth[i];
