@@ -128,7 +128,7 @@ class InjectCommandTest {
     void badOptionsExitWithStatusTwo() {
         String m = model.toString();
         String[][] cases = {
-                {"--mu 11", "--mu"}, {"--mu 1 --toys 0", "--toys"}, {"--mu 1,1", "--mu"},
+                {"--mu 51", "--mu"}, {"--mu 1 --toys 0", "--toys"}, {"--mu 1,1", "--mu"},
                 {"--mu 1 --count 5", "--json"}, {"--mu 1 --first 3", "--count"},
                 {"--mu 1 --toys 2000000000", "memory"}, {"--mu 1 --fix mu=2", "--fix"},
                 {"--mu 1 --asimov --count 4 --json x.json", "--asimov"}};

@@ -123,7 +123,7 @@ public final class PoiProfile {
     /**
      * The statistic q̃μ for an upper limit: 0 when μ̂ &gt; μ, else 2[−ln L(μ, θ̂̂(μ)) + ln L(max(μ̂, 0), θ̂)],
      * where for μ̂ &lt; 0 the denominator is the conditional fit at μ = 0 (Cowan et al. eq. 16).
-     * With the POI's lower bound at 0 (the default range [0, 10]) the best fit cannot go below 0:
+     * With the POI's lower bound at 0 (the default range [0, 50]) the best fit cannot go below 0:
      * it already is L(0, θ̂̂(0)) whenever the unbounded μ̂ would be negative, so the bounded best
      * fit is exactly the q̃μ denominator and no extra fit is made. Rounding noise below 0 is
      * clipped.

@@ -8,14 +8,14 @@ import java.util.Map;
  * model's {@code parameters} overrides them.
  */
 public enum ParameterKind {
-    /** Used only in {@code factors}: value 1, range [0, 10], free. */
-    FACTOR(1, 0, 10),
-    /** A generated per-bin free factor ({@link BinFactors}): value 1, range [0, 10], free. */
-    BIN_FACTOR(1, 0, 10),
-    /** Used in a variation (perhaps also in {@code factors}): value 0, range [−5, 5], Gaussian(0, 1). */
-    VARIATION(0, -5, 5),
-    /** A generated MC-statistics γ_b ({@link McStatBins}): value 1, range [1e-10, 10]. */
-    MC_STATISTICS(1, 1e-10, 10);
+    /** Used only in {@code factors}: value 1, range [0, 50], free. */
+    FACTOR(1, 0, 50),
+    /** A generated per-bin free factor ({@link BinFactors}): value 1, range [0, 50], free. */
+    BIN_FACTOR(1, 0, 50),
+    /** Used in a variation (perhaps also in {@code factors}): value 0, range [−6, 6], Gaussian(0, 1). */
+    VARIATION(0, -6, 6),
+    /** A generated MC-statistics γ_b ({@link McStatBins}): value 1, range [1e-8, 20]. */
+    MC_STATISTICS(1, 1e-8, 20);
 
     private final double value;
     private final double low;

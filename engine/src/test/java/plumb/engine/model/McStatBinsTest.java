@@ -93,9 +93,9 @@ class McStatBinsTest {
     @Test
     void defaultsOfTheFormatPage() {
         // docs/model-format.md, "Parameters": value and range per kind
-        assertEquals(List.of(1.0, 0.0, 10.0), defaults(ParameterKind.FACTOR));
-        assertEquals(List.of(0.0, -5.0, 5.0), defaults(ParameterKind.VARIATION));
-        assertEquals(List.of(1.0, 1e-10, 10.0), defaults(ParameterKind.MC_STATISTICS));
+        assertEquals(List.of(1.0, 0.0, 50.0), defaults(ParameterKind.FACTOR));
+        assertEquals(List.of(0.0, -6.0, 6.0), defaults(ParameterKind.VARIATION));
+        assertEquals(List.of(1.0, 1e-8, 20.0), defaults(ParameterKind.MC_STATISTICS));
     }
 
     private static List<Double> defaults(ParameterKind k) {

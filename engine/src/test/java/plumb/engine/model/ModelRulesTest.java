@@ -121,10 +121,11 @@ class ModelRulesTest {
                 bad("parameters[0].name", "required key is missing", "/parameters/0/name", REMOVE),
                 bad("parameters[0].initial", "unknown key", "/parameters/0/initial", "1"),
                 bad("parameters[0].value", "25.0, outside the range [-2.0, 20.0]", "/parameters/0/value", "25"),
-                // no range given: the default of the kind, [-5, 5] for a variation parameter
-                bad("parameters[2].value", "6.0, outside the range [-5.0, 5.0]", "/parameters/2/value", "6"),
-                // no range given: [0, 10] for a parameter used only in factors
-                bad("parameters[1].value", "-0.5, outside the range [0.0, 10.0]", "/parameters/1/value", "-0.5"),
+                // no range given: the default of the kind, [-6, 6] for a variation parameter
+                bad("parameters[2].value", "6.5, outside the range [-6.0, 6.0]", "/parameters/2/value", "6.5"),
+                // no range given: [0, 50] for a parameter used only in factors
+                bad("parameters[1].value", "-0.5, outside the range [0.0, 50.0]", "/parameters/1/value", "-0.5"),
+                bad("parameters[1].value", "51.0, outside the range [0.0, 50.0]", "/parameters/1/value", "51"),
                 // no value given: the default 0 of a variation parameter must lie in the range
                 bad("parameters[2].range", "[1.0, 3.0] does not contain the default value 0.0",
                         "/parameters/2/range", "[1, 3]"),
@@ -137,7 +138,7 @@ class ModelRulesTest {
                         "/parameters/2/constraint", "{\"type\": \"poisson\", \"relative\": 0.1}"),
                 bad("parameters[0].constraint", "the range starts at -2.0",
                         "/parameters/0/constraint", "{\"type\": \"poisson\", \"relative\": 0.1}"),
-                bad("parameters[2].constraint", "the range starts at -5.0", "/parameters/2/value", "1",
+                bad("parameters[2].constraint", "the range starts at -6.0", "/parameters/2/value", "1",
                         "/parameters/2/constraint", "{\"type\": \"poisson\", \"relative\": 0.1}"),
                 bad("parameters[1].constraint.relative", "0.0, must be > 0", "/parameters/1/constraint/relative", "0"),
                 bad("parameters[1].constraint.relative", "required key is missing",
@@ -223,16 +224,16 @@ class ModelRulesTest {
 
     @Test
     void parameterUsedAsFactorAndInVariationTakesVariationDefaults() {
-        // mu also in a variation: its defaults become value 0, range [-5, 5], so 6 is out of range
-        String json = edited("/parameters/0", "{\"name\": \"mu\", \"value\": 6}",
+        // mu also in a variation: its defaults become value 0, range [-6, 6], so 7 is out of range
+        String json = edited("/parameters/0", "{\"name\": \"mu\", \"value\": 7}",
                 SIG + "/variations/1", "{\"parameter\": \"mu\", \"norm\": {\"down\": 0.9, \"up\": 1.1}}");
         ModelException e = assertThrows(ModelException.class, () -> ModelReader.parse(json, SRC));
-        assertEquals("bad.json: parameters[0].value: 6.0, outside the range [-5.0, 5.0]", e.getMessage());
+        assertEquals("bad.json: parameters[0].value: 7.0, outside the range [-6.0, 6.0]", e.getMessage());
     }
 
     @Test
     void poissonConstraintOnAFactorWithDefaultRangeIsAccepted() {
-        // factor defaults: value 1, range [0, 10]; the range starts at 0, not below
+        // factor defaults: value 1, range [0, 50]; the range starts at 0, not below
         Model m = ModelReader.parse(ModelJsonFixtures.BASE, SRC);
         assertTrue(m.parameters().get(1).constraint() instanceof ParameterSpec.Poisson);
     }
