@@ -140,7 +140,7 @@ final class ReportJob {
         if (scan != null) {
             attach("scan", ScanCommand.toJson(m, p, m.poi, best, scan.points(), scan.intervals()));
             for (ProfileScan.Point x : scan.points()) {
-                if (Double.isNaN(x.deltaNll())) nonConverged.add(String.format(Locale.ROOT, "scan point %s = %s (%s)",
+                if (Double.isNaN(x.nllAboveMin())) nonConverged.add(String.format(Locale.ROOT, "scan point %s = %s (%s)",
                         m.parameterNames[m.poi], Numbers.plain(x.value()), x.status()));
             }
             for (ProfileScan.Interval iv : scan.intervals()) {

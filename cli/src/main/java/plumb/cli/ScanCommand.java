@@ -79,7 +79,7 @@ final class ScanCommand implements Callable<Integer> {
     record ScanProfile(List<ProfileScan.Point> points, List<ProfileScan.Interval> intervals) {
         /** Scan points and interval ends whose refits did not converge. */
         long failedRefits() {
-            long failed = points.stream().filter(x -> Double.isNaN(x.deltaNll())).count();
+            long failed = points.stream().filter(x -> Double.isNaN(x.nllAboveMin())).count();
             for (ProfileScan.Interval iv : intervals) if (iv.failure() != null) failed++;
             return failed;
         }
@@ -132,7 +132,7 @@ final class ScanCommand implements Callable<Integer> {
         }
     }
 
-    /** The scan result file of docs/cli-contract.md; deltaNll relative to the lowest −ln L found. */
+    /** The scan result file of docs/cli-contract.md; nllAboveMin relative to the lowest −ln L found. */
     static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, int k, FitResult best,
                              List<ProfileScan.Point> pts, List<ProfileScan.Interval> intervals) {
         ObjectNode root = Json.result(m.labels, p.kind());
@@ -142,7 +142,7 @@ final class ScanCommand implements Callable<Integer> {
         for (ProfileScan.Point x : pts) {
             ObjectNode o = a.addObject();
             Json.put(o, "value", x.value());
-            Json.put(o, "deltaNll", x.deltaNll() - floor);
+            Json.put(o, "nllAboveMin", x.nllAboveMin() - floor);
             o.put("status", x.status().name());
         }
         Json.put(root, "best", best.values()[k]);
@@ -155,7 +155,7 @@ final class ScanCommand implements Callable<Integer> {
     /** The minimum of the profile is the best fit unless a scan point found a lower one (then a warning sign). */
     private static double minimumDelta(List<ProfileScan.Point> pts) {
         double min = 0;
-        for (ProfileScan.Point x : pts) if (x.deltaNll() < min) min = x.deltaNll();
+        for (ProfileScan.Point x : pts) if (x.nllAboveMin() < min) min = x.nllAboveMin();
         return min;
     }
 
@@ -173,7 +173,7 @@ final class ScanCommand implements Callable<Integer> {
         double floor = minimumDelta(pts);
         Table.Builder t = Table.builder(null, name, "2ΔNLL", "");
         for (ProfileScan.Point x : pts) {
-            double d2 = 2 * (x.deltaNll() - floor);
+            double d2 = 2 * (x.nllAboveMin() - floor);
             int bar = Double.isFinite(d2) ? (int) Math.round(Math.min(d2, 10) * 4) : 0;
             t.row(Table.number(x.value(), 5), Double.isFinite(d2) ? Numbers.fixed(d2, 4) : Table.MISSING, "#".repeat(bar));
         }

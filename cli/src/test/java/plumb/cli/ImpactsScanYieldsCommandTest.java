@@ -105,7 +105,7 @@ class ImpactsScanYieldsCommandTest {
         JsonNode i68 = j.get("interval68"), i95 = j.get("interval95");
         assertTrue(i95.get(0).asDouble() < i68.get(0).asDouble() && i68.get(0).asDouble() < best);
         assertTrue(best < i68.get(1).asDouble() && i68.get(1).asDouble() < i95.get(1).asDouble());
-        for (JsonNode p : j.get("points")) assertTrue(p.get("deltaNll").asDouble() >= 0);
+        for (JsonNode p : j.get("points")) assertTrue(p.get("nllAboveMin").asDouble() >= 0);
     }
 
     @Test

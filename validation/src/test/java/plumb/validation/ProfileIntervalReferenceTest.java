@@ -84,7 +84,7 @@ class ProfileIntervalReferenceTest {
                 best.values()[m.poi] + 2 * best.errors()[m.poi], 5, 2, null);
         for (ProfileScan.Point p : pts) {
             double z = (p.value() - best.values()[m.poi]) / best.errors()[m.poi];
-            assertEquals(0.5 * z * z, p.deltaNll(), 2e-3);
+            assertEquals(0.5 * z * z, p.nllAboveMin(), 2e-3);
         }
     }
 }

@@ -35,7 +35,7 @@ public final class ScanFigure {
         XYSeries curve = new XYSeries("2ΔNLL", true, true);
         double top = 0;
         for (int i = 0; i < in.values().length; i++) {
-            double y = 2 * in.deltaNll()[i];
+            double y = 2 * in.nllAboveMin()[i];
             if (Double.isFinite(y)) {
                 curve.add(in.values()[i], y);
                 top = Math.max(top, y);

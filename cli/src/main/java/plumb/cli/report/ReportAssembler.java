@@ -115,13 +115,13 @@ public final class ReportAssembler {
     public static ScanCurve scan(String parameter, double best, List<ProfileScan.Point> points,
                                  List<ProfileScan.Interval> intervals) {
         double floor = 0;
-        for (ProfileScan.Point p : points) if (p.deltaNll() < floor) floor = p.deltaNll();
+        for (ProfileScan.Point p : points) if (p.nllAboveMin() < floor) floor = p.nllAboveMin();
         List<ProfileScan.Point> good = new ArrayList<>();
-        for (ProfileScan.Point p : points) if (Double.isFinite(p.deltaNll())) good.add(p);
+        for (ProfileScan.Point p : points) if (Double.isFinite(p.nllAboveMin())) good.add(p);
         double[] x = new double[good.size()], y = new double[good.size()];
         for (int i = 0; i < x.length; i++) {
             x[i] = good.get(i).value();
-            y[i] = good.get(i).deltaNll() - floor;
+            y[i] = good.get(i).nllAboveMin() - floor;
         }
         return new ScanCurve(parameter, x, y, best, ends(intervals.get(0)), ends(intervals.get(1)));
     }

@@ -32,10 +32,10 @@ public final class ProfileScan {
     private static final int MAX_SOLVER_EVALUATIONS = 100;
 
     /**
-     * One profiled point. deltaNll is relative to the best fit's −ln L (NaN when the refit did
+     * One profiled point. nllAboveMin is relative to the best fit's −ln L (NaN when the refit did
      * not converge; status says so).
      */
-    public record Point(double value, double nll, double deltaNll, MinimumStatus status) { }
+    public record Point(double value, double nll, double nllAboveMin, MinimumStatus status) { }
 
     /**
      * An interval [low, high] at one level; an end is NaN when the profile stays below the level up
@@ -166,7 +166,7 @@ public final class ProfileScan {
                 failed[0] = p.status();
                 return Double.NaN;
             }
-            return 2 * p.deltaNll() - level;
+            return 2 * p.nllAboveMin() - level;
         };
         double step = sigma * Math.sqrt(level);
         double inside = v0, outside = Double.NaN;

@@ -73,10 +73,10 @@ class ImpactsTest {
         ProfileScan scan = new ProfileScan(m, data, FitSettings.defaults(), new int[0], new double[0], best);
         double v = best.values()[m.poi], e = best.errors()[m.poi];
         List<ProfileScan.Point> pts = scan.points(m.poi, v - 2 * e, v + 2 * e, 5, 2, null);
-        assertEquals(0, pts.get(2).deltaNll(), 1e-7);
-        assertTrue(pts.get(0).deltaNll() > pts.get(1).deltaNll() && pts.get(1).deltaNll() > 0.1);
-        assertTrue(pts.get(4).deltaNll() > pts.get(3).deltaNll() && pts.get(3).deltaNll() > 0.1);
+        assertEquals(0, pts.get(2).nllAboveMin(), 1e-7);
+        assertTrue(pts.get(0).nllAboveMin() > pts.get(1).nllAboveMin() && pts.get(1).nllAboveMin() > 0.1);
+        assertTrue(pts.get(4).nllAboveMin() > pts.get(3).nllAboveMin() && pts.get(3).nllAboveMin() > 0.1);
         // ~Gaussian: 2ΔNLL at ±2σ near 4
-        assertEquals(4, 2 * pts.get(4).deltaNll(), 1.0);
+        assertEquals(4, 2 * pts.get(4).nllAboveMin(), 1.0);
     }
 }
