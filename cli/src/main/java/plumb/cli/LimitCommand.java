@@ -247,7 +247,7 @@ final class LimitCommand implements Callable<Integer> {
         node.put("poi", m.parameterNames[m.poi]);
         node.put("cl", cl);
         node.put("method", toys == null ? "asymptotic" : "toys");
-        node.put("statistic", "qmu_tilde");
+        node.put("statistic", "qtilde_mu");
         LimitResult r = o.result();
         if (r == null) {
             node.putNull("observed");
@@ -348,14 +348,8 @@ final class LimitCommand implements Callable<Integer> {
             out.println("  no limit: " + o.error());
             return;
         }
-        if (!d.blinded()) {
-            out.printf(Locale.ROOT, "  best fit %s = %s%n", poi, Numbers.plain(r.muHat()));
-            out.printf(Locale.ROOT, "  observed limit   %s < %s%n", poi, value(r.observed(), r.observedError()));
-        }
-        ExpectedBands b = r.expected(), e = r.expectedError();
-        out.printf(Locale.ROOT, "  expected limit   %s < %s (median)%n", poi, value(b.median(), e.median()));
-        out.printf(Locale.ROOT, "      68%% band    [%s, %s]%n", value(b.minus1(), e.minus1()), value(b.plus1(), e.plus1()));
-        out.printf(Locale.ROOT, "      95%% band    [%s, %s]%n", value(b.minus2(), e.minus2()), value(b.plus2(), e.plus2()));
+        if (!d.blinded()) out.printf(Locale.ROOT, "  best fit %s = %s%n", poi, Numbers.plain(r.muHat()));
+        out.print(TableFormat.TEXT.render(limitTable(poi, r, d.blinded())).replaceAll("(?m)^", "  "));
         if (toys != null) {
             out.println("  errors are toy statistics");
             out.printf(Locale.ROOT, "  %d toys in all, %d with a fit that did not converge (left out)%n", r.toys(), r.failedToys());
@@ -367,6 +361,22 @@ final class LimitCommand implements Callable<Integer> {
             out.print(TableFormat.TEXT.render(t.build()).replaceAll("(?m)^", "  "));
         }
         out.printf(Locale.ROOT, "  (%d fits, %.2f s)%n", r.fits(), r.seconds());
+    }
+
+    /**
+     * The limits as one column of numbers, one row per outcome, the CL in the heading: observed
+     * first (left out when blinded), then the expected median and its ±1σ and ±2σ quantiles.
+     */
+    Table limitTable(String poi, LimitResult r, boolean blinded) {
+        Table.Builder t = Table.builder(null, "upper limit, " + Numbers.plain(100 * cl) + "% CL", poi + " <");
+        if (!blinded) t.row("observed", value(r.observed(), r.observedError()));
+        ExpectedBands b = r.expected(), e = r.expectedError();
+        t.row("expected median", value(b.median(), e.median()));
+        t.row("expected −1σ", value(b.minus1(), e.minus1()));
+        t.row("expected +1σ", value(b.plus1(), e.plus1()));
+        t.row("expected −2σ", value(b.minus2(), e.minus2()));
+        t.row("expected +2σ", value(b.plus2(), e.plus2()));
+        return t.build();
     }
 
     private String value(double v, double err) {

@@ -78,6 +78,25 @@ class LimitCommandsTest {
         assertEquals(0, text.code(), text.err());
         assertTrue(text.out().contains("CLs upper limit on mu at 90% CL"), text.out());
         assertTrue(text.out().contains("q~mu") && text.out().contains("observed data"), text.out());
+
+        // the terminal table: the CL in its heading, one row per outcome with the number of the JSON file
+        Run same = run("limit", m.toString(), "--json", "-", "--cl", "0.9");
+        JsonNode e = same.json().get("expected");
+        assertTrue(text.out().contains("upper limit, 90% CL"), text.out());
+        assertEquals(same.json().get("observed").asDouble(), rowValue(text.out(), "observed"), 1e-5 * same.json().get("observed").asDouble());
+        String[][] rows = {{"expected median", "median"}, {"expected −1σ", "minus1"}, {"expected +1σ", "plus1"},
+                {"expected −2σ", "minus2"}, {"expected +2σ", "plus2"}};
+        assertEquals("qtilde_mu", same.json().get("statistic").asText());   // the key of docs/cli-contract.md
+        for (String[] row : rows) {
+            double want = e.get(row[1]).asDouble();
+            assertEquals(want, rowValue(text.out(), row[0]), 1e-5 * want, row[0]);   // printed to 6 significant digits
+        }
+    }
+
+    /** The number at the end of the terminal table's row that starts with {@code label}. */
+    private static double rowValue(String out, String label) {
+        return out.lines().map(String::strip).filter(l -> l.startsWith(label + " "))
+                .mapToDouble(l -> Double.parseDouble(l.substring(l.lastIndexOf(' ') + 1))).findFirst().orElseThrow();
     }
 
     @Test
