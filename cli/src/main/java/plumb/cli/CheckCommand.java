@@ -43,21 +43,22 @@ final class CheckCommand implements Callable<Integer> {
             if ("-".equals(json)) return status(warnings);
         }
         out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
-        out.printf("  %d channels, %d bins, %d samples%n", m.nChannels, m.nBins, m.nSamples);
-        out.printf("  %d parameters: %d free factors, %d nuisance parameters, %d MC-statistics parameters%s%n",
-                m.nAll, factors, nuisances, m.nGamma,
-                binFactors(m) == 0 ? "" : ", " + binFactors(m) + " per-bin free factors");
+        out.printf("  %s, %s, %s%n", Numbers.count(m.nChannels, "channel"), Numbers.count(m.nBins, "bin"),
+                Numbers.count(m.nSamples, "sample"));
+        out.printf("  %s: %s, %s, %s%s%n", Numbers.count(m.nAll, "parameter"), Numbers.count(factors, "free factor"),
+                Numbers.count(nuisances, "nuisance parameter"), Numbers.count(m.nGamma, "MC-statistics parameter"),
+                binFactors(m) == 0 ? "" : ", " + Numbers.count(binFactors(m), "per-bin free factor"));
         out.printf("  parameter of interest: %s%n", m.poi < 0 ? "(none)" : m.parameterNames[m.poi]);
         for (int c = 0; c < m.nChannels; c++) {
             out.printf("  channel %-20s %4d bins%s%n", m.channelNames[c], m.bins(c),
                     m.observed[c] == null ? "  (blinded)" : "");
         }
         if (!m.pruned.isEmpty()) {
-            out.printf("  pruned %d variation parts (options.pruneBelow):%n", m.pruned.size());
+            out.printf("  pruned %s (options.pruneBelow):%n", Numbers.count(m.pruned.size(), "variation part"));
             m.pruned.forEach(p -> out.println("    " + p));
         }
         if (!warnings.isEmpty()) {
-            out.printf("  %d warnings:%n", warnings.size());
+            out.printf("  %s:%n", Numbers.count(warnings.size(), "warning"));
             warnings.forEach(w -> out.println("    warning: " + w));
         }
         out.flush();

@@ -8,6 +8,11 @@ public final class Numbers {
     private Numbers() {
     }
 
+    /** "1 warning", "2 warnings": the count and a noun whose plural takes an "s" (every noun we count does). */
+    public static String count(long n, String noun) {
+        return n + " " + (n == 1 ? noun : noun + "s");
+    }
+
     /** Six significant digits, or "-" for a number that could not be computed. */
     public static String plain(double v) {
         if (!Double.isFinite(v)) return "-";

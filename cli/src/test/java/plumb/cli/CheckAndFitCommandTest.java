@@ -35,6 +35,22 @@ class CheckAndFitCommandTest {
     }
 
     @Test
+    void checkCountsInTheSingular() throws IOException {
+        // one channel, one bin, one sample with one free factor and one norm variation that is one-sided (a warning)
+        Path model = dir.resolve("one.json");
+        Files.writeString(model, """
+                {"format": "plumb-model/1", "name": "one", "poi": "mu", "channels": [{"name": "sr", "edges": [0, 1], "observed": [5],
+                  "samples": [{"name": "sig", "yields": [4], "factors": ["mu"],
+                    "variations": [{"parameter": "eff", "norm": {"down": 1.05, "up": 1.1}}]}]}]}
+                """);
+        var r = run("check", model.toString());
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.out().contains("  1 channel, 1 bin, 1 sample\n"), r.out());
+        assertTrue(r.out().contains("  2 parameters: 1 free factor, 1 nuisance parameter, 0 MC-statistics parameters\n"), r.out());
+        assertTrue(r.out().contains("  1 warning:\n"), r.out());
+    }
+
+    @Test
     void fitWritesTheContractKeys() throws IOException {
         Path model = CommandLineTestSupport.demoModel(dir);
         Path out = dir.resolve("fit.json");
