@@ -22,7 +22,7 @@ import java.util.Map;
 
 /**
  * The built-in demonstration model, an invented scenario: a narrow resonance near 640 GeV decaying
- * to two photons, searched for in the Halo detector at the Lumen Ring collider (both fictional; the
+ * to two photons, searched for in the Tamarind detector at the Lumen Ring collider (both fictional; the
  * yields are invented).
  *
  * <p>Three channels in m(γγ): the signal region {@code sr_tight} (20 bins of 15 GeV, 500–800 GeV),
@@ -126,10 +126,10 @@ public final class DemoModel {
         Map<String, Object> labels = new LinkedHashMap<>();
         labels.put("mass", MASS);
         labels.put("collider", "Lumen Ring");
-        labels.put("detector", "Halo");
+        labels.put("detector", "Tamarind");
 
         String description = "Demonstration (fictional): search for a narrow resonance near 640 GeV decaying to two"
-                + " photons in the Halo detector at the Lumen Ring collider. Invented yields; observed counts"
+                + " photons in the Tamarind detector at the Lumen Ring collider. Invented yields; observed counts"
                 + " drawn once from the model at mu = 1.";
         return new Model(Model.FORMAT, "lumen_ring_diphoton_demo", description, "mu", channels, parameters,
                 groups, labels, null);

@@ -12,7 +12,8 @@ public final class Fixtures {
     private Fixtures() {
     }
 
-    static final double[] EDGES = {110, 114, 118, 122, 126, 130, 134, 138, 142, 146, 150};
+    /** The demo's invented window: a resonance near 640 GeV, 4 GeV bins. */
+    static final double[] EDGES = {620, 624, 628, 632, 636, 640, 644, 648, 652, 656, 660};
 
     /** Linear-scale channel with edges, three samples, observed counts including a zero. */
     public static StackedYields diphoton(String stage) {
@@ -24,9 +25,9 @@ public final class Fixtures {
         double[] observed = {412, 361, 322, 371, 352, 238, 199, 187, 160, 151};
         for (int b = 0; b < n; b++) {
             double x = 0.5 * (EDGES[b] + EDGES[b + 1]);
-            continuum[b] = 380 * Math.exp(-(x - 110) / 30.0);
-            fakes[b] = 45 * Math.exp(-(x - 110) / 45.0);
-            resonance[b] = 95 * Math.exp(-0.5 * Math.pow((x - 125) / 3.0, 2));
+            continuum[b] = 380 * Math.exp(-(x - 620) / 30.0);
+            fakes[b] = 45 * Math.exp(-(x - 620) / 45.0);
+            resonance[b] = 95 * Math.exp(-0.5 * Math.pow((x - 638) / 3.0, 2));
             error[b] = 0.05 * (continuum[b] + fakes[b] + resonance[b]);
         }
         return new StackedYields("sr_diphoton", stage, "m(γγ) [GeV]", EDGES,

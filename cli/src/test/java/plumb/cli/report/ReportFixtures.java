@@ -22,8 +22,8 @@ final class ReportFixtures {
 
     static ReportInput full() {
         Map<String, Object> labels = new LinkedHashMap<>();
-        labels.put("mass", 125.0);
-        labels.put("detector", "Kestrel-2");
+        labels.put("mass", 638.0);
+        labels.put("detector", "Tamarind");
         RunSummary summary = new RunSummary(HOSTILE_NAME, "Narrow resonance search in m(γγ), invented yields.",
                 "models/demo.json", "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad", "observed",
                 20240611L, "0.1.0", 83.4, labels, List.of("variation 'fake_rate' is one-sided in channel ctrl_highpt"),

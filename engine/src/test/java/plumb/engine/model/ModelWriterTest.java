@@ -50,7 +50,7 @@ class ModelWriterTest {
         groups.put("luminosity", List.of("lumi"));
         Map<String, Object> labels = new LinkedHashMap<>();
         labels.put("mass", 640.0);
-        labels.put("detector", "Halo");
+        labels.put("detector", "Tamarind");
         ModelOptions options = new ModelOptions(0.01, ModelOptions.McStatConstraint.POISSON, 0.0);
         return new Model(Model.FORMAT, "full", "a test", "mu", List.of(c), params, groups, labels, options);
     }
