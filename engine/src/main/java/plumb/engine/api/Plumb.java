@@ -135,7 +135,7 @@ public final class Plumb {
         double[] range = ProfileScan.defaultRange(m, best, k);
         List<ScanOutcome.ProfilePoint> pts = new ArrayList<>();
         for (ProfileScan.Point x : ProfileScan.rebased(scan.points(k, range[0], range[1], points, threads(), null))) {
-            pts.add(new ScanOutcome.ProfilePoint(x.value(), 2 * x.deltaNll(), x.status().name()));
+            pts.add(new ScanOutcome.ProfilePoint(x.value(), 2 * x.nllAboveMin(), x.status().name()));
         }
         List<ProfileScan.Interval> iv = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads());
         return new ScanOutcome(parameter, best.values()[k], best.errors()[k], pts, iv.get(0).low(), iv.get(0).high(),

@@ -24,5 +24,5 @@ public record ScanOutcome(String parameter, double best, double error, List<Prof
     /**
      * One point: twice the profiled −ln L above the lowest found (NaN when its refit failed).
      */
-    public record ProfilePoint(double value, double twoDeltaNll, String status) { }
+    public record ProfilePoint(double value, double twiceNllAboveMin, String status) { }
 }

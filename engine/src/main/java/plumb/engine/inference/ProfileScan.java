@@ -96,10 +96,10 @@ public final class ProfileScan {
      */
     public static List<Point> rebased(List<Point> points) {
         double floor = 0;
-        for (Point x : points) if (x.deltaNll() < floor) floor = x.deltaNll();
+        for (Point x : points) if (x.nllAboveMin() < floor) floor = x.nllAboveMin();
         if (floor == 0) return List.copyOf(points);
         List<Point> out = new java.util.ArrayList<>(points.size());
-        for (Point x : points) out.add(new Point(x.value(), x.nll(), x.deltaNll() - floor, x.status()));
+        for (Point x : points) out.add(new Point(x.value(), x.nll(), x.nllAboveMin() - floor, x.status()));
         return List.copyOf(out);
     }
 

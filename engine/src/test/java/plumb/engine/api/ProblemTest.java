@@ -25,9 +25,9 @@ class ProblemTest {
         Problem p = Plumb.observed(m);
         IllegalArgumentException unknown = assertThrows(IllegalArgumentException.class, () -> p.holding("lumii", 0));
         assertTrue(unknown.getMessage().contains("'lumii'"), unknown.getMessage());
-        // Gaussian nuisance parameters default to the range [-5, 5] (docs/model-format.md).
-        IllegalArgumentException out = assertThrows(IllegalArgumentException.class, () -> p.holding("lumi", 5.5));
-        assertTrue(out.getMessage().contains("[-5.0, 5.0]"), out.getMessage());
+        // Gaussian nuisance parameters default to the range [-6, 6] (docs/model-format.md).
+        IllegalArgumentException out = assertThrows(IllegalArgumentException.class, () -> p.holding("lumi", 6.5));
+        assertTrue(out.getMessage().contains("[-6.0, 6.0]"), out.getMessage());
         assertThrows(IllegalArgumentException.class, () -> Problem.of(m, p.data(), p.settings(), Map.of("mu", Double.NaN)));
     }
 
@@ -85,6 +85,6 @@ class ProblemTest {
         // one symmetric error from the best fit; 15 % covers the asymmetry of a Poisson profile.
         assertEquals(fit.error("mu"), scan.high68() - scan.best(), 0.15 * fit.error("mu"));
         assertEquals(fit.error("mu"), scan.best() - scan.low68(), 0.15 * fit.error("mu"));
-        assertEquals(0, scan.points().stream().mapToDouble(ScanOutcome.ProfilePoint::twoDeltaNll).min().orElseThrow(), 0.5);
+        assertEquals(0, scan.points().stream().mapToDouble(ScanOutcome.ProfilePoint::twiceNllAboveMin).min().orElseThrow(), 0.5);
     }
 }

@@ -152,7 +152,7 @@ class BoundedNewtonTest {
 
     @Test
     void stopsTheSignalAtZeroWhenFewerEventsThanBackground() {
-        // n < b: μ̂ = (n − b)/s < 0 (item 1), so with μ ∈ [0, 10] the minimum is on μ = 0.
+        // n < b: μ̂ = (n − b)/s < 0 (item 1), so with μ ∈ [0, 10] (the bounds of this test) the minimum is on μ = 0.
         PoissonToy toy = new PoissonToy(new double[] {12}, new double[] {5}, new double[][] {{20}}, new double[] {0.1});
         MinimumResult r = new BoundedNewton(2).minimise(toy, new double[] {2, 1}, new double[] {0, -5},
                 new double[] {10, 5}, new boolean[] {false, true});
