@@ -50,7 +50,7 @@ final class CheckCommand implements Callable<Integer> {
                 binFactors(m) == 0 ? "" : ", " + Numbers.count(binFactors(m), "per-bin free factor"));
         out.printf("  parameter of interest: %s%n", m.poi < 0 ? "(none)" : m.parameterNames[m.poi]);
         for (int c = 0; c < m.nChannels; c++) {
-            out.printf("  channel %-20s %4d bins%s%n", m.channelNames[c], m.bins(c),
+            out.printf("  channel %-20s %4d %s%s%n", m.channelNames[c], m.bins(c), m.bins(c) == 1 ? "bin" : "bins",
                     m.observed[c] == null ? "  (blinded)" : "");
         }
         if (!m.pruned.isEmpty()) {
