@@ -16,7 +16,8 @@ import java.io.PrintWriter;
                 ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
                 LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
                 InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class,
-                TidyCommand.class, SensitivityCommand.class, ProjectCommand.class, ContourCommand.class})
+                TidyCommand.class, SensitivityCommand.class, ProjectCommand.class, ContourCommand.class,
+                ImportCommand.class, ExportCommand.class})
 public final class Main implements Runnable {
 
     public static final String VERSION = "0.1.0";
