@@ -80,6 +80,10 @@ public final class SparkRunner implements WorkRunner {
      * @throws ComputationException when that does not happen in time or Spark refuses the master
      */
     public static SparkRunner open(String master, int timeoutSeconds) {
+        if (master.equals("yarn") && !onClasspath("org.apache.spark.deploy.yarn.YarnClusterManager")) {
+            throw new ComputationException("--spark yarn: this process has no YARN support; submit "
+                    + "spark/target/plumb-spark.jar with spark-submit --master yarn (README, Spark)");
+        }
         String effective = withRetries(master);
         ExecutorService starter = Executors.newSingleThreadExecutor(r -> {
             Thread t = new Thread(r, "plumb-spark-start");
@@ -109,6 +113,15 @@ public final class SparkRunner implements WorkRunner {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             throw new ComputationException("--spark " + master + ": interrupted while starting Spark");
+        }
+    }
+
+    private static boolean onClasspath(String name) {
+        try {
+            Class.forName(name, false, SparkRunner.class.getClassLoader());
+            return true;
+        } catch (ClassNotFoundException e) {
+            return false;
         }
     }
 
