@@ -145,7 +145,8 @@ class SparkCampaignTest {
         assertEquals(1, r.status(), r.err());
         assertEquals(1, r.err().lines().count(), r.err());
         assertTrue(r.err().contains("--spark-timeout"), r.err());
-        assertTrue(seconds < 5 + 15, "took " + seconds + " s");
+        // the timeout, at most 10 s to stop the half-started context, and slack for a loaded machine
+        assertTrue(seconds < 5 + 10 + 15, "took " + seconds + " s");
         assertEquals("", r.out().replaceAll("(?s)^Signal injection.*", ""));
     }
 
