@@ -45,13 +45,13 @@ public final class SparkSpeed {
 
         WorkRunner local = WorkRunner.threads(threads);
         engine.run(point, 99, true, 0, Math.max(200, toys / 10), local, null);   // warm-up (JIT), not timed
-        long t0 = System.nanoTime();
+        long t0 = System.nanoTime(), c0 = cpu();
         ToyFit[] onThreads = engine.run(point, 7, true, 0, toys, local, null);
-        double threadSeconds = seconds(t0);
+        double threadSeconds = seconds(t0), threadCpu = (cpu() - c0) * 1e-9;
 
         t0 = System.nanoTime();
         double startSeconds;
-        double emptyJob, sparkSeconds;
+        double emptyJob, sparkSeconds, sparkCpu;
         ToyFit[] onSpark;
         try (SparkRunner spark = SparkRunner.open(master, 120)) {
             startSeconds = seconds(t0);
@@ -61,18 +61,20 @@ public final class SparkSpeed {
             engine.run(point, 97, true, 0, cores, spark, null);
             emptyJob = seconds(t0);
             t0 = System.nanoTime();
+            c0 = cpu();
             onSpark = engine.run(point, 7, true, 0, toys, spark, null);
             sparkSeconds = seconds(t0);
+            sparkCpu = (cpu() - c0) * 1e-9;
         }
         boolean same = Arrays.deepEquals(describe(onThreads), describe(onSpark));
         double perToyThreads = threadSeconds / toys, perToySpark = (sparkSeconds - emptyJob) / toys;
-        System.out.printf(Locale.ROOT, "%-44s %10s%n", "", "seconds");
-        System.out.printf(Locale.ROOT, "%-44s %10.2f%n", threads + " threads of this process", threadSeconds);
-        System.out.printf(Locale.ROOT, "%-44s %10.2f%n", "--spark " + master + " (after start-up)", sparkSeconds);
+        System.out.printf(Locale.ROOT, "%-44s %10s %12s%n", "", "wall s", "process CPU s");
+        System.out.printf(Locale.ROOT, "%-44s %10.2f %12.2f%n", threads + " threads of this process", threadSeconds, threadCpu);
+        System.out.printf(Locale.ROOT, "%-44s %10.2f %12.2f%n", "--spark " + master + " (after start-up)", sparkSeconds, sparkCpu);
         System.out.printf(Locale.ROOT, "%-44s %10.2f%n", "Spark start-up (context + first task)", startSeconds);
         System.out.printf(Locale.ROOT, "%-44s %10.3f%n", "Spark job of one toy per core (fixed cost)", emptyJob);
-        System.out.printf(Locale.ROOT, "per toy: threads %.3f ms, Spark %.3f ms (overhead %+.1f %% beyond start-up)%n",
-                1e3 * perToyThreads, 1e3 * perToySpark, 100 * (sparkSeconds / threadSeconds - 1));
+        System.out.printf(Locale.ROOT, "per toy: threads %.3f ms, Spark %.3f ms (overhead beyond start-up %+.1f %% wall, %+.1f %% CPU)%n",
+                1e3 * perToyThreads, 1e3 * perToySpark, 100 * (sparkSeconds / threadSeconds - 1), 100 * (sparkCpu / threadCpu - 1));
         System.out.printf(Locale.ROOT, "results equal: %s%n", same ? "yes" : "NO");
         if (!same) System.exit(1);
     }
@@ -85,6 +87,15 @@ public final class SparkSpeed {
             out[i] = new Object[] {f.index(), f.status(), f.poi(), f.poiError(), f.nuisancePulls()};
         }
         return out;
+    }
+
+    /**
+     * CPU time of this whole process (every thread, Spark's own included), in ns: unlike wall time
+     * it does not grow when other programs share the cores.
+     */
+    private static long cpu() {
+        return ((com.sun.management.OperatingSystemMXBean) java.lang.management.ManagementFactory.getOperatingSystemMXBean())
+                .getProcessCpuTime();
     }
 
     private static double seconds(long t0) {
