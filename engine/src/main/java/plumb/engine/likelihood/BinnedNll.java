@@ -70,6 +70,10 @@ public final class BinnedNll implements Objective {
     /** Up to {@link #FUSED} bins' vectors ∇c_b (local indices, stride maxLocal) and weights, awaiting one fused update. */
     private final double[] pendingVec;
     private final double[] pendingWeight;
+    /** Per-sample T_s and per-shape-term sums kept from the gradient pass for the Hessian. */
+    private final double[] sampleT;
+    private final double[] shapeDBase;
+    private final double[] shapeU2;
     private final int stride;
 
     /** Bins per fused rank-k update of a channel's Hessian block: the block is read and written once per this many bins. */
@@ -137,6 +141,9 @@ public final class BinnedNll implements Objective {
         stride = maxLocal;
         pendingVec = new double[FUSED * maxLocal];
         pendingWeight = new double[FUSED];
+        sampleT = new double[model.nSamples];
+        shapeDBase = new double[model.shapeParam.length];
+        shapeU2 = new double[model.shapeParam.length];
     }
 
     public CompiledModel model() {
@@ -310,10 +317,17 @@ public final class BinnedNll implements Objective {
         nll += constraintTerms(x, grad, hess, explicit, n);
 
         if (grad != null) {
-            gradientTerms(grad, hess, n, explicit);
+            gradientTerms(grad, hess != null, explicit);
             if (hess != null) {
                 for (int c = 0; c < m.nChannels; c++) {
-                    if (data.channelIncluded()[c]) binOuterProducts(c, hess, n, explicit);
+                    if (!data.channelIncluded()[c]) continue;
+                    // The channel's block over its own parameters (upper triangle of hMat), added
+                    // to the Hessian once: the scattered writes stay within a block in cache.
+                    int L = m.channelParams[c].length;
+                    Arrays.fill(hMat, 0, L * L, 0);
+                    for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
+                    binOuterProducts(c, hess, n, explicit);
+                    scatter(m.channelParams[c], hess, n);
                 }
             }
         }
@@ -502,10 +516,10 @@ public final class BinnedNll implements Objective {
     }
 
     /**
-     * Gradient, and the Hessian terms that need only per-sample sums: the w_b ∇²ν_b part of
-     * engine-notes §2, split by the product structure of ν_sb.
+     * Gradient, and the per-sample sums the Hessian's w_b ∇²ν_b part needs (engine-notes §2, split
+     * by the product structure of ν_sb): T_s and, per shape term, Σ_b ρ ∂base/∂θ and Σ_b ρ A.
      */
-    private void gradientTerms(double[] grad, double[] hess, int n, boolean explicit) {
+    private void gradientTerms(double[] grad, boolean forHessian, boolean explicit) {
         final double[] shapeS = m.shapeS, shapeA = m.shapeA;
         for (int s = 0; s < m.nSamples; s++) {
             int c = m.sampleChannel[s];
@@ -518,6 +532,7 @@ public final class BinnedNll implements Objective {
             final double[] rho = mc ? wGamma : w;
             double t = 0;
             for (int b = 0; b < len; b++) t += rho[b0 + b] * base[e0 + b];
+            sampleT[s] = t;
             int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
             for (int k = mulFrom; k < mulTo; k++) grad[m.mulParam[k]] += dC[k] * t;
             for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
@@ -531,17 +546,11 @@ public final class BinnedNll implements Objective {
                 int p = m.shapeParam[k];
                 double dBase = u1 + u2 * shapeP[3 * k + 1]; // Σ_b ρ ∂base/∂θ
                 grad[p] += cs * dBase;
-                if (hess != null) {
-                    hess[p * n + p] += cs * u2 * shapeP[3 * k + 2];
-                    for (int l = mulFrom; l < mulTo; l++) {
-                        int pl = m.mulParam[l];
-                        double v = dBase * dC[l];
-                        hess[p * n + pl] += v;
-                        hess[pl * n + p] += v;
-                    }
+                if (forHessian) {
+                    shapeDBase[k] = dBase;
+                    shapeU2[k] = u2;
                 }
             }
-            if (hess != null) mulSecondDerivatives(s, t, hess, n);
         }
         if (explicit) {
             for (int g = 0; g < m.nGamma; g++) {
@@ -551,11 +560,57 @@ public final class BinnedNll implements Objective {
         }
     }
 
-    /** T_s · ∂²C_s/∂θ_k∂θ_l over the sample's multiplicative terms, without division. */
-    private void mulSecondDerivatives(int s, double t, double[] hess, int n) {
+    /**
+     * The Hessian terms of sample s that need only its sums from {@link #gradientTerms}, into the
+     * upper triangle of hMat (its channel's local indices): shape-term curvature, shape × norm
+     * terms, and T_s · ∂²C_s.
+     */
+    private void sampleSecondDerivatives(int s) {
+        final int L = m.channelParams[m.sampleChannel[s]].length;
+        final double cs = sampleC[s];
+        final int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
+        for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+            int a = m.shapeLocal[k];
+            hMat[a * L + a] += cs * shapeU2[k] * shapeP[3 * k + 2];
+            double dBase = shapeDBase[k];
+            for (int l = mulFrom; l < mulTo; l++) {
+                int b = m.mulLocal[l];
+                double v = dBase * dC[l];
+                // the pair (θ_k, θ_l) and its mirror: one upper entry, or twice the diagonal
+                if (a == b) hMat[a * L + a] += 2 * v;
+                else hMat[Math.min(a, b) * L + Math.max(a, b)] += v;
+            }
+        }
+        mulSecondDerivatives(s, sampleT[s], L);
+    }
+
+    /**
+     * T_s · ∂²C_s/∂θ_k∂θ_l over the sample's multiplicative terms, without division, into the
+     * upper triangle of hMat: each ordered pair (k, l) whose local indices are in order, the
+     * mirror pair supplying the rest.
+     */
+    private void mulSecondDerivatives(int s, double t, int L) {
         int from = m.sampleMulStart[s], len = m.sampleMulStart[s + 1] - from;
+        boolean anyZero = false;
+        for (int j = 0; j < len; j++) anyZero |= mulValue[3 * (from + j)] == 0;
+        if (!anyZero) {
+            // No factor is zero: ∂²C/∂k∂l = C r_k r_l with r = g'/g, and C g_k''/g_k on the
+            // diagonal, one pass instead of a product per pair.
+            double tc = t * sampleC[s];
+            for (int j = 0; j < len; j++) hvec[j] = mulValue[3 * (from + j) + 1] / mulValue[3 * (from + j)];
+            for (int k = 0; k < len; k++) {
+                int ak = m.mulLocal[from + k];
+                double rk = tc * hvec[k];
+                for (int l = 0; l < len; l++) {
+                    int al = m.mulLocal[from + l];
+                    if (al < ak) continue;
+                    hMat[ak * L + al] += l == k ? tc * mulValue[3 * (from + k) + 2] / mulValue[3 * (from + k)] : rk * hvec[l];
+                }
+            }
+            return;
+        }
         for (int k = 0; k < len; k++) {
-            int pk = m.mulParam[from + k];
+            int ak = m.mulLocal[from + k];
             // h_j = g_j with term k replaced by its derivative; ∂²C/∂k∂l = g_l' Π_{j≠l} h_j.
             for (int j = 0; j < len; j++) hvec[j] = j == k ? mulValue[3 * (from + j) + 1] : mulValue[3 * (from + j)];
             prefix[0] = 1;
@@ -563,14 +618,15 @@ public final class BinnedNll implements Objective {
             suffix[len] = 1;
             for (int j = len - 1; j >= 0; j--) suffix[j] = suffix[j + 1] * hvec[j];
             for (int l = 0; l < len; l++) {
-                int pl = m.mulParam[from + l];
+                int al = m.mulLocal[from + l];
+                if (al < ak) continue;
                 double d2;
                 if (l == k) {
                     d2 = mulValue[3 * (from + k) + 2] * productWithout(from, len, k);
                 } else {
                     d2 = mulValue[3 * (from + l) + 1] * prefix[l] * suffix[l + 1];
                 }
-                hess[pk * n + pl] += t * d2;
+                hMat[ak * L + al] += t * d2;
             }
         }
     }
@@ -582,7 +638,7 @@ public final class BinnedNll implements Objective {
     }
 
     /**
-     * Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ over the channel's bins, in the channel's local parameter
+     * Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ over the channel's bins, into hMat in the channel's local parameter
      * indices, minus the Schur terms of the profiled γ_b (profiled layout) or plus the γ rows and
      * columns (explicit layout).
      */
@@ -594,7 +650,6 @@ public final class BinnedNll implements Objective {
         final int[] local = m.channelParams[c];
         final int L = local.length;
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        Arrays.fill(hMat, 0, L * L, 0);
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
             double wb = w[b];
@@ -618,7 +673,6 @@ public final class BinnedNll implements Objective {
                 if (hgg > 0) rankOne(hLoc, -1 / hgg, L);
             }
         }
-        scatter(local, hess, n);
     }
 
     /**
@@ -632,7 +686,6 @@ public final class BinnedNll implements Objective {
         final int[] local = m.channelParams[c];
         final int L = local.length;
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        Arrays.fill(hMat, 0, L * L, 0);
         int pending = 0;
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
@@ -658,7 +711,6 @@ public final class BinnedNll implements Objective {
             }
         }
         for (int k = 0; k < pending; k++) rankOne(pendingVec, k * stride, pendingWeight[k], L);
-        scatter(local, hess, n);
     }
 
     /** ∇c_b (derivatives of the bin's MC-statistics part at γ = 1) in local indices, into out[at ..]. */
