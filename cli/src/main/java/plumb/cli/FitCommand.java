@@ -9,6 +9,7 @@ import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.model.ParameterKind;
+import plumb.engine.inference.FitChecks;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
 import plumb.cli.table.Table;
@@ -67,6 +68,7 @@ final class FitCommand implements Callable<Integer> {
         if (json != null) {
             ObjectNode root = ProfileIntervals.addTo(toJson(m, p, r), m, profile);
             if (starts != null) root.put("starts", starts);
+            if (!r.converged()) root.put("failure", "the fit did not converge (" + r.status() + ")");
             Outputs.write(json, Json.write(root), out);
         }
         if (!"-".equals(json)) {
@@ -74,6 +76,7 @@ final class FitCommand implements Callable<Integer> {
             ProfileIntervals.print(out, m, r, profile);
             printOtherMinima(out, m, r);
         }
+        for (String w : checkWarnings(m, r)) spec.commandLine().getErr().println("plumb fit: warning: " + w);
         if (!r.converged()) {
             spec.commandLine().getErr().printf("plumb fit: the fit did not converge (%s)%n", r.status());
             return ExitCodes.FAILED;
@@ -94,14 +97,24 @@ final class FitCommand implements Callable<Integer> {
             o.put("name", m.parameterNames[i]);
             o.put("kind", m.kind[i].name().toLowerCase(Locale.ROOT));
             Json.put(o, "value", r.values()[i]);
-            Json.put(o, "error", r.errors()[i]);
+            // at a bound the minimum is no stationary point: the curvature there is no error (null);
+            // --intervals gives the one-sided profile interval
+            Json.put(o, "error", r.checks().bound()[i] != 0 ? Double.NaN : r.errors()[i]);
             Json.put(o, "prefitValue", m.nominal[i]);
             Json.put(o, "prefitWidth", m.prefitWidth[i]);
             Json.put(o, "pull", pull(m, r, i));
             Json.put(o, "constraint", constraint(m, r, i));
             o.put("fixed", r.held()[i]);
             o.put("atKink", r.atKink()[i]);
+            byte bound = r.checks().bound()[i];
+            if (bound == 0) o.putNull("atBound");
+            else o.put("atBound", bound < 0 ? "lower" : "upper");
         }
+        FitChecks checks = r.checks();
+        root.put("nearSingular", checks.nearSingular());
+        Json.put(root, "smallestCorrelationEigenvalue", checks.smallestEigenvalue());
+        ArrayNode degenerate = root.putArray("degenerate");
+        for (int i : checks.degenerate()) degenerate.add(m.parameterNames[i]);
         root.put("severalMinima", r.severalMinima());
         ArrayNode others = root.putArray("otherMinima");
         for (FitResult.OtherMinimum o : r.otherMinima()) {
@@ -178,6 +191,27 @@ final class FitCommand implements Callable<Integer> {
         return out;
     }
 
+    /** The warning of {@link FitChecks}: a near-singular Hessian with its degenerate direction. */
+    static List<String> checkWarnings(CompiledModel m, FitResult r) {
+        List<String> out = new ArrayList<>();
+        FitChecks c = r.checks();
+        if (r.converged() && c.nearSingular()) {
+            List<String> names = new ArrayList<>();
+            for (int i : c.degenerate()) names.add(m.parameterNames[i]);
+            out.add(c.smallestEigenvalue() == 0
+                    ? "the Hessian is not positive definite: some combination of the parameters is not constrained by the data"
+                    : String.format(Locale.ROOT, "the Hessian is near-singular (smallest eigenvalue of the correlation matrix %.2g): "
+                            + "the data do not constrain a combination of %s; their errors and correlations are not meaningful",
+                    c.smallestEigenvalue(), String.join(", ", names)));
+        }
+        return out;
+    }
+
+    private static boolean degenerate(FitResult r, int i) {
+        for (int d : r.checks().degenerate()) if (d == i) return true;
+        return false;
+    }
+
     /** (value − prefitValue)/prefitWidth, NaN for free parameters. */
     static double pull(CompiledModel m, FitResult r, int i) {
         return (r.values()[i] - m.nominal[i]) / m.prefitWidth[i];
@@ -213,9 +247,15 @@ final class FitCommand implements Callable<Integer> {
                 continue;
             }
             String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained " : "")
-                    + (r.atKink()[i] ? "on kink" : "");
-            t.row(m.parameterNames[i],
-                    r.held()[i] ? Table.number(r.values()[i], 4) + " (fixed)" : Table.measurement(r.values()[i], r.errors()[i]),
+                    + (r.atKink()[i] ? "on kink " : "")
+                    + (r.checks().bound()[i] < 0 ? "at lower bound" : r.checks().bound()[i] > 0 ? "at upper bound" : "")
+                    + (degenerate(r, i) ? "degenerate" : "");
+            String shown = r.held()[i] ? Table.number(r.values()[i], 4) + " (fixed)"
+                    : r.checks().bound()[i] != 0 ? Table.number(r.values()[i], 4) + " (bound)"
+                    // rounded to a huge error the value would read 0: its own digits instead
+                    : degenerate(r, i) ? Table.number(r.values()[i], 4) + " ± " + Table.number(r.errors()[i], 2)
+                    : Table.measurement(r.values()[i], r.errors()[i]);
+            t.row(m.parameterNames[i], shown,
                     decimals(pull), decimals(cons), flags.strip());
         }
         out.print(TableFormat.TEXT.render(t.build()));

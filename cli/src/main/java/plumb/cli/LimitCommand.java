@@ -2,6 +2,7 @@ package plumb.cli;
 
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
+import plumb.cli.table.Escape;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
@@ -82,15 +83,27 @@ final class LimitCommand implements Callable<Integer> {
         List<ModelLimit> outcomes = c.outcomes();
         String key = c.key();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(outcomes, key)), out);
+        List<String> errors = c.errors();
+        if (json != null) {
+            ObjectNode root = toJson(outcomes, key);
+            if (!errors.isEmpty()) {
+                root.put("converged", false);
+                root.put("failure", String.join("; ", errors));
+            }
+            Outputs.write(json, Json.write(root), out);
+        }
         if (csv != null) Outputs.write(csv, TableFormat.CSV.render(table(outcomes, key)), out);
         if (!"-".equals(json)) {
             if (outcomes.size() == 1) printSingle(out, outcomes.get(0));
             else out.print(TableFormat.TEXT.render(table(outcomes, key)));
             out.flush();
         }
-        List<String> errors = c.errors();
-        if (!errors.isEmpty()) throw new ComputationException(String.join("; ", errors));
+        if (!errors.isEmpty()) {
+            // the result file is written already, with its failure (not the bare one of Main)
+            spec.commandLine().getErr().println("plumb limit: " + Escape.controls(String.join("; ", errors)));
+            spec.commandLine().getErr().flush();
+            return ExitCodes.FAILED;
+        }
         return ExitCodes.OK;
     }
 

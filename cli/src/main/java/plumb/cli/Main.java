@@ -75,6 +75,26 @@ public final class Main implements Runnable {
         return null;
     }
 
+    /**
+     * The rule for result files on exit status 1 (docs/cli-contract.md): the --json file asked for
+     * is always written. A command that failed before it had any result leaves this one:
+     * {@code {"converged": false, "failure": "why"}}.
+     */
+    private static void writeFailure(CommandLine c, CommandLine.ParseResult parseResult, String why) {
+        CommandLine.ParseResult leaf = parseResult;
+        while (leaf.hasSubcommand()) leaf = leaf.subcommand();
+        String json = leaf.matchedOptionValue("--json", null);
+        if (json == null) return;
+        com.fasterxml.jackson.databind.node.ObjectNode root = Json.object();
+        root.put("converged", false);
+        root.put("failure", why);
+        try {
+            Outputs.write(json, Json.write(root), c.getOut());
+        } catch (InputException e) {
+            c.getErr().println(prefix(c) + Escape.controls(e.getMessage()));
+        }
+    }
+
     /** "plumb: " for the top command, "plumb fit: " for a subcommand. */
     private static String prefix(CommandLine c) {
         return c.getParent() == null ? "plumb: " : "plumb " + c.getCommandName() + ": ";
@@ -106,6 +126,9 @@ public final class Main implements Runnable {
             String what = ex.getMessage() == null ? ex.getClass().getSimpleName() : ex.getMessage();
             if (code == ExitCodes.FAILED && !(ex instanceof ComputationException || ex instanceof InferenceException)) {
                 what = "internal error: " + what + (debug ? "" : " (run with --debug for details)");
+            }
+            if (ex instanceof ComputationException || ex instanceof InferenceException) {
+                writeFailure(c, parseResult, what);
             }
             // one line whatever a name in the message holds: control characters made visible
             c.getErr().println(prefix(c) + Escape.controls(what));

@@ -106,6 +106,7 @@ final class ReportJob {
         attach("fit", ProfileIntervals.addTo(FitCommand.toJson(m, p, best), m,
                 ProfileIntervals.withKinks(m, p, best, new int[0], threads)));
         warnings.addAll(FitCommand.minimaWarnings(m, best));
+        warnings.addAll(FitCommand.checkWarnings(m, best));
         if (!best.converged()) nonConverged.add("best fit (" + best.status() + ")");
         ReportInput in = ReportInput.of(new RunSummary(m.name, null, null, null, null, null, null, 0, null, null, null))
                 .withFit(ReportAssembler.fit(m, best));

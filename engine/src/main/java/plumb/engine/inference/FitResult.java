@@ -22,11 +22,22 @@ import java.util.List;
  *     it met none or the model cannot have several ({@link OtherSideSearch})
  * @param atKink parameters (nAll) whose value ends on the kink of a linear or exponential
  *     interpolation at θ = 0: their error is the curvature of one side only
+ * @param checks signs of a suspicious fit: a near-singular Hessian and its degenerate direction,
+ *     parameters at a bound ({@link FitChecks}); unchecked ({@link FitChecks#none}) for fits
+ *     without errors
  */
 public record FitResult(MinimumStatus status, double nll, double[] values, double[] errors,
                         double[] covariance, boolean[] held, int evaluations, int iterations, double seconds,
-                        List<OtherMinimum> otherMinima, boolean[] atKink)
+                        List<OtherMinimum> otherMinima, boolean[] atKink, FitChecks checks)
         implements java.io.Serializable {
+
+    /** A fit without the checks of {@link FitChecks}. */
+    public FitResult(MinimumStatus status, double nll, double[] values, double[] errors, double[] covariance,
+                     boolean[] held, int evaluations, int iterations, double seconds, List<OtherMinimum> otherMinima,
+                     boolean[] atKink) {
+        this(status, nll, values, errors, covariance, held, evaluations, iterations, seconds, otherMinima, atKink,
+                FitChecks.none(values.length));
+    }
 
     /** A fit that met no other minimum and has no parameter on a kink. */
     public FitResult(MinimumStatus status, double nll, double[] values, double[] errors, double[] covariance,

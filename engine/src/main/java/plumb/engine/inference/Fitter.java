@@ -416,7 +416,10 @@ public final class Fitter {
         for (int i = 0; i < m.nParams; i++) {
             atKink[i] = m.kinked[i] && !held[i] && (r.x()[i] == 0 || r.x()[i] == LEFT_OF_KINK);
         }
+        // only for fits with errors: toys and refits skip them with the covariance
+        FitChecks checks = computeErrors ? FitChecks.of(m, dim, cov == null ? null : r.hessian(), errors, heldAll, values)
+                : FitChecks.none(m.nAll);
         return new FitResult(status, r.value(), values, errors, covTheta, heldAll, r.evaluations(), r.iterations(),
-                nanos * 1e-9, others, atKink);
+                nanos * 1e-9, others, atKink, checks);
     }
 }
