@@ -37,6 +37,10 @@ import java.util.function.Supplier;
  *   json/limit.json      plumb limit MODEL… [--label KEY] --json     (every model; seconds differ)
  *   json/gof.json        plumb gof MODEL --json
  *   json/inject.json     plumb inject MODEL --mu 1,2,3 --toys T --asimov --json
+ *   json/sensitivity.json plumb sensitivity MODEL --json                        (seconds differ)
+ *   json/project.json    plumb project MODEL --lumi 1,2,5,10 --json          (seconds differ)
+ *   json/contour.json    plumb contour MODEL --x POI --y P --rays 32 --json  (P: most correlated with the POI)
+ *   json/discovery-scan.json plumb discovery MODEL… [--label KEY] --json     (with several models)
  * </pre>
  * each with the shared fit options given to the report (inject takes --fix, --threads, --seed,
  * --optimizer and --explicit-mcstat). A section that fails is recorded with why and the others
@@ -161,6 +165,7 @@ final class ReportJob {
         }
 
         in = limits(in, hasPoi);
+        in = planning(in, main, p, best, hasPoi);
 
         GofCommand.GofTests gof = section("gof", () -> GofCommand.compute(m, p, fit, null));
         if (gof != null) {
@@ -195,6 +200,78 @@ final class ReportJob {
         for (LimitCommand.ModelLimit o : limits.outcomes()) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
         CompiledModel m = limits.outcomes().get(0).model().compiled();
         return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", 0.95, limits.key(), points));
+    }
+
+    /** Rays of the report's contour: enough for a smooth curve, half the command's default for speed. */
+    static final int CONTOUR_RAYS = 32;
+
+    /** Sensitivity ranking, luminosity projection, a contour of the POI and a scan across the models. */
+    private ReportInput planning(ReportInput in, ModelInput.Loaded main, FitOptions.Prepared p, FitResult best,
+                                boolean hasPoi) {
+        if (!hasPoi) {
+            failures.add(new RunSummary.Failure("planning", "the model names no parameter of interest (poi)"));
+            return in;
+        }
+        CompiledModel m = main.compiled();
+        List<Results.PlanningPart> parts = new ArrayList<>();
+        var sens = section("planning", () -> SensitivityCommand.compute(main, fit, new double[] {0.5}, 0, 0.95));
+        if (sens != null) {
+            attach("sensitivity", SensitivityCommand.toJson(m, sens));
+            List<plumb.cli.table.Table> tables = SensitivityCommand.tables(sens, 15);
+            parts.add(new Results.PlanningPart("Which uncertainty limits the search", String.format(Locale.ROOT,
+                    "Expected %s limit on %s as it is: %s; expected significance %s σ. Each row: the nuisance parameter "
+                            + "removed, or its pre-fit width halved (fast path from the Asimov Fisher information).",
+                    "95 % CL", sens.poi(), plumb.cli.table.Table.number(sens.limit(), 4), Numbers.fixed(sens.z(), 2)),
+                    tables.get(0), "sensitivity", sens.parameters().isEmpty() ? null
+                    : () -> plumb.cli.plot.SensitivityFigure.of(sens, sens.parameters(), 15, "nuisance parameters"),
+                    "Improvement of the expected limit with each uncertainty removed or halved."));
+            parts.add(new Results.PlanningPart("Groups", null, tables.get(1), "sensitivity_groups", null, null));
+        }
+        var proj = section("planning", () -> ProjectCommand.compute(main, fit, new double[] {1, 2, 5, 10}, 0.95));
+        if (proj != null) {
+            attach("project", ProjectCommand.toJson(m, proj));
+            parts.add(new Results.PlanningPart("Reach with more data", null, ProjectCommand.table(proj), "projection",
+                    () -> plumb.cli.plot.ProjectionFigure.of(proj),
+                    "Expected limit and significance against the luminosity factor, three scenarios."));
+        }
+        int partner = mostCorrelated(m, best);
+        if (partner >= 0 && best.converged()) {
+            var c = section("planning", () -> ContourCommand.compute(main, fit, p, m.parameterNames[m.poi],
+                    m.parameterNames[partner], CONTOUR_RAYS));
+            if (c != null) {
+                attach("contour", ContourCommand.toJson(m, p.kind(), c));
+                parts.add(new Results.PlanningPart("Two-parameter regions", String.format(Locale.ROOT,
+                        "%s against %s, the parameter most correlated with it (ρ = %s).", m.parameterNames[m.poi],
+                        m.parameterNames[partner], Numbers.fixed(c.correlation(), 2)), null, "contour",
+                        () -> plumb.cli.plot.ContourFigure.of(c), "68 % and 95 % profile-likelihood regions."));
+            }
+        }
+        if (files.size() > 1) {
+            var scan = section("planning", () -> DiscoveryScan.compute(files, fit, label, 0.5, null));
+            if (scan != null) {
+                attach("discovery-scan", DiscoveryScan.toJson(scan));
+                parts.add(new Results.PlanningPart("Local p-value across " + scan.key(), DiscoveryScan.summary(scan),
+                        DiscoveryScan.table(scan), "local_p",
+                        () -> plumb.cli.plot.LookElsewhereFigure.of(scan.scan(), scan.key(), Double.NaN),
+                        "Local discovery p-value; the global significance of the largest excess by up-crossings."));
+            }
+        }
+        return in.withPlanning(parts);
+    }
+
+    /** The free constrained-or-free model parameter most correlated with the POI in the best fit, or −1. */
+    private static int mostCorrelated(CompiledModel m, FitResult best) {
+        int pick = -1;
+        double most = -1;
+        for (int i = 0; i < m.nParams; i++) {
+            if (i == m.poi || best.held()[i]) continue;
+            double r = Math.abs(best.correlation(m.poi, i, m.nParams));
+            if (r > most) {
+                most = r;
+                pick = i;
+            }
+        }
+        return pick;
     }
 
     private ReportInput injection(ReportInput in, ModelInput.Loaded main, boolean hasPoi) {

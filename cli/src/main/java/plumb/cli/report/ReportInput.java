@@ -17,7 +17,7 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
                           List<ChannelYieldBands> yields, ScanCurve scan, Results.DiscoveryValues discovery,
                           Results.Limits limits, Results.GofValues gof, List<Results.InjectionValues> injection,
                           List<Results.Attachment> attachments, List<Results.Closure> closures,
-                          Results.ErrorBreakdown breakdown) {
+                          Results.ErrorBreakdown breakdown, List<Results.PlanningPart> planning) {
 
     /** Default number of parameters in the impacts ranking. */
     public static final int DEFAULT_IMPACTS_TOP = 20;
@@ -29,58 +29,64 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
         injection = injection == null ? List.of() : List.copyOf(injection);
         attachments = attachments == null ? List.of() : List.copyOf(attachments);
         closures = closures == null ? List.of() : List.copyOf(closures);
+        planning = planning == null ? List.of() : List.copyOf(planning);
     }
 
     /** A report with only the run summary. */
     public static ReportInput of(RunSummary summary) {
-        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null);
+        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null, null);
     }
 
     public ReportInput withSummary(RunSummary summary) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withFit(FitSection fit) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withImpacts(ImpactBars impacts, int top) {
-        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withYields(List<ChannelYieldBands> yields) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withScan(ScanCurve scan) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withDiscovery(Results.DiscoveryValues discovery) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withLimits(Results.Limits limits) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withGoodnessOfFit(Results.GofValues gof) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withInjection(List<Results.InjectionValues> injection) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withAttachments(List<Results.Attachment> attachments) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withClosures(List<Results.Closure> closures) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 
     public ReportInput withBreakdown(Results.ErrorBreakdown breakdown) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+    }
+
+    /** The planning section (sensitivity, projections, contours, look-elsewhere): its parts in order. */
+    public ReportInput withPlanning(List<Results.PlanningPart> planning) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
     }
 }

@@ -49,7 +49,7 @@ public final class ReportWriter {
     /** Section ids and their short names (navigation bar, list of failed sections). */
     private static final String[][] SECTIONS = {{"summary", "Run"}, {"fit", "Fit"}, {"pulls", "Pulls"},
         {"impacts", "Impacts"}, {"yields", "Yields"}, {"scan", "Scan"}, {"discovery", "Discovery"}, {"limits", "Limits"},
-        {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"files", "Files"}};
+        {"planning", "Reach"}, {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"files", "Files"}};
 
     private static String title(String id) {
         for (String[] sec : SECTIONS) if (sec[0].equals(id)) return sec[1];
@@ -115,6 +115,7 @@ public final class ReportWriter {
         scanSection();
         discoverySection();
         limitsSection();
+        planningSection();
         gofSection();
         injectionSection();
         filesSection();
@@ -344,6 +345,21 @@ public final class ReportWriter {
         significanceRow(t, "Expected (Asimov, POI = 1)", d.expected());
         table(t.build(), "discovery");
         if (d.observed() == null) html.append("<p class=\"muted\">Blinded: no observed significance.</p>\n");
+        close();
+    }
+
+    private void planningSection() throws IOException {
+        open("planning", "What limits the search, and the reach with more data");
+        if (in.planning().isEmpty()) {
+            notRun();
+            return;
+        }
+        for (Results.PlanningPart p : in.planning()) {
+            html.append("<h3>").append(esc(p.heading())).append("</h3>\n");
+            if (p.text() != null) html.append("<p>").append(esc(p.text())).append("</p>\n");
+            if (p.figure() != null) figure(p.name(), p.caption(), p.figure()::get);
+            if (p.table() != null) table(p.table(), p.name());
+        }
         close();
     }
 

@@ -93,4 +93,14 @@ public final class Results {
             content = content.clone();
         }
     }
+
+    /**
+     * One part of the planning section: a heading, a line of text, a table and a figure (each
+     * optional). The figure is drawn when the page is written.
+     *
+     * @param name base name of the table and figure files
+     */
+    public record PlanningPart(String heading, String text, plumb.cli.table.Table table, String name,
+                               java.util.function.Supplier<plumb.cli.plot.Figure> figure, String caption) {
+    }
 }
