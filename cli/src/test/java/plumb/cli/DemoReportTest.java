@@ -111,14 +111,14 @@ class DemoReportTest {
             assertTrue(Files.isRegularFile(file), "missing " + ref);
             checked++;
         }
-        // 11 figures (image, link, SVG and PNG links), 9 JSON files, tables in three formats.
-        assertTrue(checked > 11 * 4 + 9 + 3 * 10, "only " + checked + " references");
+        // 14 figures (image, link, SVG and PNG links), 12 JSON files, tables in three formats.
+        assertTrue(checked > 14 * 4 + 12 + 3 * 10, "only " + checked + " references");
     }
 
     @Test
     void everySectionIsThereAndTheSummaryNamesTheRun() throws IOException {
-        for (String s : List.of("summary", "fit", "pulls", "impacts", "yields", "scan", "discovery", "limits", "gof",
-                "injection", "files")) {
+        for (String s : List.of("summary", "fit", "pulls", "impacts", "yields", "scan", "discovery", "limits", "planning",
+                "gof", "injection", "files")) {
             assertTrue(html.contains("<section id=\"" + s + "\">"), s);
         }
         assertFalse(html.contains("Not run for this report."), "every section ran");
@@ -134,7 +134,7 @@ class DemoReportTest {
         // The check's warning on the demo model reaches the summary.
         assertTrue(summary.contains("shape variation of photon_energy_scale exceeds 100%"), summary);
         for (String t : List.of("fit_parameters", "impacts", "impacts_breakdown", "yields_sr_tight_postfit", "scan_intervals",
-                "discovery", "limits", "goodness_of_fit", "asimov_closure", "injection")) {
+                "discovery", "limits", "goodness_of_fit", "asimov_closure", "injection", "sensitivity", "projection")) {
             for (String ext : List.of("csv", "md", "tex")) {
                 assertTrue(Files.size(dir.resolve("tables/" + t + "." + ext)) > 20, t + "." + ext);
             }
@@ -152,6 +152,8 @@ class DemoReportTest {
         assertSameJson("discovery", json("discovery", m));
         assertSameJson("limit", json("limit", m, "--threads", "2"));
         assertSameJson("gof", json("gof", m));
+        assertSameJson("sensitivity", json("sensitivity", m, "--threads", "2"));
+        assertSameJson("project", json("project", m, "--threads", "2"));
         assertSameJson("inject", json("inject", m, "--mu", "1,2,3", "--toys", TOYS, "--asimov", "--threads", "2"));
     }
 
@@ -161,7 +163,7 @@ class DemoReportTest {
         HeadlessChromium.Page page = HeadlessChromium.open(dir.resolve("index.html"), tmp);
         String attributes = page.bodyAttributes();
         assertTrue(attributes.contains("data-check=\"ok\""), "page check failed: " + attributes);
-        assertTrue(attributes.contains("data-images=\"11\""), attributes);
+        assertTrue(attributes.contains("data-images=\"14\""), attributes);
         assertEquals(List.of(), page.consoleLines(), "console messages");
     }
 
@@ -188,7 +190,7 @@ class DemoReportTest {
 
     private static void strip(JsonNode node) {
         if (node instanceof ObjectNode o) {
-            o.remove(List.of("timing", "seconds"));
+            o.remove(List.of("timing", "seconds", "fastSeconds", "exactSeconds"));
             o.forEach(DemoReportTest::strip);
         } else if (node instanceof ArrayNode a) {
             a.forEach(DemoReportTest::strip);

@@ -184,6 +184,30 @@ public final class Plumb {
     }
 
     /**
+     * Which uncertainty limits the search: the expected limit and significance with each nuisance
+     * parameter and group removed or its pre-fit width scaled by each of {@code scales}, ranked
+     * (fast path), with the exact recomputation for the top {@code exactTop}. Asimov nuisance values
+     * post-fit when the model has observed data.
+     */
+    public static plumb.engine.inference.Sensitivity.Result sensitivity(Problem p, double[] scales, int exactTop) {
+        requirePoi(p.model());
+        return plumb.engine.inference.Sensitivity.compute(
+                plumb.engine.inference.Sensitivity.request(p, true, 0.95, scales, exactTop, threads()), null);
+    }
+
+    /** The expected limit and significance with the yields scaled by each luminosity factor, three scenarios. */
+    public static plumb.engine.inference.Projection.Result project(Problem p, double[] lumis) {
+        requirePoi(p.model());
+        return plumb.engine.inference.Projection.compute(p, true, 0.95, lumis, threads(), null);
+    }
+
+    /** The 68 % and 95 % profile-likelihood regions of two parameters, {@code rays} points each. */
+    public static plumb.engine.inference.Contour.Result contour(Problem p, String x, String y, int rays) {
+        return plumb.engine.inference.Contour.compute(p, x, y, plumb.engine.inference.Contour.DEFAULT_CLS, rays,
+                threads(), null);
+    }
+
+    /**
      * Injection toys: {@code toys} pseudo-data sets generated at POI = {@code injected} (nuisances
      * at their nominal values, auxiliary values fluctuated), each fitted; the summary of the fitted
      * POI, its pull and coverage. Toy i depends only on ({@code seed}, i).

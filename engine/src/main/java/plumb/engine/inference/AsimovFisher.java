@@ -174,8 +174,47 @@ public final class AsimovFisher {
             if (k == 0) held[i] = true;
             else h[i * nP + i] += delta(i, k);
         }
-        double[] c = inverse(h, held);
-        return c == null ? Double.NaN : c[m.poi * nP + m.poi];
+        return poiVariance(h, held);
+    }
+
+    /**
+     * (H⁻¹)_μμ over the free parameters not in {@code alsoHeld}: one Cholesky factorisation and one
+     * solve with the POI's unit vector, a third of the work of the full inverse.
+     */
+    private double poiVariance(double[] h, boolean[] alsoHeld) {
+        int[] idx = new int[nP];
+        int k = 0, p = -1;
+        for (int i = 0; i < nP; i++) {
+            if (!free[i] || alsoHeld[i]) continue;
+            if (i == m.poi) p = k;
+            idx[k++] = i;
+        }
+        double[] sub = new double[k * k];
+        for (int a = 0; a < k; a++) for (int b = 0; b < k; b++) sub[a * k + b] = h[idx[a] * nP + idx[b]];
+        CholeskySolver chol = CholeskySolver.create(k);
+        if (p < 0 || !chol.decompose(sub, k)) return Double.NaN;
+        double[] e = new double[k];
+        e[p] = 1;
+        chol.solve(e, e);
+        return e[p];
+    }
+
+    /**
+     * The point a conditional fit with the POI held at {@code mu} would reach, to first order: the
+     * generating point moved along the linear response Δθ = C_θμ/C_μμ·(μ − μ̂) (the first Newton
+     * step from the minimum), clipped to the parameters' ranges; γ as at the generating point.
+     */
+    double[] conditionalPoint(double[] values, double mu) {
+        double[] out = values.clone();
+        if (!valid()) return out;
+        int p = m.poi;
+        double f = (mu - values[p]) / cov[p * nP + p];
+        for (int i = 0; i < nP; i++) {
+            if (!free[i]) continue;
+            out[i] = Math.max(m.lower[i], Math.min(m.upper[i], values[i] + cov[i * nP + p] * f));
+        }
+        out[p] = mu;
+        return out;
     }
 
     private double[] inverse(double[] h) {

@@ -115,16 +115,24 @@ public final class Sensitivity {
     public record Fisher(AsimovFisher zeroAtMin, AsimovFisher zeroAtMid, AsimovFisher oneAtMin,
                          AsimovFisher oneAtMid) {
 
-        /** The four information matrices, after the exact values of the model as it is. */
+        /**
+         * The four information matrices, after the exact values of the model as it is. The points
+         * half-way are the conditional fits to first order ({@link AsimovFisher#conditionalPoint}):
+         * no fit is made, and the curvature there changes by second-order terms only.
+         */
         public static Fisher of(CompiledModel m, AsimovPair asimov, int[] held, double[] heldValues, double limit,
                                 FitSettings settings) {
-            return new Fisher(
-                    new AsimovFisher(m, asimov.zero().data(), asimov.zero().values(), held),
-                    new AsimovFisher(m, asimov.zero().data(), conditional(m, asimov.zero(), held, heldValues, limit / 2,
-                            settings), held),
-                    new AsimovFisher(m, asimov.one().data(), asimov.one().values(), held),
-                    new AsimovFisher(m, asimov.one().data(), conditional(m, asimov.one(), held, heldValues, 0.5,
-                            settings), held));
+            AsimovFisher zero = new AsimovFisher(m, asimov.zero().data(), asimov.zero().values(), held);
+            AsimovFisher one = new AsimovFisher(m, asimov.one().data(), asimov.one().values(), held);
+            return new Fisher(zero, halfWay(m, asimov.zero(), zero, held, heldValues, limit / 2, settings), one,
+                    halfWay(m, asimov.one(), one, held, heldValues, 0.5, settings));
+        }
+
+        /** The information at the first-order conditional point, or at a conditional fit where that is not positive definite. */
+        private static AsimovFisher halfWay(CompiledModel m, DataSets.Generated g, AsimovFisher atMin, int[] held,
+                                            double[] heldValues, double mu, FitSettings settings) {
+            AsimovFisher f = new AsimovFisher(m, g.data(), atMin.conditionalPoint(g.values(), mu), held);
+            return f.valid() ? f : new AsimovFisher(m, g.data(), conditional(m, g, held, heldValues, mu, settings), held);
         }
 
         private static double[] conditional(CompiledModel m, DataSets.Generated g, int[] held, double[] heldValues,
