@@ -71,7 +71,8 @@ class DemoReportTest {
 
     @Test
     void everyFigureIsAValidPngAndSvg() throws Exception {
-        List<String> figures = new ArrayList<>(List.of("correlation", "pulls", "impacts", "scan", "injection"));
+        List<String> figures = new ArrayList<>(List.of("correlation", "pulls", "impacts", "scan", "injection",
+                "sensitivity", "projection", "contour"));
         for (String channel : List.of("sr_tight", "cr_loose_isolation", "cr_low_mass")) {
             figures.add("yields_" + channel + "_prefit");
             figures.add("yields_" + channel + "_postfit");

@@ -43,7 +43,8 @@ class ReportCommandTest {
 
     @Test
     void aFailingSectionIsShownInRedAndTheRestIsStillWritten() throws IOException {
-        // A limit above the POI's upper bound 1 cannot be bracketed: the limits section fails.
+        // A limit above the POI's upper bound 1 cannot be bracketed: the limits section fails, and
+        // with it the expected limits of the planning section.
         Path m = model("weak.json", 2, 500, 1);
         Path out = dir.resolve("report");
         CommandLineTestSupport.Run r = CommandLineTestSupport.run("report", m.toString(), "--out", out.toString(),
@@ -52,12 +53,14 @@ class ReportCommandTest {
         assertTrue(r.err().contains("plumb report: limits failed: ") && r.err().contains("could not be bracketed"), r.err());
         String html = Files.readString(out.resolve("index.html"));
         String summary = html.substring(html.indexOf("<section id=\"summary\">"), html.indexOf("<section id=\"fit\">"));
-        assertTrue(summary.contains("<div class=\"bad box\"><strong>Sections that failed (1)</strong><ul><li><a href=\"#limits\">Limits</a>: "),
+        assertTrue(summary.contains("<div class=\"bad box\"><strong>Sections that failed (2)</strong><ul><li><a href=\"#limits\">Limits</a>: "),
                 summary);
-        String limits = html.substring(html.indexOf("<section id=\"limits\">"), html.indexOf("<section id=\"gof\">"));
+        assertTrue(summary.contains("<a href=\"#planning\">Reach</a>: "), summary);
+        String limits = html.substring(html.indexOf("<section id=\"limits\">"), html.indexOf("<section id=\"planning\">"));
         assertTrue(limits.contains("<p class=\"bad\">This section failed: ") && limits.contains("could not be bracketed"), limits);
         // The other sections ran: fit, scan, discovery, injection (at mu = 1 only: 2 and 3 are outside [0, 1]).
         assertFalse(html.contains("Not run for this report."));
+        assertTrue(Files.isRegularFile(out.resolve("figures/contour.png")), "the contour needs no limit");
         assertTrue(Files.isRegularFile(out.resolve("figures/scan.png")));
         assertTrue(Files.isRegularFile(out.resolve("json/limit.json")));
         assertEquals(1, Json.mapper().readTree(out.resolve("json/inject.json").toFile()).get("closure").get("injected").asInt());
