@@ -17,7 +17,8 @@ import java.io.PrintWriter;
                 LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
                 InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class,
                 TidyCommand.class, SensitivityCommand.class, ProjectCommand.class, ContourCommand.class,
-                ImportCommand.class, ExportCommand.class, CombineCommand.class, TemplatesCommand.class})
+                ImportCommand.class, ExportCommand.class, CombineCommand.class, TemplatesCommand.class,
+                BuildCommand.class})
 public final class Main implements Runnable {
 
     public static final String VERSION = "0.1.0";

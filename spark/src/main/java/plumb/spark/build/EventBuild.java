@@ -1,0 +1,354 @@
+package plumb.spark.build;
+
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.BooleanType;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.types.NumericType;
+import org.apache.spark.sql.types.StructField;
+import plumb.cli.ComputationException;
+import plumb.cli.InputException;
+import plumb.cli.build.BuildOutcome;
+import plumb.cli.build.BuildRequest;
+import plumb.cli.build.CutFlowRow;
+import plumb.cli.io.AtomicFiles;
+import plumb.cli.table.TableFormat;
+import plumb.engine.model.Model;
+import plumb.engine.model.ModelException;
+import plumb.engine.model.ModelReader;
+import plumb.engine.model.ModelWriter;
+import plumb.spark.build.BuildSpec.Events;
+import plumb.spark.build.BuildSpec.Expr;
+import plumb.spark.build.BuildSpec.Region;
+import plumb.spark.build.BuildSpec.SampleSpec;
+import plumb.spark.build.BuildSpec.Source;
+import plumb.spark.build.BuildSpec.Step;
+import plumb.spark.build.BuildSpec.VariationSpec;
+import plumb.spark.campaign.SparkRunner;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+/**
+ * {@code plumb build}: event tables to a model (docs/build-format.md). Reads the description,
+ * checks every expression against the tables it applies to (so an error names its key), runs one
+ * Spark pass per set of tables ({@link HistogramJob}), assembles and tidies the model
+ * ({@link ModelAssembly}), has the model reader validate it, and only then writes the cut flow
+ * and the model.
+ */
+public final class EventBuild {
+
+    private final BuildSpec spec;
+    private final SparkSession spark;
+    private final PrintWriter err;
+    private final List<String> warnings = new ArrayList<>();
+    private int views;
+
+    private EventBuild(BuildSpec spec, SparkSession spark, PrintWriter err) {
+        this.spec = spec;
+        this.spark = spark;
+        this.err = err;
+    }
+
+    /** The command's entry (called by the command line): opens Spark on the request's master, builds, closes. */
+    public static BuildOutcome run(BuildRequest request, PrintWriter out, PrintWriter err) {
+        BuildSpec spec = BuildSpecReader.read(request.spec());
+        err.printf(Locale.ROOT, "build: starting Spark (%s)%n", request.master());
+        err.flush();
+        try (SparkRunner runner = SparkRunner.open(request.master(), request.timeoutSeconds())) {
+            SparkSession spark = SparkSession.builder().getOrCreate();
+            return build(spec, spark, request.out(), out, err);
+        }
+    }
+
+    /** Builds with a Spark session that is already open (tests, the events demo). */
+    public static BuildOutcome build(BuildSpec spec, SparkSession spark, Path modelFile, PrintWriter out, PrintWriter err) {
+        long t0 = System.nanoTime();
+        // The grouped result has one row per bin: a shuffle into Spark's default 200 partitions would
+        // only add empty tasks. One partition per core keeps the reduce side as parallel as the scan.
+        spark.conf().set("spark.sql.shuffle.partitions", String.valueOf(Math.max(1, spark.sparkContext().defaultParallelism())));
+        EventBuild b = new EventBuild(spec, spark, err);
+        ModelAssembly assembly;
+        try {
+            assembly = b.histograms();
+        } catch (InputException | ComputationException e) {
+            throw e;
+        } catch (Exception e) {   // Spark failed while reading or computing: the input, as far as we can tell
+            throw new InputException(spec.file() + ": Spark: " + firstLine(e) + "; nothing written");
+        }
+        Model model = assembly.model();
+        String json;
+        try {
+            json = ModelWriter.toJson(model);
+            ModelReader.parse(json, modelFile.toString());   // the reader's every rule, before anything is written
+        } catch (ModelException | IllegalArgumentException e) {
+            throw new InputException(spec.file() + ": the model built is not valid: " + e.getMessage());
+        }
+        List<String> warnings = new ArrayList<>(b.warnings);
+        warnings.addAll(assembly.warnings());
+        BuildOutcome outcome = new BuildOutcome(modelFile, assembly.cutFlow(), warnings, assembly.changes());
+        writeAll(outcome, json);
+        for (String c : outcome.changes()) out.println("  variation: " + c);
+        for (String w : warnings) err.println("plumb build: warning: " + w);
+        out.print(TableFormat.TEXT.render(outcome.cutFlowTable(false)));
+        out.printf(Locale.ROOT, "wrote %s (%d channels, %d samples) and its cut flow %s.{txt,csv,tex} in %.1f s%n",
+                modelFile, model.channels().size(), spec.samples().size(), stem(modelFile),
+                (System.nanoTime() - t0) * 1e-9);
+        out.flush();
+        err.flush();
+        return outcome;
+    }
+
+    /** The file name of the model without .json: the cut flow files take it with their own ending. */
+    static Path stem(Path modelFile) {
+        String name = modelFile.getFileName().toString();
+        if (name.endsWith(".json.gz")) name = name.substring(0, name.length() - 8);
+        else if (name.endsWith(".json")) name = name.substring(0, name.length() - 5);
+        return modelFile.resolveSibling(name + ".cutflow");
+    }
+
+    /** Cut flow first, the model last: a model on disk means that every file of the build is there. */
+    private static void writeAll(BuildOutcome o, String json) {
+        Path stem = stem(o.model());
+        try {
+            AtomicFiles.writeString(Path.of(stem + ".txt"), TableFormat.TEXT.render(o.cutFlowTable(false)));
+            AtomicFiles.writeString(Path.of(stem + ".csv"), TableFormat.CSV.render(o.cutFlowTable(true)));
+            AtomicFiles.writeString(Path.of(stem + ".tex"), TableFormat.LATEX.render(o.cutFlowTable(false)));
+            AtomicFiles.writeString(o.model(), json);
+        } catch (IOException e) {
+            throw new InputException("--out " + o.model() + ": cannot write: " + e.getMessage());
+        }
+    }
+
+    /** Every Spark pass of the build; the numbers go into an assembly. */
+    private ModelAssembly histograms() {
+        ModelAssembly assembly = new ModelAssembly(spec);
+        int passes = 0, pass = 0;
+        for (SampleSpec s : spec.samples()) {
+            passes++;
+            for (VariationSpec v : s.variations()) {
+                if (v.source() == Source.OBSERVABLE || v.source() == Source.EVENTS) passes += (v.up() != null || v.upEvents() != null ? 1 : 0)
+                        + (v.down() != null || v.downEvents() != null ? 1 : 0);
+            }
+        }
+        List<Region> dataRegions = spec.regions().stream().filter(r -> !r.blinded()).toList();
+        if (spec.data() != null && !dataRegions.isEmpty()) passes++;
+
+        // Read every table and check every expression before the first pass: errors come early and name their key.
+        Map<SampleSpec, String> nominal = new LinkedHashMap<>();
+        for (SampleSpec s : spec.samples()) {
+            String view = view(s.events());
+            nominal.put(s, view);
+            List<Region> regions = assembly.regions(s);
+            checkRegions(view, regions, s.events().path());
+            checkNumber(view, s.weight());
+            for (VariationSpec v : s.variations()) {
+                if (v.source() == Source.WEIGHTS || v.source() == Source.OBSERVABLE) {
+                    if (v.up() != null) checkNumber(view, v.up());
+                    if (v.down() != null) checkNumber(view, v.down());
+                }
+            }
+        }
+        Map<Events, String> alternative = new LinkedHashMap<>();
+        for (SampleSpec s : spec.samples()) {
+            for (VariationSpec v : s.variations()) {
+                for (Events e : new Events[] {v.upEvents(), v.downEvents()}) {
+                    if (e == null) continue;
+                    String view = view(e);
+                    alternative.put(e, view);
+                    checkRegions(view, assembly.regions(s, v), e.path());
+                    checkNumber(view, s.weight());
+                }
+            }
+        }
+        String dataView = null;
+        if (spec.data() != null && !dataRegions.isEmpty()) {
+            dataView = view(spec.data());
+            checkRegions(dataView, dataRegions, spec.data().path());
+        }
+
+        for (SampleSpec s : spec.samples()) {
+            String view = nominal.get(s);
+            List<Region> regions = assembly.regions(s);
+            List<String> weights = new ArrayList<>();
+            weights.add(s.weight().sql());
+            for (VariationSpec v : s.variations()) {
+                if (v.source() != Source.WEIGHTS) continue;
+                if (v.up() != null) weights.add(v.up().sql());
+                if (v.down() != null) weights.add(v.down().sql());
+            }
+            progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
+                    ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : ""));
+            HistogramJob job = new HistogramJob(regions, observables(regions), weights);
+            HistogramJob.Sums sums = job.run(spark, view);
+            refuseBad(s.name(), view, regions, s.weight().sql(), weights, sums, s.events().path());
+            CutFlow.Counts flow = HistogramJob.cutFlow(spark, view, regions, s.weight().sql());
+            assembly.nominal(s, job, sums, flow);
+            for (VariationSpec v : s.variations()) {
+                if (v.source() == Source.OBSERVABLE) {
+                    List<Region> vr = assembly.regions(s, v);
+                    double[][] up = null, down = null;
+                    if (v.up() != null) {
+                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " up (observable)");
+                        up = observablePass(s, v.up(), vr, view);
+                    }
+                    if (v.down() != null) {
+                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " down (observable)");
+                        down = observablePass(s, v.down(), vr, view);
+                    }
+                    assembly.variation(s, v, vr, up, down);
+                } else if (v.source() == Source.EVENTS) {
+                    List<Region> vr = assembly.regions(s, v);
+                    double[][] up = null, down = null;
+                    if (v.upEvents() != null) {
+                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " up (events)");
+                        up = tablePass(s, alternative.get(v.upEvents()), vr, v.upEvents().path());
+                    }
+                    if (v.downEvents() != null) {
+                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " down (events)");
+                        down = tablePass(s, alternative.get(v.downEvents()), vr, v.downEvents().path());
+                    }
+                    assembly.variation(s, v, vr, up, down);
+                }
+            }
+        }
+        if (dataView != null) {
+            progress(++pass, passes, "data");
+            HistogramJob job = new HistogramJob(dataRegions, observables(dataRegions), List.of("1"));
+            HistogramJob.Sums sums = job.run(spark, dataView);
+            refuseBadObservable("data", dataRegions, sums, spec.data().path());
+            assembly.data(dataRegions, job, sums, HistogramJob.cutFlow(spark, dataView, dataRegions, "1"));
+        }
+        return assembly;
+    }
+
+    private double[][] observablePass(SampleSpec s, Expr observable, List<Region> regions, String view) {
+        List<String> obs = new ArrayList<>();
+        for (int r = 0; r < regions.size(); r++) obs.add(observable.sql());
+        HistogramJob job = new HistogramJob(regions, obs, List.of(s.weight().sql()));
+        HistogramJob.Sums sums = job.run(spark, view);
+        refuseBadObservable(s.name() + " (" + observable.path() + ")", regions, sums, observable.path());
+        return perRegion(job, sums);
+    }
+
+    private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
+        HistogramJob job = new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
+        HistogramJob.Sums sums = job.run(spark, view);
+        refuseBad(s.name() + " (" + path + ")", view, regions, s.weight().sql(), List.of(s.weight().sql()), sums, path);
+        return perRegion(job, sums);
+    }
+
+    /** Weighted sums (weight 0) of each region of a one-weight pass. */
+    static double[][] perRegion(HistogramJob job, HistogramJob.Sums sums) {
+        int[] off = job.offsets();
+        double[][] out = new double[job.regions().size()][];
+        for (int r = 0; r < out.length; r++) out[r] = sums.region(sums.sums()[0], off, r, job.regions().get(r).bins());
+        return out;
+    }
+
+    private static List<String> observables(List<Region> regions) {
+        return regions.stream().map(r -> r.observable().sql()).toList();
+    }
+
+    /** NaN or infinite weights and NaN observables: counted, then refused with the sample and the count. */
+    private void refuseBad(String sample, String view, List<Region> regions, String weightShown, List<String> weights,
+                           HistogramJob.Sums sums, String path) {
+        refuseBadObservable(sample, regions, sums, path);
+        for (int k = 0; k < weights.size(); k++) {
+            boolean finite = true;
+            for (double v : sums.sums()[k]) finite &= Double.isFinite(v);
+            for (double v : sums.squares()[k]) finite &= Double.isFinite(v);
+            if (finite) continue;
+            long bad = HistogramJob.badWeights(spark, view, regions, weights.get(k));
+            if (bad == 0) {
+                throw new ComputationException(String.format(Locale.ROOT,
+                        "%s: sample %s: the weights '%s' sum beyond the range of double numbers", spec.file(), sample, weights.get(k)));
+            }
+            throw new InputException(String.format(Locale.ROOT,
+                    "%s: sample %s: the weight '%s' is NaN, infinite or null in %d selected event%s; nothing written",
+                    spec.file(), sample, weights.get(k), bad, bad == 1 ? "" : "s"));
+        }
+    }
+
+    private void refuseBadObservable(String sample, List<Region> regions, HistogramJob.Sums sums, String path) {
+        for (int r = 0; r < regions.size(); r++) {
+            long bad = sums.badObservable()[r];
+            if (bad > 0) {
+                throw new InputException(String.format(Locale.ROOT,
+                        "%s: %s: region %s: the observable is NaN or null in %d selected event%s of %s; nothing written",
+                        spec.file(), path, regions.get(r).name(), bad, bad == 1 ? "" : "s", sample));
+            }
+        }
+    }
+
+    private void progress(int k, int n, String what) {
+        err.printf(Locale.ROOT, "build: [%d/%d] %s%n", k, n, what);
+        err.flush();
+    }
+
+    // ---- tables and expressions
+
+    /** Reads one list of tables into a temporary view; its name. */
+    private String view(Events events) {
+        Dataset<Row> df = EventTables.read(spark, events, spec.file());
+        String name = "plumb_events_" + (views++);
+        df.createOrReplaceTempView(name);
+        return name;
+    }
+
+    private void checkRegions(String view, List<Region> regions, String tablesPath) {
+        for (Region r : regions) {
+            for (Step st : r.steps()) check(view, st.keep(), true, tablesPath);
+            checkNumber(view, r.observable(), tablesPath);
+        }
+    }
+
+    private void checkNumber(String view, Expr e) {
+        check(view, e, false, null);
+    }
+
+    private void checkNumber(String view, Expr e, String tablesPath) {
+        check(view, e, false, tablesPath);
+    }
+
+    /** Spark analyses the expression against the table now; an error names the key, the tables and Spark's message. */
+    private void check(String view, Expr e, boolean bool, String tablesPath) {
+        DataType type;
+        try {
+            StructField[] fields = spark.table(view).selectExpr(e.sql()).schema().fields();
+            if (fields.length != 1) throw new InputException(spec.file() + ": " + e.path() + ": '" + e.sql() + "' gives "
+                    + fields.length + " columns, expected one");
+            type = fields[0].dataType();
+        } catch (InputException x) {
+            throw x;
+        } catch (Exception x) {   // Spark's analysis errors are checked exceptions in Java's eyes
+            throw new InputException(spec.file() + ": " + e.path() + ": " + on(tablesPath) + "Spark: " + firstLine(x));
+        }
+        if (bool && !(type instanceof BooleanType)) {
+            throw new InputException(spec.file() + ": " + e.path() + ": '" + e.sql() + "' is of type "
+                    + type.simpleString() + ", expected a boolean");
+        }
+        if (!bool && !(type instanceof NumericType)) {
+            throw new InputException(spec.file() + ": " + e.path() + ": '" + e.sql() + "' is of type "
+                    + type.simpleString() + ", expected a number");
+        }
+    }
+
+    private static String on(String tablesPath) {
+        return tablesPath == null ? "" : "on the tables of " + tablesPath + ": ";
+    }
+
+    /** The first line of an exception's message (Spark's carry the query plan below it). */
+    static String firstLine(Throwable t) {
+        String m = t.getMessage();
+        if (m == null || m.isBlank()) return t.getClass().getSimpleName();
+        return m.strip().lines().findFirst().orElse("").strip();
+    }
+}
