@@ -21,7 +21,30 @@ public final class ModelException extends RuntimeException {
         StringBuilder b = new StringBuilder();
         if (file != null) b.append(file).append(": ");
         if (path != null && !path.isEmpty()) b.append(path).append(": ");
-        return b.append(what).toString();
+        return oneLine(b.append(what).toString());
+    }
+
+    /**
+     * Control characters of names and keys (a newline, ESC) made visible as \n, \e, \u0007:
+     * the message stays one line and cannot drive a terminal.
+     */
+    static String oneLine(String s) {
+        StringBuilder out = new StringBuilder(s.length());
+        for (int i = 0; i < s.length(); i++) {
+            char c = s.charAt(i);
+            if (c >= 0x20 && (c < 0x7f || c > 0x9f) && c != '\u2028' && c != '\u2029') {
+                out.append(c);
+                continue;
+            }
+            switch (c) {
+                case '\n' -> out.append("\\n");
+                case '\r' -> out.append("\\r");
+                case '\t' -> out.append("\\t");
+                case 0x1b -> out.append("\\e");
+                default -> out.append(String.format(Locale.ROOT, "\\u%04x", (int) c));
+            }
+        }
+        return out.toString();
     }
 
     /** The model file, or null when the model did not come from a file. */
