@@ -81,12 +81,27 @@ public final class ReportWriter {
         if (Files.exists(target) && !Files.isDirectory(target)) {
             throw new IOException(target + " exists and is not a directory");
         }
-        Path stage = Files.createTempDirectory(parent, target.getFileName() + ".tmp-");
+        sweepStale(parent, target.getFileName().toString());
+        Path stage = createStage(parent, target.getFileName().toString());
+        // SIGINT and SIGTERM run the shutdown hooks: the staging folder goes with the process
+        Thread cleanup = new Thread(() -> {
+            try {
+                deleteTree(stage);
+            } catch (IOException | RuntimeException ignored) {
+                // the next run sweeps what is left
+            }
+        }, "plumb-report-cleanup");
+        Runtime.getRuntime().addShutdownHook(cleanup);
         try {
             new ReportWriter(in, stage).build();
             publish(stage, target);
         } finally {
             deleteTree(stage);
+            try {
+                Runtime.getRuntime().removeShutdownHook(cleanup);
+            } catch (IllegalStateException shuttingDown) {
+                // the hook runs anyway
+            }
         }
         return target.resolve("index.html");
     }
@@ -597,6 +612,37 @@ public final class ReportWriter {
             AtomicFiles.move(f, dest);
         }
         AtomicFiles.move(index, target.resolve("index.html"));
+    }
+
+    /** Marks a staging folder of report DIR: {@code DIR.tmp-<random>}. */
+    static final String STAGE_MARK = ".tmp-";
+
+    /**
+     * A new staging folder beside the target. Files.createDirectory, unlike createTempDirectory
+     * (always 0700), gives the folder the permissions the umask allows, as any new folder.
+     */
+    private static Path createStage(Path parent, String name) throws IOException {
+        java.util.concurrent.ThreadLocalRandom r = java.util.concurrent.ThreadLocalRandom.current();
+        for (int attempt = 0; ; attempt++) {
+            Path stage = parent.resolve(name + STAGE_MARK + Long.toUnsignedString(r.nextLong(), 36));
+            try {
+                return Files.createDirectory(stage);
+            } catch (java.nio.file.FileAlreadyExistsException taken) {
+                if (attempt > 100) throw taken;
+            }
+        }
+    }
+
+    /** Staging folders of the same target left by a run that was killed (SIGKILL, power loss): removed. */
+    private static void sweepStale(Path parent, String name) {
+        try (Stream<Path> siblings = Files.list(parent)) {
+            for (Path p : siblings.filter(p -> p.getFileName().toString().startsWith(name + STAGE_MARK)
+                    && Files.isDirectory(p, java.nio.file.LinkOption.NOFOLLOW_LINKS)).toList()) {
+                deleteTree(p);
+            }
+        } catch (IOException | RuntimeException e) {
+            // a folder that cannot be swept does not stop the new report
+        }
     }
 
     private static void deleteTree(Path root) throws IOException {

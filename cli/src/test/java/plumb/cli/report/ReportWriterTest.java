@@ -165,4 +165,20 @@ class ReportWriterTest {
         for (int i = s.indexOf(what); i >= 0; i = s.indexOf(what, i + 1)) n++;
         return n;
     }
+
+    @Test
+    void staleStagingFoldersAreSweptAndTheNewFolderFollowsTheUmask(@TempDir Path tmp) throws IOException {
+        Path stale = Files.createDirectories(tmp.resolve("r.tmp-killed/figures"));
+        Files.writeString(stale.resolve("a.png"), "left by a killed run");
+        Path other = Files.createDirectories(tmp.resolve("other.tmp-keep"));
+        ReportWriter.write(ReportFixtures.full(), tmp.resolve("r"));
+        assertFalse(Files.exists(tmp.resolve("r.tmp-killed")), "stale staging folder of the same target swept");
+        assertTrue(Files.exists(other), "another target's folder is left alone");
+        try (var left = Files.list(tmp)) {
+            assertEquals(0, left.filter(p -> p.getFileName().toString().startsWith("r.tmp-")).count());
+        }
+        // a new folder made the ordinary way shows what the umask allows; the report folder matches it
+        Path probe = Files.createDirectory(tmp.resolve("probe"));
+        assertEquals(java.nio.file.Files.getPosixFilePermissions(probe), java.nio.file.Files.getPosixFilePermissions(tmp.resolve("r")));
+    }
 }
