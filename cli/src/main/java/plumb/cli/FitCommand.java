@@ -119,7 +119,7 @@ final class FitCommand implements Callable<Integer> {
         ArrayNode others = root.putArray("otherMinima");
         for (FitResult.OtherMinimum o : r.otherMinima()) {
             ObjectNode e = others.addObject();
-            Json.put(e, "deltaNll", o.deltaNll());
+            Json.put(e, "nllAboveBest", o.deltaNll());
             ArrayNode differ = e.putArray("differences");
             for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
                 ObjectNode d = differ.addObject();
