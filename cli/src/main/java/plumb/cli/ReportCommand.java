@@ -55,6 +55,10 @@ final class ReportCommand implements Callable<Integer> {
             description = "Label of the models that orders the limits (default: the first numeric label all models have).")
     String label;
 
+    @Option(names = "--templates", description = "Also draw every variation's nominal, up and down templates "
+            + "(a folded section; about a second per figure).")
+    boolean templates;
+
     @Spec CommandSpec spec;
 
     @Override
@@ -62,7 +66,9 @@ final class ReportCommand implements Callable<Integer> {
         if (toys < 0) throw new InputException("--toys must be at least 0, got " + toys);
         if (impactsTop < 1) throw new InputException("--impacts-top must be at least 1, got " + impactsTop);
         List<Path> files = LimitCommand.modelFiles(models);
-        return run(new ReportJob(files, fit, toys, impactsTop, label), out, spec.commandLine().getOut(),
+        ReportJob job = new ReportJob(files, fit, toys, impactsTop, label);
+        job.templates = templates;
+        return run(job, out, spec.commandLine().getOut(),
                 spec.commandLine().getErr(), "report");
     }
 

@@ -63,6 +63,8 @@ final class ReportJob {
     private final int toys;
     private final int impactsTop;
     private final String label;
+    /** Draw the template figures of every variation (plumb report --templates). */
+    boolean templates;
 
     private final List<String> warnings = new ArrayList<>();
     private final List<String> nonConverged = new ArrayList<>();
@@ -179,6 +181,7 @@ final class ReportJob {
                 p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
                 fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
+        if (templates) in = in.withTemplates(plumb.engine.tooling.Templates.of(main.model()));
         try {
             return new Written(ReportWriter.write(in, dir), summary);
         } catch (IOException | RuntimeException e) {

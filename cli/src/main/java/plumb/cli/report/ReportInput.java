@@ -3,6 +3,7 @@ package plumb.cli.report;
 import java.util.List;
 import plumb.cli.plot.ImpactBars;
 import plumb.cli.plot.ScanCurve;
+import plumb.engine.tooling.Templates;
 
 /**
  * Everything one report shows. Only the summary is required; a null section was not run and
@@ -17,7 +18,8 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
                           List<ChannelYieldBands> yields, ScanCurve scan, Results.DiscoveryValues discovery,
                           Results.Limits limits, Results.GofValues gof, List<Results.InjectionValues> injection,
                           List<Results.Attachment> attachments, List<Results.Closure> closures,
-                          Results.ErrorBreakdown breakdown, List<Results.PlanningPart> planning) {
+                          Results.ErrorBreakdown breakdown, List<Results.PlanningPart> planning,
+                          List<Templates.Template> templates) {
 
     /** Default number of parameters in the impacts ranking. */
     public static final int DEFAULT_IMPACTS_TOP = 20;
@@ -30,63 +32,68 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
         attachments = attachments == null ? List.of() : List.copyOf(attachments);
         closures = closures == null ? List.of() : List.copyOf(closures);
         planning = planning == null ? List.of() : List.copyOf(planning);
+        templates = templates == null ? List.of() : List.copyOf(templates);
     }
 
     /** A report with only the run summary. */
     public static ReportInput of(RunSummary summary) {
-        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null, null);
+        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null, null, null);
     }
 
     public ReportInput withSummary(RunSummary summary) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withFit(FitSection fit) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withImpacts(ImpactBars impacts, int top) {
-        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withYields(List<ChannelYieldBands> yields) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withScan(ScanCurve scan) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withDiscovery(Results.DiscoveryValues discovery) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withLimits(Results.Limits limits) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withGoodnessOfFit(Results.GofValues gof) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withInjection(List<Results.InjectionValues> injection) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withAttachments(List<Results.Attachment> attachments) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withClosures(List<Results.Closure> closures) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     public ReportInput withBreakdown(Results.ErrorBreakdown breakdown) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 
     /** The planning section (sensitivity, projections, contours, look-elsewhere): its parts in order. */
     public ReportInput withPlanning(List<Results.PlanningPart> planning) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+    }
+
+    public ReportInput withTemplates(List<Templates.Template> templates) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
     }
 }

@@ -1,5 +1,8 @@
 package plumb.cli.report;
 
+import plumb.cli.plot.TemplateFigure;
+import plumb.engine.tooling.Templates;
+
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
@@ -49,7 +52,7 @@ public final class ReportWriter {
     /** Section ids and their short names (navigation bar, list of failed sections). */
     private static final String[][] SECTIONS = {{"summary", "Run"}, {"fit", "Fit"}, {"pulls", "Pulls"},
         {"impacts", "Impacts"}, {"yields", "Yields"}, {"scan", "Scan"}, {"discovery", "Discovery"}, {"limits", "Limits"},
-        {"planning", "Reach"}, {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"files", "Files"}};
+        {"planning", "Reach"}, {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"templates", "Templates"}, {"files", "Files"}};
 
     private static String title(String id) {
         for (String[] sec : SECTIONS) if (sec[0].equals(id)) return sec[1];
@@ -133,6 +136,7 @@ public final class ReportWriter {
         planningSection();
         gofSection();
         injectionSection();
+        templatesSection();
         filesSection();
         String body = html.toString();
         html = new StringBuilder();
@@ -470,6 +474,28 @@ public final class ReportWriter {
                     () -> LinearityFigure.of(new Linearity(poi, points)));
             table(t.build(), "injection");
         }
+        close();
+    }
+
+    /** Every variation's nominal, up and down templates, folded away: there are many. */
+    private void templatesSection() {
+        open("templates", "Templates");
+        if (in.templates().isEmpty()) {
+            if (in.summary().failure(section) == null) {
+                html.append("<p class=\"muted\">Not drawn for this report (plumb report --templates draws them).</p>\n");
+            }
+            close();
+            return;
+        }
+        html.append("<details><summary>").append(in.templates().size())
+            .append(" figures: nominal, up and down of every variation of every sample, with the ratio to nominal</summary>\n");
+        for (int k = 0; k < in.templates().size(); k++) {
+            Templates.Template t = in.templates().get(k);
+            String name = String.format(Locale.ROOT, "template-%03d-%s", k,
+                    FigureWriter.safeName(t.channel() + "_" + t.sample() + "_" + t.parameter()));
+            figure(name, "Variation " + t.parameter() + " of " + t.sample() + " in " + t.channel() + ".", () -> TemplateFigure.of(t));
+        }
+        html.append("</details>\n");
         close();
     }
 
