@@ -125,7 +125,7 @@ public final class SparkRunner implements WorkRunner {
         }
     }
 
-    /** Stops a context that started but did not answer, waiting a few seconds at most (it may hang). */
+    /** Stops a context that started but did not answer, waiting 30 s at most (it may hang). */
     private static void stopQuietly(JavaSparkContext sc) {
         if (sc == null) return;
         Thread t = new Thread(() -> {
@@ -138,7 +138,7 @@ public final class SparkRunner implements WorkRunner {
         t.setDaemon(true);
         t.start();
         try {
-            t.join(10_000);
+            t.join(30_000);
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         }
