@@ -119,7 +119,7 @@ final class FitCommand implements Callable<Integer> {
         ArrayNode others = root.putArray("otherMinima");
         for (FitResult.OtherMinimum o : r.otherMinima()) {
             ObjectNode e = others.addObject();
-            Json.put(e, "nllAboveBest", o.deltaNll());
+            Json.put(e, "nllAboveBest", o.nllAboveBest());
             ArrayNode differ = e.putArray("differences");
             for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
                 ObjectNode d = differ.addObject();
@@ -166,7 +166,7 @@ final class FitCommand implements Callable<Integer> {
                         .append(Numbers.fixed(o.values()[i], 2)).append(" (here ").append(Numbers.fixed(r.values()[i], 2))
                         .append(')');
             }
-            out.printf(Locale.ROOT, "  dNLL = +%s at %s%n", String.format(Locale.ROOT, "%.6f", o.deltaNll()), b);
+            out.printf(Locale.ROOT, "  -ln L above the best by +%s at %s%n", String.format(Locale.ROOT, "%.6f", o.nllAboveBest()), b);
         }
         out.flush();
     }
@@ -180,7 +180,7 @@ final class FitCommand implements Callable<Integer> {
             for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) names.add(m.parameterNames[i]);
             out.add(String.format(Locale.ROOT, "the model has several minima: the fit met %d other minim%s of -ln L "
                             + "(the nearest %.4g above, differing most in %s); results use the lowest",
-                    r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a", o.deltaNll(), String.join(", ", names)));
+                    r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a", o.nllAboveBest(), String.join(", ", names)));
         }
         for (int i = 0; i < m.nAll; i++) {
             if (r.atKink()[i]) {

@@ -49,10 +49,10 @@ public record FitResult(MinimumStatus status, double nll, double[] values, doubl
     /**
      * A minimum other than the reported one.
      *
-     * @param deltaNll its −ln L minus the reported fit's (&gt; 0)
+     * @param nllAboveBest its −ln L minus the reported fit's (&gt; 0)
      * @param values every parameter (nAll) there
      */
-    public record OtherMinimum(double deltaNll, double[] values) implements java.io.Serializable {
+    public record OtherMinimum(double nllAboveBest, double[] values) implements java.io.Serializable {
 
         /**
          * The {@code count} parameters whose values differ most from {@code best}'s, largest first:

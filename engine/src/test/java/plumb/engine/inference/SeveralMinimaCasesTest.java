@@ -47,7 +47,7 @@ class SeveralMinimaCasesTest {
         // The higher minimum is reported with its depth.
         assertTrue(r.severalMinima());
         FitResult.OtherMinimum other = r.otherMinima().get(0);
-        assertEquals(34.536152 - 34.490839, other.deltaNll(), 2e-6);
+        assertEquals(34.536152 - 34.490839, other.nllAboveBest(), 2e-6);
         assertEquals(-0.11, other.values()[m.indexOf("np0")], 0.005);
         assertEquals(-0.28, other.values()[m.indexOf("np1")], 0.005);
 

@@ -81,7 +81,7 @@ class TwoMinimaTest {
             assertEquals(deep[1], r.nll(), 1e-8, "from " + start);
             assertEquals(deep[0], r.values()[0], 1e-3, "from " + start);
             assertTrue(r.severalMinima(), "from " + start);
-            assertEquals(shallow[1] - deep[1], r.otherMinima().get(0).deltaNll(), 1e-8, "from " + start);
+            assertEquals(shallow[1] - deep[1], r.otherMinima().get(0).nllAboveBest(), 1e-8, "from " + start);
             assertEquals(shallow[0], r.otherMinima().get(0).values()[0], 1e-3, "from " + start);
         }
         // The descent alone stays in the basin it starts in.
