@@ -50,7 +50,7 @@ class InjectCommandTest {
         return json;
     }
 
-    /** Same seed ⇒ byte-identical result files with 1 and with 2 threads (issue 5). */
+    /** Same seed ⇒ byte-identical result files with 1 and with 2 threads. */
     @Test
     void sameSeedGivesTheSameBytesWithAnyThreadCount() throws IOException {
         Path one = inject("t1.json", "--mu", "1,2.5", "--toys", "40", "--threads", "1");

@@ -108,7 +108,7 @@ class DemoModelTest {
                 }
             }
         }
-        assertEquals(17, nuisances.size(), nuisances.toString());   // the brief asks for at least 15
+        assertEquals(17, nuisances.size(), nuisances.toString());   // a realistic analysis: at least 15
         assertTrue(normOnly.size() >= 3 && shapeOnly.size() >= 3 && both.size() >= 2,
                 normOnly + " " + shapeOnly + " " + both);
         assertTrue(asymmetric && oneSided);

@@ -13,7 +13,7 @@ import org.junit.jupiter.params.provider.CsvSource;
 class TableTest {
 
     // Rounding rule: uncertainty to two significant digits, value to the same decimal place
-    // (common practice; the examples of the task brief are the first two rows).
+    // (common practice; the first two rows are the usual textbook examples).
     @ParameterizedTest
     @CsvSource(delimiter = ';', value = {
         "12.345;    0.0678;  12.345 ± 0.068",

@@ -19,7 +19,7 @@ import java.util.function.IntConsumer;
  */
 public final class InjectionToys {
 
-    /** Largest |fitted − generating| allowed in the Asimov closure check (issue 5: "to 1e-6"). */
+    /** Largest |fitted − generating| allowed in the Asimov closure check. */
     public static final double CLOSURE_TOLERANCE = 1e-6;
 
     /**

@@ -148,7 +148,7 @@ class InjectionToysTest {
         }
     }
 
-    /** The Asimov closure returns every parameter to its generating value within 1e-6 (issue 5). */
+    /** The Asimov closure returns every parameter to its generating value within 1e-6. */
     @Test
     void asimovClosureOnTheMixedModel() {
         for (ModelOptions.McStatConstraint mc : ModelOptions.McStatConstraint.values()) {

@@ -118,7 +118,7 @@ class SparkCampaignTest {
     }
 
     @Test
-    void multiModelAsymptoticLimitsEqualTheThreadRun() throws IOException {
+    void limitsOfTwoModelsEqualTheThreadRun() throws IOException {
         byte[][] r = threadsAndSpark("multi", "limit", demo.toString(), demoHeavy.toString());
         JsonNode t = withoutTime(r[0]), s = withoutTime(r[1]);
         assertEquals(t, s);

@@ -25,7 +25,7 @@ import java.util.concurrent.TimeUnit;
  * Impacts rankings on the generated models, the best fit done in setup. {@code exactRanking}:
  * every constrained parameter refitted four times on 2 threads (γ not ranked), single shot — on
  * the large model one shot is ~1200 refits. {@code linearisedRanking}: the ranking from the
- * post-fit covariance, the fast mode. Figures in the report of issue 3.
+ * post-fit covariance, the fast mode. Figures in the README.
  */
 @State(Scope.Benchmark)
 @OutputTimeUnit(TimeUnit.MILLISECONDS)

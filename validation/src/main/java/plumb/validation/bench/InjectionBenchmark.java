@@ -32,7 +32,7 @@ import java.util.concurrent.TimeUnit;
 @Fork(value = 1, jvmArgs = {"-Xmx1g"})
 public class InjectionBenchmark {
 
-    /** Toys per measurement (issue 5: "1,000 injection toys of the medium generated model"). */
+    /** Toys per measurement (1,000 injection toys of the medium generated model). */
     public static final int TOYS = 1000;
 
     @Param({"2", "1"})
