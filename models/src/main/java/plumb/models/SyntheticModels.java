@@ -48,7 +48,7 @@ public final class SyntheticModels {
 
     /** Mass range of every channel, GeV (invented). */
     private static final double LO = 100.0, HI = 500.0;
-    /** Fraction of nuisance parameters that are global (brief: about 10%). */
+    /** Fraction of nuisance parameters that are global (about 10%, as in a typical analysis). */
     private static final double GLOBAL_FRACTION = 0.1;
     /** Chance that a global parameter acts on a given sample of a channel ("most samples"). */
     private static final double GLOBAL_COVERAGE = 0.85;

@@ -14,7 +14,7 @@ import plumb.engine.model.Model;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-/** Fits of counting experiments against closed forms (/work/shared/docs/references.md items 1–3). */
+/** Fits of counting experiments against closed forms (docs/references.md, counting experiments). */
 class CountingReferenceTest {
 
     private static FitResult fit(CompiledModel m, DataSet d, int hold, double value) {

@@ -18,7 +18,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 /**
- * Injection toy studies on the demo model and on generated models (issue 5).
+ * Injection toy studies on the demo model and on generated models.
  *
  * <p>Toy counts: 1,000 toys per injected value, as the issue asks; on 2 cores every study here
  * takes well under a minute (the medium model's 1,000 toys about 5–10 s), so they run at full size
@@ -92,7 +92,7 @@ class InjectionStudyTest {
 
     /**
      * Asimov closure on every model in models (the demo and generated ones): a fit to the Asimov data
-     * set returns the POI and every nuisance to its generating value within 1e-6 (issue 5), with the
+     * set returns the POI and every nuisance to its generating value within 1e-6, with the
      * nuisances at nominal and at post-fit values, the POI at its lower bound included.
      */
     @ParameterizedTest
