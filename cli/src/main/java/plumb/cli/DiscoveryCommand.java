@@ -1,7 +1,6 @@
 package plumb.cli;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import org.apache.commons.math3.distribution.NormalDistribution;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
@@ -162,7 +161,7 @@ final class DiscoveryCommand implements Callable<Integer> {
             t.put("exceeding", toy.exceeding());
             Json.put(t, "p", toy.p());
             Json.put(t, "pError", toy.error());
-            Json.put(t, "z", z(toy.p()));
+            Json.put(t, "z", toy.z());
             t.put("seed", seed);
         }
         return root;
@@ -173,12 +172,6 @@ final class DiscoveryCommand implements Callable<Integer> {
         Json.put(node, "z", s.z());
         Json.put(node, "p", s.p());
         Json.put(node, "muHat", s.muHat());
-    }
-
-    /** The significance of a one-sided p-value, Φ⁻¹(1 − p); infinite for p = 0. */
-    static double z(double p) {
-        if (!(p > 0)) return p == 0 ? Double.POSITIVE_INFINITY : Double.NaN;
-        return -new NormalDistribution(null, 0, 1).inverseCumulativeProbability(p);
     }
 
     private void print(PrintWriter out, ModelInput.Loaded l, PoiData d, Discovery.Significance observed,
@@ -203,7 +196,7 @@ final class DiscoveryCommand implements Callable<Integer> {
             out.printf(Locale.ROOT, "  toys (background only, nuisances at their fit with %s = 0, seed %d): "
                     + "p = %s ± %s (%d of %d toys with q0 >= observed; %d failed fits left out), Z = %s sigma%n",
                     poi, fit.seed, Numbers.plain(toy.p()), Numbers.plain(toy.error()), toy.exceeding(),
-                    toy.toys() - toy.failed(), toy.failed(), Numbers.fixed(z(toy.p()), 3));
+                    toy.toys() - toy.failed(), toy.failed(), Numbers.fixed(toy.z(), 3));
             if (toy.exceeding() == 0) {
                 out.printf(Locale.ROOT, "  (no toy reached the observed q0: p is below about %s; throw more toys)%n",
                         Numbers.plain(3.0 / Math.max(1, toy.toys() - toy.failed())));

@@ -166,7 +166,7 @@ final class LimitCommand implements Callable<Integer> {
             } else {
                 for (int i = 0; i < loaded.size(); i++) {
                     try (Progress bar = Progress.start("toys " + loaded.get(i).file().getFileName(),
-                            (long) toys * 11)) {
+                            ToyLimits.firstTasks(toys))) {
                         outcomes.add(compute(loaded.get(i), xs[i], data.get(i), runner, bar));
                     }
                 }

@@ -68,6 +68,8 @@ class LimitCommandsTest {
         JsonNode j = r.json();
         assertEquals(0.95, j.get("cl").asDouble());
         assertEquals("asymptotic", j.get("method").asText());
+        // docs/cli-contract.md names the statistic qtilde_mu
+        assertEquals("qtilde_mu", j.get("statistic").asText());
         assertEquals("observed", j.get("data").asText());
         assertEquals(500, j.get("labels").get("mass").asDouble());
         assertTrue(j.get("observed").asDouble() > 0);

@@ -89,6 +89,14 @@ public final class ToyLimits {
         return 2 * toys;
     }
 
+    /**
+     * Toy tasks of a run that needs only its first μ values: the toys at the start plus
+     * {@link #tasksPerPoint} at each first value (a progress total; runs that add μ values do more).
+     */
+    public static long firstTasks(int toys) {
+        return toys + (long) INITIAL_POINTS * tasksPerPoint(toys);
+    }
+
     /** A toy of the background-only set, drawn once: its data and best fit (null when it failed). */
     private record BackgroundToy(DataSet data, FitResult best) { }
 

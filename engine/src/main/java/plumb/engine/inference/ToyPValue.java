@@ -19,6 +19,18 @@ public record ToyPValue(double observed, int toys, int failed, int exceeding, do
      */
     static final double TIE_TOLERANCE = 1e-6;
 
+    /**
+     * The significance of p, Φ⁻¹(1 − p) (one-sided, Cowan et al. 2011 eq. 2): infinite when no toy
+     * reached the observed statistic, NaN when p is.
+     */
+    public double z() {
+        if (!(p > 0)) return p == 0 ? Double.POSITIVE_INFINITY : Double.NaN;
+        return -NORMAL.inverseCumulativeProbability(p);
+    }
+
+    private static final org.apache.commons.math3.distribution.NormalDistribution NORMAL =
+            new org.apache.commons.math3.distribution.NormalDistribution(null, 0, 1);
+
     /** Counts the toy statistics (NaN = failed fit) at least {@code observed}. */
     static ToyPValue of(double observed, double[] statistics) {
         int failed = 0, exceeding = 0;
