@@ -6,7 +6,7 @@ import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
 import plumb.engine.model.ModelOptions;
 
-import java.lang.management.ManagementFactory;
+import plumb.engine.ThreadAllocation;
 
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -17,13 +17,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
  */
 class BinnedNllAllocationTest {
 
-    private static long allocatedBy(Runnable r) {
-        com.sun.management.ThreadMXBean bean = (com.sun.management.ThreadMXBean) ManagementFactory.getThreadMXBean();
-        long id = Thread.currentThread().getId();
-        long before = bean.getThreadAllocatedBytes(id);
-        r.run();
-        return bean.getThreadAllocatedBytes(id) - before;
-    }
 
     @Test
     void evaluationsDoNotAllocate() {
@@ -43,7 +36,7 @@ class BinnedNllAllocationTest {
                 }
             };
             evaluations.run(); // let the JIT settle first
-            long bytes = allocatedBy(evaluations);
+            long bytes = ThreadAllocation.bytesAllocatedBy(evaluations);
             // 6000 evaluations; 256 bytes of slack for the counter itself
             assertTrue(bytes < 256, (explicit ? "explicit" : "profiled") + " layout allocated " + bytes + " bytes");
         }

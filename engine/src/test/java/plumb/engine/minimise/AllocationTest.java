@@ -2,7 +2,7 @@ package plumb.engine.minimise;
 
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.lang.management.ManagementFactory;
+import plumb.engine.ThreadAllocation;
 import java.util.Arrays;
 import org.junit.jupiter.api.Test;
 import plumb.engine.minimise.TestObjectives.Rosenbrock;
@@ -13,13 +13,6 @@ import plumb.engine.minimise.TestObjectives.Rosenbrock;
  */
 class AllocationTest {
 
-    private static long allocatedBy(Runnable fit) {
-        com.sun.management.ThreadMXBean bean = (com.sun.management.ThreadMXBean) ManagementFactory.getThreadMXBean();
-        long id = Thread.currentThread().getId();
-        long before = bean.getThreadAllocatedBytes(id);
-        fit.run();
-        return bean.getThreadAllocatedBytes(id) - before;
-    }
 
     @Test
     void newtonIterationsDoNotAllocate() {
@@ -37,8 +30,8 @@ class AllocationTest {
         for (int warm = 0; warm < 200; warm++) { // let the JIT settle first
             newton.minimise(f, far, lower, upper);
         }
-        long few = allocatedBy(() -> iterations[0] = newton.minimise(f, near, lower, upper).iterations());
-        long many = allocatedBy(() -> iterations[1] = newton.minimise(f, far, lower, upper).iterations());
+        long few = ThreadAllocation.bytesAllocatedBy(() -> iterations[0] = newton.minimise(f, near, lower, upper).iterations());
+        long many = ThreadAllocation.bytesAllocatedBy(() -> iterations[1] = newton.minimise(f, far, lower, upper).iterations());
         assertTrue(iterations[1] > iterations[0] + 10, Arrays.toString(iterations));
         // Same validation and result copies in both fits; 256 bytes of slack for the counter itself.
         assertTrue(Math.abs(many - few) < 256, few + " vs " + many + " bytes");
