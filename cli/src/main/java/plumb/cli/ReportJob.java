@@ -3,6 +3,7 @@ package plumb.cli;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import plumb.cli.plot.LimitBands;
 import plumb.cli.report.ReportAssembler;
+import plumb.cli.report.ReportFolder;
 import plumb.cli.report.ReportInput;
 import plumb.cli.report.ReportWriter;
 import plumb.cli.report.Results;
@@ -96,6 +97,7 @@ final class ReportJob {
      */
     Written run(Path dir) {
         long t0 = System.nanoTime();
+        requireReportFolder(dir, files);
         ModelInput.Loaded main = ModelInput.load(files.get(0));
         for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
         CompiledModel m = main.compiled();
@@ -183,9 +185,21 @@ final class ReportJob {
         in = in.withSummary(summary).withAttachments(attachments);
         if (templates) in = in.withTemplates(plumb.engine.tooling.Templates.of(main.model()));
         try {
-            return new Written(ReportWriter.write(in, dir), summary);
+            return new Written(ReportWriter.write(in, dir, files), summary);
+        } catch (ReportFolder.NotReusable e) {
+            throw new InputException("--out " + dir + ": " + e.getMessage());
         } catch (IOException | RuntimeException e) {
             throw new InputException("--out " + dir + ": cannot write the report: " + Outputs.cause(e));
+        }
+    }
+
+    /** Refuses, before any work, a --out folder that holds something other than a previous report or the models. */
+    static void requireReportFolder(Path dir, List<Path> models) {
+        try {
+            ReportFolder.requireReusable(dir, models);
+        } catch (IOException e) {
+            throw new InputException("--out " + dir + ": " + (e instanceof ReportFolder.NotReusable ? e.getMessage()
+                    : "cannot use the folder: " + Outputs.cause(e)));
         }
     }
 

@@ -104,6 +104,27 @@ class ReportCommandTest {
         }
     }
 
+    /** A folder holding anything but an earlier report is refused before any work, and left as it was. */
+    @Test
+    void aFolderOfOtherFilesIsRefusedBeforeAnyWork() throws IOException {
+        Path m = model("a.json", 10, 500, 20);
+        Path out = Files.createDirectories(dir.resolve("busy"));
+        Files.writeString(out.resolve("thesis.tex"), "mine");
+        for (String[] args : new String[][] {
+            {"report", m.toString(), "--out", out.toString()},
+            {"demo", "--out", out.toString()},
+        }) {
+            CommandLineTestSupport.Run r = CommandLineTestSupport.run(args);
+            assertEquals(ExitCodes.BAD_INPUT, r.status(), r.err());
+            assertEquals(1, r.err().strip().split("\n").length, r.err());
+            assertTrue(r.err().startsWith("plumb " + args[0] + ": --out " + out + ": is not empty"), r.err());
+            assertTrue(r.err().contains("thesis.tex"), r.err());
+            try (var left = Files.list(out)) {
+                assertEquals(java.util.List.of(out.resolve("thesis.tex")), left.toList());
+            }
+        }
+    }
+
     /** A blinded model: the fit uses the unblinded channels only, and the report and headline say so. */
     @Test
     void blindedModelIsReportedAsBlinded() throws IOException {

@@ -8,11 +8,10 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.Comparator;
+import java.util.Collection;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import java.util.stream.Stream;
 import plumb.cli.io.AtomicFiles;
 import plumb.cli.plot.CorrelationFigure;
 import plumb.cli.plot.Figure;
@@ -38,11 +37,9 @@ import plumb.cli.table.TableFormat;
  * script, nothing fetched from the network), {@code figures/} with every figure as PNG and SVG,
  * {@code tables/} with every table as CSV, Markdown and LaTeX, and the attachments.
  *
- * <p>Everything is first written into a fresh sibling directory {@code DIR.tmp-*}. When DIR does
- * not exist yet, that directory is renamed to DIR in one step. When it exists, the files are
- * moved in one by one (each a rename that replaces), {@code index.html} last, so the page never
- * points at a file that is not there yet; other files already in DIR are left alone. A failure
- * before publishing removes the temporary directory and leaves DIR untouched.
+ * <p>Everything is first written into a staging folder and then put in place of DIR whole;
+ * {@link ReportFolder} has the rules for a DIR that already exists. A failure before that removes
+ * the staging folder and leaves DIR untouched.
  */
 public final class ReportWriter {
 
@@ -72,24 +69,30 @@ public final class ReportWriter {
     }
 
     /**
-     * Writes the report for {@code in} into {@code dir}.
+     * Writes the report for {@code in} into {@code dir}, replacing a previous report there.
      *
      * @return the path of the written {@code index.html}
-     * @throws IOException when a file cannot be written; DIR is then left as it was
+     * @throws IOException when a file cannot be written or DIR holds something other than a report
+     *                     ({@link ReportFolder}); DIR is then left as it was
      */
     public static Path write(ReportInput in, Path dir) throws IOException {
-        Path target = dir.toAbsolutePath().normalize();
-        Path parent = target.getParent();
-        Files.createDirectories(parent);
-        if (Files.exists(target) && !Files.isDirectory(target)) {
-            throw new IOException(target + " exists and is not a directory");
-        }
-        sweepStale(parent, target.getFileName().toString());
-        Path stage = createStage(parent, target.getFileName().toString());
+        return write(in, dir, List.of());
+    }
+
+    /**
+     * As {@link #write(ReportInput, Path)}; {@code inputs} are the run's model files, which may lie
+     * in DIR (they are kept in the new folder).
+     */
+    public static Path write(ReportInput in, Path dir, Collection<Path> inputs) throws IOException {
+        Path target = ReportFolder.target(dir);
+        Files.createDirectories(target.getParent());
+        ReportFolder.requireReusable(dir, inputs);
+        ReportFolder.sweepStale(target);
+        Path stage = ReportFolder.createStage(target);
         // SIGINT and SIGTERM run the shutdown hooks: the staging folder goes with the process
         Thread cleanup = new Thread(() -> {
             try {
-                deleteTree(stage);
+                ReportFolder.deleteTree(stage);
             } catch (IOException | RuntimeException ignored) {
                 // the next run sweeps what is left
             }
@@ -97,9 +100,10 @@ public final class ReportWriter {
         Runtime.getRuntime().addShutdownHook(cleanup);
         try {
             new ReportWriter(in, stage).build();
-            publish(stage, target);
+            ReportFolder.mark(stage);
+            ReportFolder.publish(stage, target, inputs);
         } finally {
-            deleteTree(stage);
+            ReportFolder.deleteTree(stage);
             try {
                 Runtime.getRuntime().removeShutdownHook(cleanup);
             } catch (IllegalStateException shuttingDown) {
@@ -613,68 +617,5 @@ public final class ReportWriter {
         long s = Math.round(seconds);
         if (s < 3600) return String.format(Locale.ROOT, "%d min %02d s", s / 60, s % 60);
         return String.format(Locale.ROOT, "%d h %02d min", s / 3600, (s % 3600) / 60);
-    }
-
-    // ---- publishing ------------------------------------------------------------------------
-
-    private static void publish(Path stage, Path target) throws IOException {
-        if (!Files.exists(target)) {
-            try {
-                AtomicFiles.move(stage, target);
-                return;
-            } catch (IOException raced) {
-                if (!Files.isDirectory(target)) throw raced;   // someone created it meanwhile: merge below
-            }
-        }
-        List<Path> files;
-        try (Stream<Path> walk = Files.walk(stage)) {
-            files = walk.filter(Files::isRegularFile).sorted(Comparator.comparing(Path::toString)).toList();
-        }
-        Path index = stage.resolve("index.html");
-        for (Path f : files) {
-            if (f.equals(index)) continue;
-            Path dest = target.resolve(stage.relativize(f).toString());
-            Files.createDirectories(dest.getParent());
-            AtomicFiles.move(f, dest);
-        }
-        AtomicFiles.move(index, target.resolve("index.html"));
-    }
-
-    /** Marks a staging folder of report DIR: {@code DIR.tmp-<random>}. */
-    static final String STAGE_MARK = ".tmp-";
-
-    /**
-     * A new staging folder beside the target. Files.createDirectory, unlike createTempDirectory
-     * (always 0700), gives the folder the permissions the umask allows, as any new folder.
-     */
-    private static Path createStage(Path parent, String name) throws IOException {
-        java.util.concurrent.ThreadLocalRandom r = java.util.concurrent.ThreadLocalRandom.current();
-        for (int attempt = 0; ; attempt++) {
-            Path stage = parent.resolve(name + STAGE_MARK + Long.toUnsignedString(r.nextLong(), 36));
-            try {
-                return Files.createDirectory(stage);
-            } catch (java.nio.file.FileAlreadyExistsException taken) {
-                if (attempt > 100) throw taken;
-            }
-        }
-    }
-
-    /** Staging folders of the same target left by a run that was killed (SIGKILL, power loss): removed. */
-    private static void sweepStale(Path parent, String name) {
-        try (Stream<Path> siblings = Files.list(parent)) {
-            for (Path p : siblings.filter(p -> p.getFileName().toString().startsWith(name + STAGE_MARK)
-                    && Files.isDirectory(p, java.nio.file.LinkOption.NOFOLLOW_LINKS)).toList()) {
-                deleteTree(p);
-            }
-        } catch (IOException | RuntimeException e) {
-            // a folder that cannot be swept does not stop the new report
-        }
-    }
-
-    private static void deleteTree(Path root) throws IOException {
-        if (!Files.exists(root)) return;
-        try (Stream<Path> walk = Files.walk(root)) {
-            for (Path p : walk.sorted(Comparator.reverseOrder()).toList()) Files.deleteIfExists(p);
-        }
     }
 }

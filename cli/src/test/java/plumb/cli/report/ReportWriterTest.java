@@ -101,16 +101,59 @@ class ReportWriterTest {
     }
 
     @Test
-    void rewritingAnExistingDirectoryReplacesOurFilesAndKeepsOthers() throws IOException {
+    void aSecondReportReplacesTheFirstWhole() throws IOException {
         Path dir = tmp.resolve("r");
-        Files.createDirectories(dir);
-        Files.writeString(dir.resolve("notes.txt"), "mine");
         ReportWriter.write(ReportFixtures.full(), dir);
+        assertTrue(Files.isDirectory(dir.resolve("figures")));
+        assertTrue(Files.exists(dir.resolve(ReportFolder.MARKER)), "a report marks its folder");
         ReportWriter.write(ReportInput.of(ReportFixtures.full().summary()), dir);
-        assertEquals("mine", Files.readString(dir.resolve("notes.txt")));
+        // the second report draws no figure: nothing of the first one may be left beside it
+        assertFalse(Files.exists(dir.resolve("figures")), "the first report's figures are gone");
+        assertFalse(Files.exists(dir.resolve("tables/fit_parameters.csv")), "the first report's tables are gone");
+        assertTrue(Files.exists(dir.resolve(ReportFolder.MARKER)));
         String html = Files.readString(dir.resolve("index.html"));
         assertTrue(html.contains("Not run for this report."));
         assertFalse(html.contains("<img "));
+        assertNoStagingLeft();
+    }
+
+    @Test
+    void aFolderHoldingOtherFilesIsRefusedAndLeftAlone() throws IOException {
+        Path dir = Files.createDirectories(tmp.resolve("r"));
+        Files.writeString(dir.resolve("notes.txt"), "mine");
+        ReportFolder.NotReusable e = assertThrows(ReportFolder.NotReusable.class, () -> ReportWriter.write(ReportFixtures.full(), dir));
+        assertTrue(e.getMessage().contains("notes.txt"), e.getMessage());
+        assertEquals(1, e.getMessage().lines().count());
+        assertEquals("mine", Files.readString(dir.resolve("notes.txt")));
+        try (Stream<Path> left = Files.list(dir)) {
+            assertEquals(List.of(dir.resolve("notes.txt")), left.toList(), "nothing written into the folder");
+        }
+        assertNoStagingLeft();
+    }
+
+    @Test
+    void anEmptyFolderOrOneHoldingOnlyTheInputModelTakesTheReportAndKeepsTheModel() throws IOException {
+        Path empty = Files.createDirectories(tmp.resolve("empty"));
+        ReportWriter.write(ReportFixtures.full(), empty);
+        assertTrue(Files.exists(empty.resolve("index.html")));
+        Path dir = Files.createDirectories(tmp.resolve("r"));
+        Path model = Files.writeString(dir.resolve("model.json"), "{\"the\": \"model\"}");
+        ReportWriter.write(ReportFixtures.full(), dir, List.of(model));
+        ReportWriter.write(ReportInput.of(ReportFixtures.full().summary()), dir, List.of(model));
+        assertEquals("{\"the\": \"model\"}", Files.readString(model), "the input model is kept through both reports");
+        assertFalse(Files.exists(dir.resolve("figures")));
+        assertNoStagingLeft();
+    }
+
+    @Test
+    void aLinkToAReportFolderIsKeptAndItsFolderReplaced() throws IOException {
+        Path real = tmp.resolve("real");
+        ReportWriter.write(ReportFixtures.full(), real);
+        Path link = Files.createSymbolicLink(tmp.resolve("link"), real);
+        ReportWriter.write(ReportInput.of(ReportFixtures.full().summary()), link);
+        assertTrue(Files.isSymbolicLink(link));
+        assertFalse(Files.exists(real.resolve("figures")));
+        assertTrue(Files.readString(link.resolve("index.html")).contains("Not run for this report."));
         assertNoStagingLeft();
     }
 
