@@ -13,15 +13,15 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /**
  * No input makes the model reader and validator do anything but return a valid model or throw
  * a {@link ModelException} with a one-line message: no other exception, no parser internals.
- * Every run replays the seed inputs kept in {@code ModelReaderFuzzTestInputs/} and makes a few
- * thousand random byte and token mutations of valid models; {@code -Dplumb.fuzz.trials=N} runs
- * N mutations instead (a longer fuzzing run).
+ * Every run replays the seed inputs kept in {@code ModelReaderJazzerTestInputs/} (shared with the
+ * coverage-guided {@link ModelReaderJazzerTest}) and makes a few thousand random byte and token
+ * mutations of valid models; {@code -Dplumb.fuzz.trials=N} runs N mutations instead.
  */
 class ModelReaderFuzzTest {
 
     @Test
     void seedInputs() throws Exception {
-        java.nio.file.Path dir = java.nio.file.Path.of(getClass().getResource("ModelReaderFuzzTestInputs/readerAndValidator").toURI());
+        java.nio.file.Path dir = java.nio.file.Path.of(getClass().getResource("ModelReaderJazzerTestInputs/readerAndValidator").toURI());
         int n = 0;
         try (var files = java.nio.file.Files.list(dir)) {
             for (java.nio.file.Path f : (Iterable<java.nio.file.Path>) files::iterator) {
@@ -32,10 +32,12 @@ class ModelReaderFuzzTest {
         assertTrue(n >= 5, "seed inputs found: " + n);
     }
 
+    /** The property: a valid model (one the compiler takes) or a one-line ModelException. */
     static void check(byte[] input) {
         try {
             Model m = ModelReader.read(new ByteArrayInputStream(input), "fuzz");
             assertNotNull(m.name());
+            assertNotNull(plumb.engine.compile.ModelCompiler.compile(m), "a valid model compiles");
         } catch (ModelException e) {
             String msg = e.getMessage();
             assertTrue(msg.startsWith("fuzz: "), msg);
