@@ -10,7 +10,7 @@ import plumb.engine.inference.MemoryBudget;
 import java.io.PrintWriter;
 
 /** The {@code plumb} command: subcommands, and one place that turns failures into exit codes. */
-@Command(name = "plumb", mixinStandardHelpOptions = true, version = "plumb " + Main.VERSION,
+@Command(name = "plumb", mixinStandardHelpOptions = true, versionProvider = Version.class,
         description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
         subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
                 ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
@@ -21,7 +21,8 @@ import java.io.PrintWriter;
                 BuildCommand.class})
 public final class Main implements Runnable {
 
-    public static final String VERSION = "0.1.0";
+    /** The project version (from the build, see {@link Version}). */
+    public static final String VERSION = Version.NUMBER;
 
     @Option(names = "--debug", scope = CommandLine.ScopeType.INHERIT,
             description = "Print stack traces of failures.")
