@@ -16,7 +16,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
 /**
- * The ./plumb launcher's first run builds quietly and without terminal escape codes: run on a
+ * The ./plumb launcher's first run builds quietly and without terminal escape codes, and a failed
+ * build exits 3 (2 is kept for bad input): run on a
  * copy of the launcher with stand-ins for mvn (which prints colour codes, as Maven's console
  * library does) and java on the PATH.
  */
@@ -55,7 +56,7 @@ class LauncherTest {
 
         Files.writeString(dir.resolve("fail"), "");
         String[] failed = launch();
-        assertEquals("2", failed[0]);
+        assertEquals("3", failed[0], "a failed build is not bad input (2)");
         assertTrue(failed[2].contains("[ERROR] broken"), failed[2]);
         assertTrue(failed[2].endsWith("plumb: build failed\n"), failed[2]);
         assertFalse(failed[2].contains("\u001b"), failed[2]);
