@@ -1,7 +1,13 @@
 package plumb.models;
 
+import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import org.apache.commons.math3.distribution.NormalDistribution;
 import org.junit.jupiter.api.Test;
+import plumb.engine.api.FitOutcome;
+import plumb.engine.api.Plumb;
+import plumb.engine.compile.CompiledModel;
+import plumb.engine.compile.ModelCompiler;
 import plumb.engine.model.Channel;
 import plumb.engine.model.Model;
 import plumb.engine.model.ModelWriter;
@@ -34,6 +40,41 @@ class DemoModelTest {
         // If this fails after a deliberate change of the recipe, regenerate the resource with
         // DemoModel.main (see its Javadoc) and commit it.
         assertEquals(storedText(), ModelWriter.toJson(DemoModel.build()));
+    }
+
+    @Test
+    void storedSignalIsTheGaussianPeakOfTheScenario() throws IOException {
+        // Not from the code's output: the scenario's signal is a Gaussian of 38 events at 640 GeV
+        // with a 7.7 GeV resolution; each stored bin must hold 38·(Φ(hi) − Φ(lo)), Φ from
+        // commons-math, to the six significant digits the file keeps (tails below 1e-4 are 0).
+        // The file is read as plain JSON, not through the engine's reader.
+        JsonNode sr = new ObjectMapper().readTree(storedText()).get("channels").get(0);
+        assertEquals("sr_tight", sr.get("name").asText());
+        JsonNode signal = sr.get("samples").get(0);
+        assertEquals("signal", signal.get("name").asText());
+        NormalDistribution peak = new NormalDistribution(640, 7.7);
+        JsonNode edges = sr.get("edges"), yields = signal.get("yields");
+        double total = 0;
+        for (int b = 0; b < yields.size(); b++) {
+            double expected = 38 * (peak.cumulativeProbability(edges.get(b + 1).asDouble())
+                    - peak.cumulativeProbability(edges.get(b).asDouble()));
+            double stored = yields.get(b).asDouble();
+            assertEquals(expected, stored, Math.max(1e-4, 5e-6 * expected), "bin " + b);
+            total += stored;
+        }
+        assertEquals(38, total, 1e-3);   // the peak lies far inside 500-800 GeV
+    }
+
+    @Test
+    void anAsimovFitOfTheDemoReturnsItsGeneratingSignalStrength() {
+        // The fit of an Asimov data set returns the values it was generated from (Cowan, Cranmer,
+        // Gross, Vitells, Eur. Phys. J. C 71 (2011) 1554, section 3.1): mu = 1, whatever the code.
+        CompiledModel m = ModelCompiler.compile(DemoModel.load());
+        FitOutcome fit = Plumb.fit(Plumb.asimov(m, 1.0));
+        assertTrue(fit.converged(), fit.status());
+        assertEquals(1.0, fit.value("mu"), 1e-4);
+        FitOutcome atTwo = Plumb.fit(Plumb.asimov(m, 2.0));
+        assertEquals(2.0, atTwo.value("mu"), 1e-4);
     }
 
     @Test
