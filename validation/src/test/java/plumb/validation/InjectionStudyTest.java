@@ -20,7 +20,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /**
  * Injection toy studies on the demo model and on generated models.
  *
- * <p>Toy counts: 1,000 toys per injected value, as the issue asks; on 2 cores every study here
+ * <p>Toy counts: 1,000 toys per injected value; on 2 cores every study here
  * takes well under a minute (the medium model's 1,000 toys about 5–10 s), so they run at full size
  * in CI. Tolerances are in standard errors of the toy count, so they stay right at any count.
  * Fixed seeds: the outcome is deterministic.

@@ -33,7 +33,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
  * Post-fit yield errors (linear propagation J C Jᵀ with the full covariance, γ included) against
  * brute force: 10⁵ draws of every parameter from the post-fit multivariate normal (commons-math
  * Cholesky factor, commons-rng Gaussian sampler), the yields recomputed at each draw, and their
- * standard deviation taken. Agreement within 1 % (the issue's criterion): the sampling error of a
+ * standard deviation taken. Agreement within 1 % (the accuracy asked of the yield errors): the sampling error of a
  * standard deviation from 10⁵ draws is 1/√(2·10⁵) ≈ 0.2 %, and the yields are close to linear
  * over one post-fit standard deviation (common practice).
  */

@@ -10,7 +10,7 @@ import java.util.Locale;
 final class Roots {
 
     /**
-     * Relative accuracy of every limit: ten times finer than the 1e-4 the issue asks for, so the
+     * Relative accuracy of every limit: ten times finer than the 1e-4 a limit is quoted to, so the
      * stopping rule of the solver never decides the quoted digits.
      */
     static final double RELATIVE_ACCURACY = 1e-5;
