@@ -101,9 +101,9 @@ public final class Impacts {
     private final int dim;
     private final int[] candidates;
     private final Fitter probe;
-    /** Full covariance (γ included), computed on first need: an nAll³ inversion. */
-    private double[] full;
-    private boolean fullDone;
+    /** Post-fit covariance with the γ, in block form, computed on first need. */
+    private PostfitCovariance post;
+    private boolean postDone;
 
     /**
      * @param held, heldValues parameters held in the best fit beyond the model's fixed ones (as given to its Fitter)
@@ -142,13 +142,22 @@ public final class Impacts {
         this(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues(), best, includeMcStat);
     }
 
-    /** The full post-fit covariance (nAll², γ included), or null when not positive definite. */
-    public synchronized double[] fullCovariance() {
-        if (!fullDone) {
-            full = Covariances.full(probe.likelihood(), best);
-            fullDone = true;
+    /**
+     * The full post-fit covariance as a dense nAll² matrix, γ included, or null when not positive
+     * definite. Only for small models and checks: the impacts use its block form
+     * ({@link #postfitCovariance()}).
+     */
+    public double[] fullCovariance() {
+        return Covariances.full(probe.likelihood(), best);
+    }
+
+    /** The post-fit covariance with the γ in block form, or null when not positive definite. */
+    public synchronized PostfitCovariance postfitCovariance() {
+        if (!postDone) {
+            post = PostfitCovariance.of(probe.likelihood(), best);
+            postDone = true;
         }
-        return full;
+        return post;
     }
 
     private boolean anyGamma() {
@@ -169,8 +178,8 @@ public final class Impacts {
     /** Σ(i, j) of the post-fit covariance: the fit's own for model parameters, the full one for γ. */
     private double cov(int i, int j) {
         if (i < m.nParams && j < m.nParams) return best.covariance()[i * m.nParams + j];
-        double[] f = fullCovariance();
-        return f == null ? Double.NaN : f[i * m.nAll + j];
+        PostfitCovariance f = postfitCovariance();
+        return f == null ? Double.NaN : f.covariance(i, j);
     }
 
     /** Linearised shifts of every candidate, sorted by size, largest first. Costs O(candidates). */
@@ -210,7 +219,7 @@ public final class Impacts {
         int[] parameters = new int[n];
         for (int e = 0; e < n; e++) parameters[e] = chosen.get(e).parameter();
         RefitWork work = new RefitWork(data, Refits.refitSettings(settings), held, heldValues, best, dim,
-                anyGamma() ? fullCovariance() : null, parameters);
+                anyGamma() ? postfitCovariance() : null, parameters);
         List<RefitPoi> fits = runner.run(m, work, 4 * n, progress);
         List<Entry> out = new ArrayList<>(lin.size());
         for (int e = 0; e < n; e++) {
@@ -236,7 +245,7 @@ public final class Impacts {
      * or ± pre-fit width (2, 3), warm-started from the best fit.
      */
     private record RefitWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, FitResult best,
-                             int dim, double[] full, int[] parameters)
+                             int dim, PostfitCovariance full, int[] parameters)
             implements RangeWork<RefitWork.Worker, RefitPoi> {
 
         record Worker(Fitter fitter, Refits refits) { }
@@ -269,7 +278,7 @@ public final class Impacts {
 
     /**
      * The grouped breakdown of σ_μ from the full post-fit covariance: for each group, σ_μ with the
-     * group held at its best-fit values ({@link Covariances#conditionalVariance}) and the
+     * group held at its best-fit values ({@link PostfitCovariance#conditionalVariance}) and the
      * contribution √(σ² − σ_fixed²); the statistical-only σ_μ with every constrained parameter
      * held. For a linear model with Gaussian terms whose groups are uncorrelated after the fit,
      * total² = stat² + Σ contribution² exactly.
@@ -278,10 +287,10 @@ public final class Impacts {
      */
     public Breakdown breakdown() {
         int poi = m.poi;
-        double[] f = fullCovariance();
+        PostfitCovariance f = postfitCovariance();
         // σ_μ from the full covariance: equal to the fit's error (Schur complement), and the same
         // matrix as the conditional variances below, so the quadrature sums are consistent.
-        double total = f == null ? best.errors()[poi] : Math.sqrt(f[poi * m.nAll + poi]);
+        double total = f == null ? best.errors()[poi] : Math.sqrt(f.variance(poi));
         List<Contribution> out = new ArrayList<>();
         for (int g = 0; g < m.groupNames.length; g++) {
             out.add(contribution(m.groupNames[g], notHeld(m.groupMembers[g]), total));
@@ -300,11 +309,11 @@ public final class Impacts {
 
     private Contribution contribution(String name, int[] members, double total) {
         double fixed;
-        double[] f = fullCovariance();
+        PostfitCovariance f = postfitCovariance();
         if (f == null) {
             fixed = Double.NaN;
         } else {
-            double var = Covariances.conditionalVariance(f, m.nAll, m.poi, members);
+            double var = f.conditionalVariance(m.poi, members);
             fixed = Math.sqrt(Math.max(var, 0));
         }
         double share = Math.sqrt(Math.max(total * total - fixed * fixed, 0));

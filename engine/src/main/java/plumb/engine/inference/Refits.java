@@ -17,10 +17,10 @@ final class Refits {
     private final CompiledModel m;
     private final FitResult best;
     private final int dim;
-    /** Full covariance (nAll²) when γ are refitted in the profiled layout, else null. */
-    private final double[] full;
+    /** Post-fit covariance with the γ when they are refitted in the profiled layout, else null. */
+    private final PostfitCovariance full;
 
-    Refits(CompiledModel m, FitResult best, int dim, double[] full) {
+    Refits(CompiledModel m, FitResult best, int dim, PostfitCovariance full) {
         this.m = m;
         this.best = best;
         this.dim = dim;
@@ -54,10 +54,9 @@ final class Refits {
         if (k < nP && cov != null && cov[k * nP + k] > 0) {
             double f = delta / cov[k * nP + k];
             for (int i = 0; i < nP; i++) x[i] += cov[i * nP + k] * f;
-        } else if (k >= nP && full != null && full[k * m.nAll + k] > 0) {
-            int n = m.nAll;
-            double f = delta / full[k * n + k];
-            for (int i = 0; i < nP; i++) x[i] += full[i * n + k] * f;
+        } else if (k >= nP && full != null && full.variance(k) > 0) {
+            double f = delta / full.variance(k);
+            for (int i = 0; i < nP; i++) x[i] += full.covariance(i, k) * f;
         }
         for (int i = 0; i < dim; i++) {
             if (best.held()[i]) x[i] = best.values()[i];

@@ -76,6 +76,14 @@ public final class BinnedNll implements Objective {
     private final double[] shapeU2;
     private final int stride;
 
+    /**
+     * While {@link #gammaBlocks} runs: where the explicit layout's γ terms go instead of the
+     * Hessian (curvature d_g per γ, mixed derivatives per γ in its channel's local indices, stride
+     * {@link #localStride()}); null otherwise.
+     */
+    private double[] sinkCurvature;
+    private double[] sinkMixed;
+
     /** Bins per fused rank-k update of a channel's Hessian block: the block is read and written once per this many bins. */
     private static final int FUSED = 4;
 
@@ -212,6 +220,38 @@ public final class BinnedNll implements Objective {
     }
 
     /**
+     * The blocks of {@link #fullHessian} without its nAll² matrix (profiled layout): the Hessian
+     * over the model parameters with γ held at their values (nParams², row-major, no Schur terms),
+     * and per γ its curvature d_g = ∂²f/∂γ_g² and mixed derivatives h_g = ∂²f/∂θ∂γ_g over its
+     * channel's parameters ({@code CompiledModel.channelParams} order, row g of {@code mixed} with
+     * stride {@link #localStride()}; zero in a channel the data set leaves out). The γ block of the
+     * full Hessian is diagonal, so these are all of it.
+     *
+     * @return −ln L at x
+     */
+    public double gammaBlocks(double[] x, double[] thetaHessian, double[] curvature, double[] mixed) {
+        if (explicitGamma) throw new IllegalStateException("gammaBlocks is for the profiled layout");
+        evaluate(x, null, null, false);
+        System.arraycopy(x, 0, extended, 0, m.nParams);
+        System.arraycopy(gammaValue, 0, extended, m.nParams, m.nGamma);
+        java.util.Arrays.fill(curvature, 0, m.nGamma, 0);
+        java.util.Arrays.fill(mixed, 0, m.nGamma * stride, 0);
+        sinkCurvature = curvature;
+        sinkMixed = mixed;
+        try {
+            return evaluate(extended, extendedGrad, thetaHessian, true);
+        } finally {
+            sinkCurvature = null;
+            sinkMixed = null;
+        }
+    }
+
+    /** Row stride of the per-γ mixed derivatives of {@link #gammaBlocks}: the most parameters of a channel. */
+    public int localStride() {
+        return stride;
+    }
+
+    /**
      * Values of all nAll parameters at x: the model parameters copied, the γ as solved (profiled
      * layout) or taken from x (explicit).
      */
@@ -303,8 +343,10 @@ public final class BinnedNll implements Objective {
         final double[] aux = data.aux();
         final int nP = m.nParams;
         final int n = explicit ? m.nAll : nP;
+        // the Hessian's row stride: nParams when the γ terms go to the sinks of gammaBlocks
+        final int hs = sinkCurvature != null ? nP : n;
         if (grad != null) Arrays.fill(grad, 0, n, 0);
-        if (hess != null) Arrays.fill(hess, 0, n * n, 0);
+        if (hess != null) Arrays.fill(hess, 0, hs * hs, 0);
 
         multiplicativeTerms(x);
         shapeTerms(x);
@@ -314,7 +356,7 @@ public final class BinnedNll implements Objective {
         for (int c = 0; c < m.nChannels; c++) {
             nll += channelTerms(c, x, explicit);
         }
-        nll += constraintTerms(x, grad, hess, explicit, n);
+        nll += constraintTerms(x, grad, hess, explicit, hs);
 
         if (grad != null) {
             gradientTerms(grad, hess != null, explicit);
@@ -326,8 +368,8 @@ public final class BinnedNll implements Objective {
                     int L = m.channelParams[c].length;
                     Arrays.fill(hMat, 0, L * L, 0);
                     for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
-                    binOuterProducts(c, hess, n, explicit);
-                    scatter(m.channelParams[c], hess, n);
+                    binOuterProducts(c, hess, hs, explicit);
+                    scatter(m.channelParams[c], hess, hs);
                 }
             }
         }
@@ -504,15 +546,21 @@ public final class BinnedNll implements Objective {
                 double d = v - aux[i];
                 sum += 0.5 * d * d * inv;
                 if (derivatives && grad != null) grad[i] += d * inv;
-                if (derivatives && hess != null) hess[i * n + i] += inv;
+                if (derivatives && hess != null) addCurvature(hess, i, n, inv);
             } else {
                 double mAux = aux[i], tau = m.tau[i];
                 sum += tau * v - (mAux > 0 ? mAux * Math.log(v) : 0);
                 if (derivatives && grad != null) grad[i] += tau - mAux / v;
-                if (derivatives && hess != null) hess[i * n + i] += mAux / (v * v);
+                if (derivatives && hess != null) addCurvature(hess, i, n, mAux / (v * v));
             }
         }
         return sum;
+    }
+
+    /** The diagonal Hessian entry of parameter i += v, or the γ's curvature sink during {@link #gammaBlocks}. */
+    private void addCurvature(double[] hess, int i, int n, double v) {
+        if (sinkCurvature != null && i >= m.nParams) sinkCurvature[i - m.nParams] += v;
+        else hess[i * n + i] += v;
     }
 
     /**
@@ -661,7 +709,10 @@ public final class BinnedNll implements Objective {
             double cb = cPart[b];
             for (int i = 0; i < L; i++) hLoc[i] = wb * gcLoc[i] + qb * cb * gLoc[i];
             int gi = m.nParams + g;
-            if (explicit) {
+            if (explicit && sinkCurvature != null) {
+                sinkCurvature[g] += qb * cb * cb;
+                System.arraycopy(hLoc, 0, sinkMixed, g * stride, L);
+            } else if (explicit) {
                 hess[gi * n + gi] += qb * cb * cb;
                 for (int i = 0; i < L; i++) {
                     int p = local[i];
