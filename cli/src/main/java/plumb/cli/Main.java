@@ -11,18 +11,24 @@ import java.io.PrintWriter;
 
 /** The {@code plumb} command: subcommands, and one place that turns failures into exit codes. */
 @Command(name = "plumb", mixinStandardHelpOptions = true, versionProvider = Version.class,
-        description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.",
-        subcommands = {CheckCommand.class, FitCommand.class, GenerateCommand.class,
-                ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
-                LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
-                InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class,
-                TidyCommand.class, SensitivityCommand.class, ProjectCommand.class, ContourCommand.class,
-                ImportCommand.class, ExportCommand.class, CombineCommand.class, TemplatesCommand.class,
-                BuildCommand.class})
+        description = "Binned-likelihood fits with systematic uncertainties, from one JSON model file.")
 public final class Main implements Runnable {
 
     /** The project version (from the build, see {@link Version}). */
     public static final String VERSION = Version.NUMBER;
+
+    /**
+     * The subcommands, in the order the help lists them. A command line gets only the one named
+     * on it ({@link #commandLine(String)}): picocli reads a command's annotations by reflection
+     * when it is added, and all of them together took about half of a cold start's CPU time.
+     */
+    static final java.util.List<Class<?>> COMMANDS = java.util.List.of(CheckCommand.class, FitCommand.class,
+            GenerateCommand.class, ImpactsCommand.class, ScanCommand.class, YieldsCommand.class,
+            LimitCommand.class, DiscoveryCommand.class, GofCommand.class,
+            InjectCommand.class, MergeToysCommand.class, ReportCommand.class, DemoCommand.class,
+            TidyCommand.class, SensitivityCommand.class, ProjectCommand.class, ContourCommand.class,
+            ImportCommand.class, ExportCommand.class, CombineCommand.class, TemplatesCommand.class,
+            BuildCommand.class);
 
     @Option(names = "--debug", scope = CommandLine.ScopeType.INHERIT,
             description = "Print stack traces of failures.")
@@ -43,16 +49,16 @@ public final class Main implements Runnable {
 
     /** Runs one command line with the given writers; returns the exit status (used by tests). */
     public static int execute(String[] args, PrintWriter out, PrintWriter err) {
-        CommandLine cl = commandLine();
-        cl.setOut(out);
-        cl.setErr(err);
-        String unknown = unknownCommand(cl, args);
-        if (unknown != null) {
-            err.println("plumb: unknown command '" + Escape.controls(unknown) + "'; the commands are: "
-                    + String.join(", ", cl.getSubcommands().keySet()) + " ('plumb --help' describes them)");
+        String named = commandName(args);
+        if (named != null && commandClass(named) == null) {
+            err.println("plumb: unknown command '" + Escape.controls(named) + "'; the commands are: "
+                    + String.join(", ", COMMANDS.stream().map(Main::nameOf).toList()) + " ('plumb --help' describes them)");
             err.flush();
             return ExitCodes.BAD_INPUT;
         }
+        CommandLine cl = commandLine(named);
+        cl.setOut(out);
+        cl.setErr(err);
         try {
             return cl.execute(args);
         } catch (OutOfMemoryError e) {
@@ -66,14 +72,24 @@ public final class Main implements Runnable {
     }
 
     /**
-     * The first argument when it is neither an option nor a command. Checked before picocli
-     * parses, which would otherwise answer {@code plumb nosuch --help} with the top-level help.
+     * The first argument that is not an option: the command's name (checked before picocli parses,
+     * which would otherwise answer {@code plumb nosuch --help} with the top-level help), or null.
      */
-    private static String unknownCommand(CommandLine cl, String[] args) {
+    private static String commandName(String[] args) {
         for (String a : args) {
             if (a.startsWith("-")) continue;   // --debug before the command, or -h/--help/-V
-            return cl.getSubcommands().containsKey(a) ? null : a;
+            return a;
         }
+        return null;
+    }
+
+    private static String nameOf(Class<?> command) {
+        return command.getAnnotation(Command.class).name();
+    }
+
+    /** The subcommand class of that name, or null. */
+    private static Class<?> commandClass(String name) {
+        for (Class<?> c : COMMANDS) if (nameOf(c).equals(name)) return c;
         return null;
     }
 
@@ -102,9 +118,20 @@ public final class Main implements Runnable {
         return c.getParent() == null ? "plumb: " : "plumb " + c.getCommandName() + ": ";
     }
 
-    /** The configured command line: exit codes and error handling of docs/cli-contract.md. */
+    /** The configured command line with every subcommand: exit codes and error handling of docs/cli-contract.md. */
     public static CommandLine commandLine() {
+        return commandLine((String) null);
+    }
+
+    /**
+     * The configured command line with only the subcommand {@code name} (a known one), or with
+     * all of them when name is null (the top-level help lists them).
+     */
+    static CommandLine commandLine(String name) {
         CommandLine cl = new CommandLine(new Main());
+        for (Class<?> c : COMMANDS) {
+            if (name == null || nameOf(c).equals(name)) cl.addSubcommand(c);
+        }
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, args) -> {
             CommandLine c = ex.getCommandLine();

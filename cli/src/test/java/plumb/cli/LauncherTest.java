@@ -68,4 +68,53 @@ class LauncherTest {
         assertTrue(built[1].startsWith("java ") && built[1].contains("plumb.jar --version"), built[1]);
         assertFalse((built[1] + built[2]).getBytes(StandardCharsets.UTF_8).length == 0);
     }
+
+    /**
+     * The class-data archive: made after a build by a training run under a temporary name, used
+     * when it is newer than the jar, remade when the jar is newer, and left out when it cannot be
+     * made (the command still runs, without it).
+     */
+    @Test
+    void classDataArchiveIsMadeUsedAndRemade() throws Exception {
+        Path launcher = Path.of("..", "plumb");
+        assumeTrue(Files.isRegularFile(launcher), "run from the cli module");
+        Files.copy(launcher, dir.resolve("plumb"));
+        Files.writeString(dir.resolve("pom.xml"), "<project/>");
+        Files.createDirectories(dir.resolve("bin"));
+        Files.createDirectories(dir.resolve("cli/target"));
+        Files.createDirectories(dir.resolve("models/src/main/resources/plumb/models"));
+        Files.writeString(dir.resolve("models/src/main/resources/plumb/models/demo.json"), "{}");
+        script(dir.resolve("bin/mvn"), "exit 0\n");
+        Path jar = dir.resolve("cli/target/plumb.jar");
+        Files.writeString(jar, "jar");
+        Path archive = dir.resolve("cli/target/plumb.jsa");
+        // a java that writes the archive asked for unless the file "broken" exists, and counts training runs
+        script(dir.resolve("bin/java"), "for a; do case $a in -XX:ArchiveClassesAtExit=*)\n"
+                + "  echo run >> " + dir.resolve("trainings") + "\n"
+                + "  [ -f " + dir.resolve("broken") + " ] || echo archive > \"${a#*=}\";; esac; done\n"
+                + "echo \"java $*\"\n");
+
+        Files.writeString(dir.resolve("broken"), "");
+        String[] without = launch();
+        assertEquals("0", without[0], without[2]);
+        assertFalse(without[1].contains("SharedArchiveFile"), without[1]);
+        assertFalse(Files.exists(archive));
+        try (var files = Files.list(dir.resolve("cli/target"))) {
+            assertEquals(1, files.count(), "no temporary archive left behind");
+        }
+
+        Files.delete(dir.resolve("broken"));
+        String[] with = launch();
+        assertTrue(with[1].contains("-XX:SharedArchiveFile=") && with[1].contains("plumb.jsa -Xlog:cds=off"), with[1]);
+        assertTrue(Files.exists(archive));
+        assertEquals(2, Files.readAllLines(dir.resolve("trainings")).size());
+        launch();
+        assertEquals(2, Files.readAllLines(dir.resolve("trainings")).size(), "a fresh archive is not remade");
+
+        Files.setLastModifiedTime(archive, java.nio.file.attribute.FileTime.fromMillis(
+                Files.getLastModifiedTime(jar).toMillis() - 5000));
+        String[] again = launch();
+        assertEquals(3, Files.readAllLines(dir.resolve("trainings")).size(), "an archive older than the jar is remade");
+        assertTrue(again[1].contains("SharedArchiveFile"), again[1]);
+    }
 }
