@@ -225,8 +225,7 @@ record InjectionToyFits(ObjectNode run, Map<String, Object> labels, String[] nui
         JsonNode run = r.object(root, "run");
         JsonNode labelsNode = r.object(root, "labels");
         Map<String, Object> labels = new LinkedHashMap<>();
-        for (Iterator<Map.Entry<String, JsonNode>> it = labelsNode.fields(); it.hasNext(); ) {
-            Map.Entry<String, JsonNode> e = it.next();
+        for (Map.Entry<String, JsonNode> e : labelsNode.properties()) {
             labels.put(e.getKey(), e.getValue().isNumber() ? (Object) e.getValue().doubleValue() : e.getValue().asText());
         }
         JsonNode names = r.array(root, "nuisances");

@@ -44,6 +44,8 @@ public final class ReportFolder {
 
     /** Thrown when DIR cannot take a report; the one-line message says what is in the way (callers put "--out DIR: " before it). */
     public static final class NotReusable extends IOException {
+        private static final long serialVersionUID = 1L;
+
         NotReusable(String message) {
             super(message);
         }

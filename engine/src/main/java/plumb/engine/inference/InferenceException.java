@@ -7,6 +7,8 @@ package plumb.engine.inference;
  */
 public final class InferenceException extends RuntimeException {
 
+    private static final long serialVersionUID = 1L;
+
     public InferenceException(String message) {
         super(message);
     }

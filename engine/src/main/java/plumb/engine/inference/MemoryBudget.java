@@ -28,6 +28,8 @@ public final class MemoryBudget {
 
     /** A request refused before allocating: too large for the heap (the command line's exit status 2). */
     public static final class TooLargeException extends RuntimeException {
+        private static final long serialVersionUID = 1L;
+
         public TooLargeException(String message) {
             super(message);
         }

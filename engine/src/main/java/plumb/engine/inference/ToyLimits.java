@@ -125,6 +125,7 @@ public final class ToyLimits {
      * ({@code keep}, not shipped) for the μ values tested later; in a cluster those recompute it.
      */
     private static final class BackgroundWork implements RangeWork<BackgroundWork.Worker, Outcome> {
+        private static final long serialVersionUID = 1L;
         private final Common c;
         private final transient BackgroundToy[] keep;
 
@@ -154,6 +155,7 @@ public final class ToyLimits {
      * fitted again: the same numbers, not counted twice).
      */
     private static final class PointWork implements RangeWork<PointWork.Worker, Outcome> {
+        private static final long serialVersionUID = 1L;
         private final Common c;
         private final double mu;
         private final double[] generating;

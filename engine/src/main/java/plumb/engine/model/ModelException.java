@@ -8,6 +8,8 @@ import java.util.Locale;
  */
 public final class ModelException extends RuntimeException {
 
+    private static final long serialVersionUID = 1L;
+
     private final String file;
     private final String path;
 

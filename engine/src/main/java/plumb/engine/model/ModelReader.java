@@ -233,6 +233,8 @@ public final class ModelReader {
 
     /** Thrown by {@link CappedInputStream}; a gzip stream can expand far beyond the file size. */
     private static final class TooLarge extends IOException {
+        private static final long serialVersionUID = 1L;
+
         TooLarge() {
             super("input too large");
         }

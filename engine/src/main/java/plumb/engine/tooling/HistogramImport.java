@@ -243,8 +243,7 @@ public final class HistogramImport {
 
     private static void overlay(ObjectNode model, JsonNode settings, String source) {
         if (!settings.isObject()) throw new ModelException(source, "", "expected a JSON object of model settings");
-        for (Iterator<Map.Entry<String, JsonNode>> it = settings.fields(); it.hasNext(); ) {
-            Map.Entry<String, JsonNode> e = it.next();
+        for (Map.Entry<String, JsonNode> e : settings.properties()) {
             if (e.getKey().equals("channels")) continue;
             if (e.getKey().equals("format")) continue;
             model.set(e.getKey(), e.getValue());   // the model reader checks these keys and values

@@ -237,8 +237,7 @@ public final class BuildSpecReader {
         Map<String, Object> labels = new LinkedHashMap<>();
         if (n == null) return labels;
         if (!n.isObject()) fail("labels", "expected an object");
-        for (Iterator<Map.Entry<String, JsonNode>> it = n.fields(); it.hasNext(); ) {
-            Map.Entry<String, JsonNode> e = it.next();
+        for (Map.Entry<String, JsonNode> e : n.properties()) {
             if (e.getValue().isNumber()) labels.put(e.getKey(), e.getValue().asDouble());
             else if (e.getValue().isTextual()) labels.put(e.getKey(), e.getValue().asText());
             else fail("labels." + e.getKey(), "expected a number or a string");

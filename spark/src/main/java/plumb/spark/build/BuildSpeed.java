@@ -31,6 +31,9 @@ public final class BuildSpeed {
     private BuildSpeed() {
     }
 
+    // "try": the runner is opened for its side effect, the Spark context that the session below
+    // is built on, and closed at the end of the block; the body need not name it
+    @SuppressWarnings("try")
     public static void main(String[] args) throws Exception {
         long n = args.length > 0 ? Long.parseLong(args[0]) : 1_000_000L;
         Path dir = Path.of(args.length > 1 ? args[1] : "build-speed");
