@@ -29,7 +29,7 @@ final class BuildCommand implements Callable<Integer> {
                     + "spark://HOST:PORT or yarn on a cluster.")
     String master;
 
-    @Option(names = "--spark-timeout", paramLabel = "S", defaultValue = "60",
+    @Option(names = "--spark-timeout", converter = OptionValues.Positive.class, paramLabel = "S", defaultValue = "60",
             description = "Seconds to wait for the Spark master and a first executor (default: ${DEFAULT-VALUE}).")
     int timeout;
 

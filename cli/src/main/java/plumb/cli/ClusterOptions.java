@@ -26,7 +26,7 @@ public final class ClusterOptions {
                     + "spark://HOST:PORT or yarn on a cluster. Results equal those of a run on threads.")
     public String spark;
 
-    @Option(names = "--spark-timeout", paramLabel = "S", defaultValue = "60",
+    @Option(names = "--spark-timeout", converter = OptionValues.Positive.class, paramLabel = "S", defaultValue = "60",
             description = "Seconds to wait for the Spark master and a first executor (default: ${DEFAULT-VALUE}).")
     public int sparkTimeout;
 

@@ -33,7 +33,7 @@ final class ContourCommand implements Callable<Integer> {
     @Option(names = "--y", required = true, paramLabel = "NAME", description = "Parameter on the vertical axis.")
     String y;
 
-    @Option(names = "--rays", defaultValue = "64", paramLabel = "N", description = "Points per contour (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--rays", converter = OptionValues.Rays.class, defaultValue = "64", paramLabel = "N", description = "Points per contour (default: ${DEFAULT-VALUE}).")
     int rays;
 
     @Option(names = "--figure", paramLabel = "DIR", description = "Draw the regions into DIR/contour.png and .svg.")
@@ -68,6 +68,7 @@ final class ContourCommand implements Callable<Integer> {
     static Contour.Result compute(ModelInput.Loaded l, FitOptions fit, FitOptions.Prepared p, String x, String y, int rays) {
         if (rays < 8) throw new InputException("--rays must be at least 8, got " + rays);
         CompiledModel m = l.compiled();
+        FitOptions.requireCount("--rays", rays, m);
         for (String name : new String[] {x, y}) {
             if (m.indexOf(name) < 0) throw new InputException(String.format(Locale.ROOT, "--%s %s: the model has no parameter '%s'",
                     name.equals(x) ? "x" : "y", name, name));

@@ -40,6 +40,7 @@ final class DemoCommand implements Callable<Integer> {
         if (toys < 0) throw new InputException("--toys must be at least 0, got " + toys);
         Path model = out.resolve("model.json");
         ReportJob.requireReportFolder(out, List.of(model));   // before the model is copied in
+        ReportJob.requireOptions(plumb.engine.compile.ModelCompiler.compile(DemoModel.load()), fit, toys);
         try (InputStream in = DemoModel.openStream()) {
             byte[] bytes = in.readAllBytes();
             AtomicFiles.write(model, o -> o.write(bytes));

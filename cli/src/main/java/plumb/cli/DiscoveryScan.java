@@ -46,6 +46,7 @@ final class DiscoveryScan {
         List<Path> all = LimitCommand.modelFiles(files);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : all) loaded.add(ModelInput.load(f));
+        if (toys != null) for (ModelInput.Loaded l : loaded) FitOptions.requireCount("--toys", toys, l.compiled());
         String key = label != null ? label : commonNumericLabel(loaded);
         List<Problem> problems = new ArrayList<>();
         List<double[]> xs = new ArrayList<>();

@@ -59,6 +59,14 @@ final class OptionValues {
         }
     }
 
+    /** Rays of a contour: fewer than 8 points cannot outline a region. */
+    static final class Rays implements ITypeConverter<Integer> {
+        @Override
+        public Integer convert(String value) {
+            return atLeast(value, 8);
+        }
+    }
+
     /** A finite number. */
     static final class Finite implements ITypeConverter<Double> {
         @Override

@@ -34,7 +34,7 @@ final class ProjectCommand implements Callable<Integer> {
             description = "Luminosity factors (default: ${DEFAULT-VALUE}).")
     List<String> lumi;
 
-    @Option(names = "--cl", defaultValue = "0.95", paramLabel = "CL", description = "Confidence level of the limits (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--cl", converter = OptionValues.ConfidenceLevel.class, defaultValue = "0.95", paramLabel = "CL", description = "Confidence level of the limits (default: ${DEFAULT-VALUE}).")
     double cl;
 
     @Option(names = "--format", paramLabel = "text|markdown|csv|latex", defaultValue = "text",

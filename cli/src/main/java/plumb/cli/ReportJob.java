@@ -101,6 +101,7 @@ final class ReportJob {
         ModelInput.Loaded main = ModelInput.load(files.get(0));
         for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
         CompiledModel m = main.compiled();
+        requireOptions(m, fit, toys);
         int threads = fit.threadCount();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         boolean hasPoi = m.poi >= 0;
@@ -191,6 +192,20 @@ final class ReportJob {
         } catch (IOException | RuntimeException e) {
             throw new InputException("--out " + dir + ": cannot write the report: " + Outputs.cause(e));
         }
+    }
+
+    /**
+     * Refuses bad fit options before any work: the --fix checks of every command, and a held POI,
+     * which would leave the impacts, the scan, the significance and the limits without meaning.
+     */
+    static void requireOptions(CompiledModel m, FitOptions fit, int toys) {
+        if (m.poi >= 0 && fit.fixes(m).containsKey(m.poi)) {
+            throw new InputException("--fix: the POI " + m.parameterNames[m.poi]
+                    + " cannot be held; the report's impacts, scan, significance and limits are about it");
+        }
+        fit.threadCount();
+        plumb.engine.inference.MemoryBudget.require(plumb.engine.inference.MemoryBudget.times(
+                (long) toys * INJECTED.length, FitOptions.bytesPerTask(m)), "--toys " + toys + " (per injected value, " + INJECTED.length + " values)");
     }
 
     /** Refuses, before any work, a --out folder that holds something other than a previous report or the models. */

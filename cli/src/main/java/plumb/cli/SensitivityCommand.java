@@ -40,15 +40,15 @@ final class SensitivityCommand implements Callable<Integer> {
             description = "Width factors to try besides removal (default: ${DEFAULT-VALUE}; several allowed).")
     List<String> scale;
 
-    @Option(names = "--exact-top", paramLabel = "N", defaultValue = "0",
+    @Option(names = "--exact-top", converter = OptionValues.NonNegative.class, paramLabel = "N", defaultValue = "0",
             description = "Recompute the top N parameters and the top N groups exactly (default: ${DEFAULT-VALUE}).")
     int exactTop;
 
-    @Option(names = "--top", paramLabel = "N", defaultValue = "20",
+    @Option(names = "--top", converter = OptionValues.Positive.class, paramLabel = "N", defaultValue = "20",
             description = "Parameters shown in the table and the figure (default: ${DEFAULT-VALUE}).")
     int top;
 
-    @Option(names = "--cl", defaultValue = "0.95", paramLabel = "CL", description = "Confidence level of the limits (default: ${DEFAULT-VALUE}).")
+    @Option(names = "--cl", converter = OptionValues.ConfidenceLevel.class, defaultValue = "0.95", paramLabel = "CL", description = "Confidence level of the limits (default: ${DEFAULT-VALUE}).")
     double cl;
 
     @Option(names = "--format", paramLabel = "text|markdown|csv|latex", defaultValue = "text",
