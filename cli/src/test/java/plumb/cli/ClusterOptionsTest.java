@@ -40,6 +40,6 @@ class ClusterOptionsTest {
         int status = Main.execute(new String[] {"discovery", model.toString(), "--toys", "5", "--spark", "local[2]",
                 "--spark-timeout", "0"}, new PrintWriter(out), new PrintWriter(err));
         assertEquals(ExitCodes.BAD_INPUT, status);
-        assertEquals("plumb discovery: --spark-timeout must be at least 1 second, got 0" + System.lineSeparator(), err.toString());
+        assertEquals("plumb discovery: Invalid value for option '--spark-timeout': must be at least 1, got 0" + System.lineSeparator(), err.toString());
     }
 }
