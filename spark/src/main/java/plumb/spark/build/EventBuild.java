@@ -74,9 +74,6 @@ public final class EventBuild {
     /** Builds with a Spark session that is already open (tests, the events demo). */
     public static BuildOutcome build(BuildSpec spec, SparkSession spark, Path modelFile, PrintWriter out, PrintWriter err) {
         long t0 = System.nanoTime();
-        // The grouped result has one row per bin: a shuffle into Spark's default 200 partitions would
-        // only add empty tasks. One partition per core keeps the reduce side as parallel as the scan.
-        spark.conf().set("spark.sql.shuffle.partitions", String.valueOf(Math.max(1, spark.sparkContext().defaultParallelism())));
         EventBuild b = new EventBuild(spec, spark, err);
         ModelAssembly assembly;
         try {
@@ -143,7 +140,6 @@ public final class EventBuild {
         }
         List<Region> dataRegions = spec.regions().stream().filter(r -> !r.blinded()).toList();
         if (spec.data() != null && !dataRegions.isEmpty()) passes++;
-
         // Read every table and check every expression before the first pass: errors come early and name their key.
         Map<SampleSpec, String> nominal = new LinkedHashMap<>();
         for (SampleSpec s : spec.samples()) {
@@ -176,7 +172,6 @@ public final class EventBuild {
             dataView = view(spec.data());
             checkRegions(dataView, dataRegions, spec.data().path());
         }
-
         for (SampleSpec s : spec.samples()) {
             String view = nominal.get(s);
             List<Region> regions = assembly.regions(s);
@@ -191,9 +186,8 @@ public final class EventBuild {
                     ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : ""));
             HistogramJob job = new HistogramJob(regions, observables(regions), weights);
             HistogramJob.Sums sums = job.run(spark, view);
-            refuseBad(s.name(), view, regions, s.weight().sql(), weights, sums, s.events().path());
-            CutFlow.Counts flow = HistogramJob.cutFlow(spark, view, regions, s.weight().sql());
-            assembly.nominal(s, job, sums, flow);
+            refuseBad(s.name(), regions, weights, sums, s.events().path());
+            assembly.nominal(s, job, sums, sums.flow());
             for (VariationSpec v : s.variations()) {
                 if (v.source() == Source.OBSERVABLE) {
                     List<Region> vr = assembly.regions(s, v);
@@ -227,7 +221,7 @@ public final class EventBuild {
             HistogramJob job = new HistogramJob(dataRegions, observables(dataRegions), List.of("1"));
             HistogramJob.Sums sums = job.run(spark, dataView);
             refuseBadObservable("data", dataRegions, sums, spec.data().path());
-            assembly.data(dataRegions, job, sums, HistogramJob.cutFlow(spark, dataView, dataRegions, "1"));
+            assembly.data(dataRegions, job, sums, sums.flow());
         }
         return assembly;
     }
@@ -244,7 +238,7 @@ public final class EventBuild {
     private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
         HistogramJob job = new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
         HistogramJob.Sums sums = job.run(spark, view);
-        refuseBad(s.name() + " (" + path + ")", view, regions, s.weight().sql(), List.of(s.weight().sql()), sums, path);
+        refuseBad(s.name() + " (" + path + ")", regions, List.of(s.weight().sql()), sums, path);
         return perRegion(job, sums);
     }
 
@@ -261,22 +255,22 @@ public final class EventBuild {
     }
 
     /** NaN or infinite weights and NaN observables: counted, then refused with the sample and the count. */
-    private void refuseBad(String sample, String view, List<Region> regions, String weightShown, List<String> weights,
-                           HistogramJob.Sums sums, String path) {
+    private void refuseBad(String sample, List<Region> regions, List<String> weights, HistogramJob.Sums sums, String path) {
         refuseBadObservable(sample, regions, sums, path);
         for (int k = 0; k < weights.size(); k++) {
+            long bad = sums.badWeights()[k];
+            if (bad > 0) {
+                throw new InputException(String.format(Locale.ROOT,
+                        "%s: sample %s: the weight '%s' is NaN, infinite or null in %d selected event%s; nothing written",
+                        spec.file(), sample, weights.get(k), bad, bad == 1 ? "" : "s"));
+            }
             boolean finite = true;
             for (double v : sums.sums()[k]) finite &= Double.isFinite(v);
             for (double v : sums.squares()[k]) finite &= Double.isFinite(v);
-            if (finite) continue;
-            long bad = HistogramJob.badWeights(spark, view, regions, weights.get(k));
-            if (bad == 0) {
+            if (!finite) {
                 throw new ComputationException(String.format(Locale.ROOT,
                         "%s: sample %s: the weights '%s' sum beyond the range of double numbers", spec.file(), sample, weights.get(k)));
             }
-            throw new InputException(String.format(Locale.ROOT,
-                    "%s: sample %s: the weight '%s' is NaN, infinite or null in %d selected event%s; nothing written",
-                    spec.file(), sample, weights.get(k), bad, bad == 1 ? "" : "s"));
         }
     }
 
