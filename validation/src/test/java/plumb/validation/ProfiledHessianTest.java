@@ -16,7 +16,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /**
  * The profiled Hessian (one fused rank-one term per bin where every sample carries MC statistics)
  * against the Schur complement H_θθ − H_θγ H_γγ⁻¹ H_γθ formed densely from the Hessian over all
- * parameters (block elimination of the γ: common practice; engine-notes §1 for the closed-form γ).
+ * parameters (block elimination of the γ: common practice; docs/engine.md section 1 for the closed-form γ).
  */
 class ProfiledHessianTest {
 

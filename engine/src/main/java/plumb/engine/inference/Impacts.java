@@ -19,7 +19,7 @@ import java.util.function.IntConsumer;
  *
  * <p>Exact impact of θ_k: the POI shift (refit value minus best fit) when θ_k is held at
  * θ̂_k ± σ_k (post-fit) or θ̂_k ± w_k (pre-fit width), clipped to θ_k's range, all other parameters
- * refitted. Linearised: Δμ = ρ(μ, θ_k) σ_μ Δθ_k/σ_k = Σ_μk/Σ_kk · Δθ_k (engine-notes §4), exact for
+ * refitted. Linearised: Δμ = ρ(μ, θ_k) σ_μ Δθ_k/σ_k = Σ_μk/Σ_kk · Δθ_k (docs/engine.md section 5), exact for
  * a linear model with Gaussian terms (references.md item 10).
  */
 public final class Impacts {

@@ -5,8 +5,8 @@ import plumb.engine.compile.CompiledModel;
 import java.util.Arrays;
 
 /**
- * Refits near a best fit with one parameter held (impacts, scans), warm-started as engine-notes
- * §4 describes: from the best fit moved along the linearised response of the other parameters,
+ * Refits near a best fit with one parameter held (impacts, scans), warm-started as docs/engine.md
+ * section 5 describes: from the best fit moved along the linearised response of the other parameters,
  * Δθ = Σ_·k/Σ_kk · Δθ_k (the first Newton step with the best-fit Hessian, which is what the
  * conditional mean of the post-fit Gaussian is). The start depends only on (k, value), never on
  * a previous task, so results do not depend on the thread count. Package-private: validated by

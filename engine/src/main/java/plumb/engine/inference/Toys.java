@@ -11,7 +11,7 @@ import plumb.engine.likelihood.DataSet;
 /**
  * Toy data sets (docs/model-format.md, "Generated data sets"): n_b ~ Poisson(ν_b(θ_gen)), each
  * Gaussian centre ~ N(θ_gen, w), each Poisson count m ~ Poisson(τγ_gen). Toy i of a run draws
- * from its own generator seeded by (seed, i) (engine-notes §5), so a toy is a pure function of
+ * from its own generator seeded by (seed, i) (docs/engine.md section 6), so a toy is a pure function of
  * (model, generating point, seed, index): results do not depend on threads or batches.
  */
 public final class Toys {

@@ -13,7 +13,7 @@ import java.util.Arrays;
  *
  * <p>Two layouts of the variables. <b>Profiled</b> (default): the variables are the model
  * parameters only; each bin's MC-statistics parameter γ_b is set to its conditional minimum in
- * closed form inside every evaluation (engine-notes §1, Conway arXiv:1103.0354), so the value is
+ * closed form inside every evaluation (docs/engine.md section 1, Conway arXiv:1103.0354), so the value is
  * the profiled −ln L, its gradient is the ordinary gradient at γ* (envelope theorem) and its
  * Hessian the Schur complement H_θθ − Σ_b h_b h_bᵀ / H_γbγb. <b>Explicit</b>: the γ_b follow the
  * model parameters as ordinary variables (indices nParams .. nAll−1).
@@ -494,7 +494,7 @@ public final class BinnedNll implements Objective {
 
     /**
      * The γ minimising the bin's terms plus its constraint, ν = a + γc: the positive root of
-     * Aγ² + Bγ + C = 0 (engine-notes §1), taken in the form without cancellation.
+     * Aγ² + Bγ + C = 0 (docs/engine.md section 1), taken in the form without cancellation.
      */
     private double solveGamma(double a, double c, double n, int idx) {
         double aux = data.aux()[idx];
@@ -564,7 +564,7 @@ public final class BinnedNll implements Objective {
     }
 
     /**
-     * Gradient, and the per-sample sums the Hessian's w_b ∇²ν_b part needs (engine-notes §2, split
+     * Gradient, and the per-sample sums the Hessian's w_b ∇²ν_b part needs (docs/engine.md section 2, split
      * by the product structure of ν_sb): T_s and, per shape term, Σ_b ρ ∂base/∂θ and Σ_b ρ A.
      */
     private void gradientTerms(double[] grad, boolean forHessian, boolean explicit) {
@@ -844,8 +844,8 @@ public final class BinnedNll implements Objective {
     /**
      * Variances of the profiled γ at the model parameters x, given the covariance of the model
      * parameters (nParams², row-major) from the profiled Hessian: with d_b = ∂²f/∂γ_b² and h_b the
-     * mixed derivatives, the block inverse gives var γ_b = 1/d_b + h_bᵀ Σ h_b / d_b² (engine-notes
-     * §1). Held γ get 0. Writes nGamma values into {@code out}.
+     * mixed derivatives, the block inverse gives var γ_b = 1/d_b + h_bᵀ Σ h_b / d_b² (docs/engine.md
+     * section 2). Held γ get 0. Writes nGamma values into {@code out}.
      */
     public void gammaVariances(double[] x, double[] covariance, double[] out) {
         evaluate(x, null, null, false);

@@ -2,7 +2,7 @@ package plumb.engine.minimise;
 
 /**
  * Projected Newton minimiser with an active set for bound constraints, using the objective's exact
- * Hessian (engine-notes.md section 3).
+ * Hessian (docs/engine.md section 4).
  *
  * <p>Each iteration: variables held fixed, or sitting on a bound with the gradient pointing out of
  * the box, stay put; the Newton system over the others is solved by Cholesky. The iteration stops

@@ -18,7 +18,7 @@ import java.util.Locale;
 public record MinimiserOptions(double tolerance, double fallbackTolerance, int maxIterations,
         int maxEvaluations, boolean restart) implements java.io.Serializable {
 
-    /** Default decrement tolerance: engine-notes.md section 3. */
+    /** Default decrement tolerance: docs/engine.md section 4. */
     public static final double DEFAULT_TOLERANCE = 1e-8;
 
     /** Validates: tolerances positive and finite and ordered, limits at least 1. */

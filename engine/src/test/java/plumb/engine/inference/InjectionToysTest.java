@@ -41,7 +41,7 @@ class InjectionToysTest {
         }
     }
 
-    /** Results do not depend on the thread count (engine-notes §5: per-toy seeds, stored by index). */
+    /** Results do not depend on the thread count (docs/engine.md section 6: per-toy seeds, stored by index). */
     @Test
     void threadCountDoesNotChangeResults() {
         CompiledModel m = ModelCompiler.compile(TestModels.mixed(2, ModelOptions.McStatConstraint.GAUSSIAN));

@@ -270,8 +270,8 @@ class BoundedNewtonTest {
         assertTrue(again.converged());
         assertTrue(again.iterations() <= 2, "iterations " + again.iterations());
         assertArrayEquals(best.x(), again.x(), 1e-6);
-        // A refit with one nuisance held one error away, started from the best fit (engine-notes
-        // section 4): two or three steps.
+        // A refit with one nuisance held one error away, started from the best fit (docs/engine.md
+        // section 5): two or three steps.
         double[] start = best.x().clone();
         start[1] += best.errors()[1];
         MinimumResult moved = newton.minimise(toy, start, lower, upper, new boolean[] {false, true, false});
