@@ -10,7 +10,7 @@ import picocli.CommandLine.Model.CommandSpec;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.Covariances;
+import plumb.engine.inference.PostfitCovariance;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
 import plumb.engine.inference.Yields;
@@ -72,7 +72,7 @@ final class YieldsCommand implements Callable<Integer> {
      */
     static List<Yields.ChannelYields> compute(CompiledModel m, FitOptions.Prepared p, Fitter fitter, FitResult best) {
         if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no post-fit yields");
-        double[] cov = Covariances.full(fitter.likelihood(), best);
+        PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         if (cov == null) throw new ComputationException("the post-fit covariance is not positive definite; no post-fit errors");
         double[] prefitValues = m.nominal.clone();
         for (int i = 0; i < p.held().length; i++) prefitValues[p.held()[i]] = p.heldValues()[i];

@@ -10,6 +10,7 @@ import org.junit.jupiter.api.Test;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
 import plumb.engine.inference.Covariances;
+import plumb.engine.inference.PostfitCovariance;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.FitSettings;
 import plumb.engine.inference.Fitter;
@@ -82,13 +83,14 @@ class YieldErrorsSamplingTest {
         Fitter fitter = new Fitter(m, data, FitSettings.defaults());
         FitResult best = fitter.fit();
         assertTrue(best.converged(), best.status().toString());
-        double[] cov = Covariances.full(fitter.likelihood(), best);
+        PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         assertNotNull(cov);
+        double[] dense = Covariances.full(fitter.likelihood(), best);   // drawn from below
         List<Yields.ChannelYields> yields = Yields.compute(m, data, m.nominal, best.held(), best, cov);
 
         int n = m.nAll;
         RealMatrix c = new Array2DRowRealMatrix(n, n);
-        for (int i = 0; i < n; i++) for (int j = 0; j < n; j++) c.setEntry(i, j, cov[i * n + j]);
+        for (int i = 0; i < n; i++) for (int j = 0; j < n; j++) c.setEntry(i, j, dense[i * n + j]);
         RealMatrix l = new CholeskyDecomposition(c, 1e-12, 1e-14).getL();
         UniformRandomProvider rng = RandomSource.SPLIT_MIX_64.create(20240601L);
         ZigguratSampler.NormalizedGaussian gauss = ZigguratSampler.NormalizedGaussian.of(rng);

@@ -3,7 +3,6 @@ package plumb.engine.api;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
 import plumb.engine.inference.AsymptoticUpperLimit;
-import plumb.engine.inference.Covariances;
 import plumb.engine.inference.DataSets;
 import plumb.engine.inference.Discovery;
 import plumb.engine.inference.FitResult;
@@ -15,6 +14,7 @@ import plumb.engine.inference.InjectionSummary;
 import plumb.engine.inference.InjectionToys;
 import plumb.engine.inference.LimitResult;
 import plumb.engine.inference.FitSettings;
+import plumb.engine.inference.PostfitCovariance;
 import plumb.engine.inference.Problem;
 import plumb.engine.inference.ProfileScan;
 import plumb.engine.inference.Pulls;
@@ -98,7 +98,7 @@ public final class Plumb {
         Fitter fitter = new Fitter(p);
         FitResult best = fitter.fit();
         if (!best.converged()) throw new InferenceException("the best fit did not converge (" + best.status() + "); no yields");
-        double[] cov = Covariances.full(fitter.likelihood(), best);
+        PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         if (cov == null) throw new InferenceException("the post-fit covariance is not positive definite; no yields");
         List<YieldsOutcome.ChannelSums> channels = new ArrayList<>();
         for (Yields.ChannelYields c : Yields.compute(p, best, cov)) {

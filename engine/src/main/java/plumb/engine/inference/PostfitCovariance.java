@@ -19,8 +19,8 @@ import java.util.Arrays;
  *   Σ_γγ = δ_gg' / d_g + h_gᵀ S h_g' / (d_g d_g')
  * </pre>
  * so the whole covariance is S (nParams²) plus d_g and the short vectors h_g. Parameters held in
- * the fit have zero rows and columns, as in the dense form. With the explicit layout (γ among the
- * fit's variables) the fit's Hessian is already over all parameters: the dense inverse is kept.
+ * the fit have zero rows and columns, as in the dense form. Both layouts of the likelihood give
+ * the same blocks (the explicit one at the fitted γ, the profiled one at the solved γ).
  *
  * <p>Immutable after construction, serializable (refits on a cluster carry it).
  */
@@ -31,19 +31,18 @@ public final class PostfitCovariance implements java.io.Serializable {
     private final int nP;
     private final int nAll;
     private final boolean[] held;
-    /** Σ_θθ (nParams², held rows zero); in the dense form the whole nAll² covariance. */
+    /** Σ_θθ (nParams², held rows zero). */
     private final double[] s;
-    /** Hessian over θ with γ held (nParams²): conditional variances with γ held need it. Null in the dense form. */
+    /** Hessian over θ with γ held (nParams²): conditional variances with γ held need it. */
     private final double[] a;
     private final double[] d;
     private final double[] mixed;
     private final int stride;
     /** Parameters (model indices) of each γ's channel, the index set of its row of {@link #mixed}. */
     private final int[][] gammaParams;
-    private final boolean dense;
 
     private PostfitCovariance(int nP, int nAll, boolean[] held, double[] s, double[] a, double[] d, double[] mixed,
-                              int stride, int[][] gammaParams, boolean dense) {
+                              int stride, int[][] gammaParams) {
         this.nP = nP;
         this.nAll = nAll;
         this.held = held;
@@ -53,7 +52,6 @@ public final class PostfitCovariance implements java.io.Serializable {
         this.mixed = mixed;
         this.stride = stride;
         this.gammaParams = gammaParams;
-        this.dense = dense;
     }
 
     /**
@@ -67,14 +65,9 @@ public final class PostfitCovariance implements java.io.Serializable {
     public static PostfitCovariance of(BinnedNll nll, FitResult best) {
         CompiledModel m = nll.model();
         boolean[] held = best.held().clone();
-        if (nll.explicitGamma()) {
-            double[] full = Covariances.full(nll, best);
-            return full == null ? null : new PostfitCovariance(m.nParams, m.nAll, held, full, null, null, null, 0,
-                    null, true);
-        }
         int nP = m.nParams, nG = m.nGamma, stride = nll.localStride();
         MemoryBudget.requireSquares(nP, 4, "the post-fit covariance of " + nP + " parameters");
-        double[] x = Arrays.copyOf(best.values(), nP);
+        double[] x = Arrays.copyOf(best.values(), nll.dimension());
         double[] a = new double[nP * nP];
         double[] d = new double[nG];
         double[] mixed = new double[nG * stride];
@@ -93,7 +86,7 @@ public final class PostfitCovariance implements java.io.Serializable {
         }
         double[] s = profiledInverse(a, nP, held, d, mixed, stride, gammaParams, freeGamma);
         if (s == null) return null;
-        return new PostfitCovariance(nP, m.nAll, held, s, a, d, mixed, stride, gammaParams, false);
+        return new PostfitCovariance(nP, m.nAll, held, s, a, d, mixed, stride, gammaParams);
     }
 
     /**
@@ -149,15 +142,21 @@ public final class PostfitCovariance implements java.io.Serializable {
 
     /** Σ_θθ over the model parameters (nParams², row-major, held rows zero); do not modify. */
     double[] thetaBlock() {
-        if (!dense) return s;
-        double[] out = new double[nP * nP];
-        for (int i = 0; i < nP; i++) System.arraycopy(s, i * nAll, out, i * nP, nP);
-        return out;
+        return s;
+    }
+
+    /** Whether parameter i was held in the fit (no row in the covariance). */
+    boolean held(int i) {
+        return held[i];
+    }
+
+    /** d_g: the curvature of −ln L in γ_g at the best fit. */
+    double gammaCurvature(int g) {
+        return d[g];
     }
 
     /** Covariance of parameters i and j (indices below nAll). */
     public double covariance(int i, int j) {
-        if (dense) return s[i * nAll + j];
         if (held[i] || held[j]) return 0;
         if (i < nP && j < nP) return s[i * nP + j];
         if (i >= nP && j < nP) return covariance(j, i);
@@ -201,7 +200,6 @@ public final class PostfitCovariance implements java.io.Serializable {
      */
     public double conditionalVariance(int target, int[] fixedSet) {
         if (target >= nP) throw new IllegalArgumentException("conditional variances are of model parameters");
-        if (dense) return Covariances.conditionalVariance(s, nAll, target, fixedSet);
         boolean anyGamma = false;
         for (int i : fixedSet) anyGamma |= i >= nP;
         if (!anyGamma) return Covariances.conditionalVariance(s, nP, target, fixedSet);

@@ -12,14 +12,17 @@ import java.util.List;
  * (docs/cli-contract.md, {@code plumb yields}): J the derivative of each yield by the parameters,
  * C diagonal with each constrained parameter's pre-fit width squared (pre-fit, at the nominal
  * values; free and held parameters left out), or the full post-fit covariance with the
- * MC-statistics γ and all correlations (post-fit, at the best fit).
+ * MC-statistics γ and all correlations (post-fit, at the best fit; {@link PostfitCovariance}).
  *
- * <p>J by the model parameters is taken by central finite differences of
- * {@link BinnedNll#expectedEntries}: the likelihood's analytic derivatives live in its private
- * work arrays, and differencing the public yields keeps one definition of ν; with a step of 1e-5
- * of the parameter's scale the error of a smooth interpolation is O(h²) ≈ 1e-10 relative, far
- * below the two digits quoted. At a kink (a {@code linear} term at θ = 0) the central difference is
- * the mean of the two one-sided slopes. J by γ_b is analytic: ν_sb/γ_b for the samples it scales.
+ * <p>Nothing of size (parameters × entries) or nAll² is formed. J is analytic, in the product form
+ * of the likelihood ({@link BinnedNll#sampleDerivatives}): the derivative of ν_sb by the model
+ * parameters is base_sb · ∂C_s/∂θ (one direction per sample, scaled per bin) plus one coefficient
+ * per shape term, so the yields of a channel vary within the span of K = (samples + shape-term
+ * parameters) vectors, and C restricted to that span is one K×K matrix G per channel. A yield's
+ * variance is then a quadratic form in its K coefficients; the γ enter through the block form of
+ * the covariance (for the bin's γ_b with curvature d_b and mixed derivatives h_b = Bᵀη_b in the same
+ * span: var = zᵀGz + v_γ²/d_b with z = c − (v_γ/d_b)η_b, v_γ = ∂ν/∂γ_b). At a kink (a
+ * {@code linear} term at θ = 0) the derivative is the mean of the two one-sided slopes.
  */
 public final class Yields {
 
@@ -45,11 +48,11 @@ public final class Yields {
     /**
      * Pre-fit and post-fit yields of every channel of the problem around its best fit.
      *
-     * @param best       the converged best fit of the problem
-     * @param postfitCov full post-fit covariance ({@link Covariances#full}), or null for NaN post-fit errors
+     * @param best the converged best fit of the problem
+     * @param post its post-fit covariance ({@link PostfitCovariance#of}), or null for NaN post-fit errors
      */
-    public static List<ChannelYields> compute(Problem p, FitResult best, double[] postfitCov) {
-        return compute(p.model(), p.data(), p.startValues(), best.held(), best, postfitCov);
+    public static List<ChannelYields> compute(Problem p, FitResult best, PostfitCovariance post) {
+        return compute(p.model(), p.data(), p.startValues(), best.held(), best, post);
     }
 
     /**
@@ -59,18 +62,13 @@ public final class Yields {
      * @param prefitValues  nominal values, held ones applied (nAll)
      * @param held          parameters held in the fit (nAll): no pre-fit uncertainty either
      * @param best          the best fit, or null for pre-fit only
-     * @param postfitCov    full post-fit covariance (nAll², {@link Covariances#full}); null gives NaN post-fit errors
+     * @param post          the post-fit covariance ({@link PostfitCovariance#of}); null gives NaN post-fit errors
      */
     public static List<ChannelYields> compute(CompiledModel m, DataSet data, double[] prefitValues, boolean[] held,
-                                              FitResult best, double[] postfitCov) {
-        int nAll = m.nAll;
-        MemoryBudget.requireSquares(nAll, 2, "the yield errors of " + nAll + " parameters (MC statistics included)");
-        double[] prefitCov = new double[nAll * nAll];
-        for (int i = 0; i < nAll; i++) {
-            if (m.constrained(i) && !held[i]) prefitCov[i * nAll + i] = m.prefitWidth[i] * m.prefitWidth[i];
-        }
-        Propagation pre = Propagation.at(m, data, prefitValues, prefitCov);
-        Propagation post = best == null ? null : Propagation.at(m, data, best.values(), postfitCov);
+                                              FitResult best, PostfitCovariance post) {
+        Propagation pre = new Propagation(m, data, prefitValues, prefitCovariance(m, held), null, held);
+        Propagation postfit = best == null ? null
+                : new Propagation(m, data, best.values(), post == null ? null : post.thetaBlock(), post, null);
         List<ChannelYields> out = new ArrayList<>(m.nChannels);
         for (int c = 0; c < m.nChannels; c++) {
             int b0 = m.channelBinStart[c], nb = m.bins(c);
@@ -79,116 +77,281 @@ public final class Yields {
                 observed = new double[nb];
                 System.arraycopy(data.counts(), b0, observed, 0, nb);
             }
+            pre.channel(c);
+            if (postfit != null) postfit.channel(c);
             List<SampleYields> samples = new ArrayList<>();
             List<Integer> members = new ArrayList<>();
             for (int s = 0; s < m.nSamples; s++) {
                 if (m.sampleChannel[s] != c) continue;
                 members.add(s);
-                samples.add(new SampleYields(m.sampleNames[s], pre.band(c, new int[] {s}),
-                        post == null ? null : post.band(c, new int[] {s})));
+                samples.add(new SampleYields(m.sampleNames[s], pre.band(new int[] {s}),
+                        postfit == null ? null : postfit.band(new int[] {s})));
             }
             int[] all = members.stream().mapToInt(Integer::intValue).toArray();
-            out.add(new ChannelYields(m.channelNames[c], observed, List.copyOf(samples), pre.band(c, all),
-                    post == null ? null : post.band(c, all)));
+            out.add(new ChannelYields(m.channelNames[c], observed, List.copyOf(samples), pre.band(all),
+                    postfit == null ? null : postfit.band(all)));
         }
         return out;
     }
 
-    /** Yields and their Jacobian at one point, with the covariance to propagate. */
+    /** The pre-fit covariance of the model parameters: diagonal, constrained and not held ones only (nParams²). */
+    private static double[] prefitCovariance(CompiledModel m, boolean[] held) {
+        int nP = m.nParams;
+        MemoryBudget.requireSquares(nP, 1, "the pre-fit yield errors of " + nP + " parameters");
+        double[] cov = new double[nP * nP];
+        for (int i = 0; i < nP; i++) {
+            if (m.constrained(i) && !held[i]) cov[i * nP + i] = m.prefitWidth[i] * m.prefitWidth[i];
+        }
+        return cov;
+    }
+
+    /**
+     * The yields at one point and what their errors need, one channel at a time: per sample the
+     * product-form derivatives, the channel's span basis and G = B S Bᵀ, and per bin the γ terms.
+     */
     private static final class Propagation {
         final CompiledModel m;
-        final double[] nu;
-        /** ∂ν_e/∂θ_i for model parameters, row i: jac[i * entries + e]. */
-        final double[] jac;
-        final double[] gammaValue;
+        final DataSet data;
+        /** Σ_θθ (nParams²), or null for NaN errors. */
         final double[] cov;
-        final int entries;
+        /** Post-fit: the block covariance (γ terms with their coupling); null pre-fit. */
+        final PostfitCovariance post;
+        /** Pre-fit: parameters held (the γ get their pre-fit width unless held); null post-fit. */
+        final boolean[] prefitHeld;
+        final BinnedNll nll;
+        final BinnedNll other;
+        final double[] w, q;
+        /** ν_sb of every entry at the point. */
+        final double[] nu;
 
-        private Propagation(CompiledModel m, double[] nu, double[] jac, double[] gammaValue, double[] cov) {
+        // ---- the current channel ----
+        int channel = -1;
+        int[] samples;
+        int nb;
+        /** Per sample of the channel: along[b], gammaFactor[b], byGamma[b], shape[j·nb + b]; each shape term's basis index. */
+        double[][] along, gammaFactor, byGamma, shape;
+        int[][] shapeBasis;
+        int K;
+        double[] g;
+        /** Per bin: the γ term's variance factor 1/d (post) or width² (pre), 0 without; and η_b, u_b = Gη_b, ηᵀGη (post). */
+        double[] gammaVar;
+        double[][] eta, u;
+        double[] etaGEta;
+        double[] values;
+
+        Propagation(CompiledModel m, DataSet data, double[] point, double[] cov, PostfitCovariance post,
+                    boolean[] prefitHeld) {
             this.m = m;
-            this.nu = nu;
-            this.jac = jac;
-            this.gammaValue = gammaValue;
+            this.data = data;
             this.cov = cov;
-            this.entries = nu.length;
-        }
-
-        static Propagation at(CompiledModel m, DataSet data, double[] values, double[] cov) {
-            BinnedNll nll = new BinnedNll(m, data, true);   // explicit layout: γ taken from the point
-            int entries = m.nominalYield.length;
-            double[] x = values.clone();
-            double[] nu = new double[entries];
+            this.post = post;
+            this.prefitHeld = prefitHeld;
+            this.nll = new BinnedNll(m, data, true);   // explicit layout: γ taken from the point
+            double[] x = point.clone();
+            this.w = new double[m.nBins];
+            this.q = new double[m.nBins];
+            this.nu = new double[m.nominalYield.length];
             nll.expectedEntries(x, nu);
-            double[] jac = new double[m.nParams * entries];
-            double[] up = new double[entries], down = new double[entries];
+            nll.binWeights(w, q);
+            // At a kink of a linear term the one-sided slopes differ: a second likelihood sits on
+            // the left-hand side of every kinked parameter at its kink, and the slopes are averaged.
+            double[] left = x.clone();
+            boolean anyKink = false;
             for (int i = 0; i < m.nParams; i++) {
-                boolean varies = false;
-                for (int c = 0; c < m.nChannels && !varies; c++) varies = contains(m.channelParams[c], i);
-                if (!varies) continue;
-                double scale = Double.isFinite(m.prefitWidth[i]) ? m.prefitWidth[i] : Math.max(1, Math.abs(values[i]));
-                double h = 1e-5 * scale;
-                double v = values[i];
-                x[i] = v + h;
-                nll.expectedEntries(x, up);
-                x[i] = v - h;
-                nll.expectedEntries(x, down);
-                x[i] = v;
-                int row = i * entries;
-                for (int e = 0; e < entries; e++) jac[row + e] = (up[e] - down[e]) / (2 * h);
+                if (m.kinked[i] && x[i] == 0) {
+                    left[i] = -Double.MIN_VALUE;
+                    anyKink = true;
+                } else if (m.kinked[i] && x[i] == -Double.MIN_VALUE) {
+                    x[i] = 0;
+                    anyKink = true;
+                }
             }
-            double[] gammaValue = new double[m.nGamma];
-            System.arraycopy(values, m.nParams, gammaValue, 0, m.nGamma);
-            return new Propagation(m, nu, jac, gammaValue, cov);
+            if (anyKink) {
+                nll.value(x);
+                other = new BinnedNll(m, data, true);
+                other.value(left);
+            } else {
+                other = null;
+            }
         }
 
-        /** The summed yield of the given samples of channel c per bin and over the bins, with errors. */
-        Band band(int c, int[] samples) {
-            int b0 = m.channelBinStart[c], nb = m.bins(c);
+        /** Prepares channel c: derivatives of its samples, the span basis and G. */
+        void channel(int c) {
+            channel = c;
             int[] local = m.channelParams[c];
             int L = local.length;
-            // Index set of the row vectors: the channel's parameters, then its γ.
-            int nG = 0;
-            for (int b = 0; b < nb; b++) if (m.binGamma[b0 + b] >= 0) nG++;
-            int[] index = new int[L + nG];
-            System.arraycopy(local, 0, index, 0, L);
-            int[] gammaSlot = new int[nb];
-            for (int b = 0, g = L; b < nb; b++) {
-                gammaSlot[b] = -1;
-                if (m.binGamma[b0 + b] >= 0) {
-                    gammaSlot[b] = g;
-                    index[g++] = m.nParams + m.binGamma[b0 + b];
+            int b0 = m.channelBinStart[c];
+            nb = m.bins(c);
+            List<Integer> list = new ArrayList<>();
+            for (int s = 0; s < m.nSamples; s++) if (m.sampleChannel[s] == c) list.add(s);
+            samples = list.stream().mapToInt(Integer::intValue).toArray();
+            int ns = samples.length;
+            along = new double[ns][nb];
+            gammaFactor = new double[ns][nb];
+            byGamma = new double[ns][nb];
+            shape = new double[ns][];
+            shapeBasis = new int[ns][];
+            double[][] direction = new double[ns][L];
+            int[] basisOfLocal = new int[L];
+            java.util.Arrays.fill(basisOfLocal, -1);
+            List<Integer> shapeLocals = new ArrayList<>();
+            double[] dir2 = new double[L], along2 = new double[nb], gf2 = new double[nb], bg2 = new double[nb];
+            for (int k = 0; k < ns; k++) {
+                int s = samples[k];
+                int nShape = m.sampleShapeStart[s + 1] - m.sampleShapeStart[s];
+                shape[k] = new double[nShape * nb];
+                nll.sampleDerivatives(s, direction[k], along[k], shape[k], gammaFactor[k], byGamma[k]);
+                if (other != null) {
+                    double[] shape2 = new double[nShape * nb];
+                    other.sampleDerivatives(s, dir2, along2, shape2, gf2, bg2);
+                    for (int i = 0; i < L; i++) direction[k][i] = 0.5 * (direction[k][i] + dir2[i]);
+                    for (int i = 0; i < shape2.length; i++) shape[k][i] = 0.5 * (shape[k][i] + shape2[i]);
+                }
+                shapeBasis[k] = new int[nShape];
+                for (int j = 0; j < nShape; j++) {
+                    int l = m.shapeLocal[m.sampleShapeStart[s] + j];
+                    if (basisOfLocal[l] < 0) {
+                        basisOfLocal[l] = ns + shapeLocals.size();
+                        shapeLocals.add(l);
+                    }
+                    shapeBasis[k][j] = basisOfLocal[l];
                 }
             }
-            int n = index.length;
-            double[] sub = new double[n * n];
-            boolean haveCov = cov != null;
-            if (haveCov) {
-                for (int a = 0; a < n; a++) {
-                    int row = index[a] * m.nAll;
-                    for (int bb = 0; bb < n; bb++) sub[a * n + bb] = cov[row + index[bb]];
+            K = ns + shapeLocals.size();
+            gammaVar = new double[nb];
+            eta = null;
+            u = null;
+            etaGEta = null;
+            if (cov == null) return;
+            // S over the channel's parameters, S r_s, and G = B S Bᵀ over the basis (r_s, then e_l).
+            int nP = m.nParams;
+            double[] sc = new double[L * L];
+            for (int i = 0; i < L; i++) for (int j = 0; j < L; j++) sc[i * L + j] = cov[local[i] * nP + local[j]];
+            double[][] sr = new double[ns][L];
+            for (int k = 0; k < ns; k++) {
+                double[] r = direction[k];
+                for (int i = 0; i < L; i++) {
+                    double acc = 0;
+                    for (int j = 0; j < L; j++) acc += sc[i * L + j] * r[j];
+                    sr[k][i] = acc;
                 }
+            }
+            g = new double[K * K];
+            for (int a = 0; a < ns; a++) {
+                for (int b = 0; b < ns; b++) {
+                    double acc = 0;
+                    for (int i = 0; i < L; i++) acc += direction[a][i] * sr[b][i];
+                    g[a * K + b] = acc;
+                }
+                for (int e = ns; e < K; e++) {
+                    g[a * K + e] = sr[a][shapeLocals.get(e - ns)];
+                    g[e * K + a] = g[a * K + e];
+                }
+            }
+            for (int e = ns; e < K; e++) {
+                int le = shapeLocals.get(e - ns);
+                for (int f = ns; f < K; f++) g[e * K + f] = sc[le * L + shapeLocals.get(f - ns)];
+            }
+            boolean included = data.channelIncluded()[c];
+            for (int b = 0; b < nb; b++) {
+                int gi = m.binGamma[b0 + b];
+                if (gi < 0) continue;
+                int idx = nP + gi;
+                if (post == null) {
+                    if (m.constrained(idx) && !prefitHeld[idx]) gammaVar[b] = m.prefitWidth[idx] * m.prefitWidth[idx];
+                    continue;
+                }
+                if (post.held(idx)) continue;
+                gammaVar[b] = 1 / post.gammaCurvature(gi);
+                if (!included) continue;
+                // h_b = w ∇c_b + q c_b ∇ν_b, as the likelihood forms it, in basis coefficients
+                if (eta == null) {
+                    eta = new double[nb][];
+                    u = new double[nb][];
+                    etaGEta = new double[nb];
+                }
+                double wb = w[b0 + b], qb = q[b0 + b], cb = 0;
+                for (int k = 0; k < ns; k++) cb += byGamma[k][b];
+                double[] e = new double[K];
+                for (int k = 0; k < ns; k++) {
+                    boolean mc = m.sampleMcStat[samples[k]];
+                    double f = (mc ? wb : 0) + qb * cb * gammaFactor[k][b];
+                    if (f == 0) continue;
+                    e[k] += f * along[k][b];
+                    double[] sh = shape[k];
+                    int[] sb = shapeBasis[k];
+                    for (int j = 0; j < sb.length; j++) e[sb[j]] += f * sh[j * nb + b];
+                }
+                double[] ub = new double[K];
+                double quad = 0;
+                for (int a = 0; a < K; a++) {
+                    double acc = 0;
+                    for (int bb = 0; bb < K; bb++) acc += g[a * K + bb] * e[bb];
+                    ub[a] = acc;
+                    quad += e[a] * acc;
+                }
+                eta[b] = e;
+                u[b] = ub;
+                etaGEta[b] = quad;
+            }
+        }
+
+        /** The summed yield of the given samples (of the current channel) per bin and over the bins, with errors. */
+        Band band(int[] set) {
+            int ns = samples.length;
+            int[] pos = new int[set.length];
+            for (int i = 0; i < set.length; i++) pos[i] = java.util.Arrays.binarySearch(samples, set[i]);
+            // the basis indices this set's coefficients use
+            boolean[] used = new boolean[K];
+            for (int k : pos) {
+                used[k] = true;
+                for (int e : shapeBasis[k]) used[e] = true;
+            }
+            int n = 0;
+            int[] index = new int[K], slot = new int[K];
+            for (int a = 0; a < K; a++) if (used[a]) { slot[a] = n; index[n++] = a; }
+            boolean haveCov = cov != null;
+            double[] gs = null;
+            if (haveCov) {
+                gs = new double[n * n];
+                for (int a = 0; a < n; a++) for (int b = 0; b < n; b++) gs[a * n + b] = g[index[a] * K + index[b]];
             }
             double[] values = new double[nb], errors = new double[nb];
-            double[] row = new double[n], sumRow = new double[n];
-            double sum = 0;
+            double[] c = new double[n];
+            double[] zSum = new double[K];
+            double gammaSum = 0, sum = 0;
             for (int b = 0; b < nb; b++) {
-                java.util.Arrays.fill(row, 0);
-                double y = 0;
-                for (int s : samples) {
-                    int e = m.sampleEntryStart[s] + b;
-                    y += nu[e];
-                    for (int a = 0; a < L; a++) row[a] += jac[local[a] * entries + e];
-                    if (m.sampleMcStat[s] && gammaSlot[b] >= 0) {
-                        double gamma = gammaValue[m.binGamma[b0 + b]];
-                        if (gamma > 0) row[gammaSlot[b]] += nu[e] / gamma;
-                    }
+                java.util.Arrays.fill(c, 0);
+                double y = 0, vg = 0;
+                for (int k : pos) {
+                    double gf = gammaFactor[k][b];
+                    y += nu[m.sampleEntryStart[samples[k]] + b];
+                    c[slot[k]] += gf * along[k][b];
+                    double[] sh = shape[k];
+                    int[] sb = shapeBasis[k];
+                    for (int j = 0; j < sb.length; j++) c[slot[sb[j]]] += gf * sh[j * nb + b];
+                    vg += byGamma[k][b];
                 }
                 values[b] = y;
                 sum += y;
-                errors[b] = haveCov ? Math.sqrt(Math.max(quadratic(sub, row, n), 0)) : Double.NaN;
-                for (int a = 0; a < n; a++) sumRow[a] += row[a];
+                if (!haveCov) {
+                    errors[b] = Double.NaN;
+                    continue;
+                }
+                double var = quadratic(gs, c, n) + vg * vg * gammaVar[b];
+                for (int a = 0; a < n; a++) zSum[index[a]] += c[a];
+                if (eta != null && eta[b] != null && vg != 0) {
+                    double t = vg * gammaVar[b];   // v_γ / d_b
+                    double cu = 0;
+                    for (int a = 0; a < n; a++) cu += c[a] * u[b][index[a]];
+                    var += -2 * t * cu + t * t * etaGEta[b];
+                    double[] e = eta[b];
+                    for (int a = 0; a < K; a++) zSum[a] -= t * e[a];
+                }
+                gammaSum += vg * vg * gammaVar[b];
+                errors[b] = Math.sqrt(Math.max(var, 0));
             }
-            double sumError = haveCov ? Math.sqrt(Math.max(quadratic(sub, sumRow, n), 0)) : Double.NaN;
+            double sumError = haveCov ? Math.sqrt(Math.max(quadratic(g, zSum, K) + gammaSum, 0)) : Double.NaN;
             return new Band(values, errors, sum, sumError);
         }
 
@@ -203,10 +366,6 @@ public final class Yields {
                 q += vi * acc;
             }
             return q;
-        }
-
-        private static boolean contains(int[] sorted, int v) {
-            return java.util.Arrays.binarySearch(sorted, v) >= 0;
         }
     }
 }

@@ -220,7 +220,7 @@ public final class BinnedNll implements Objective {
     }
 
     /**
-     * The blocks of {@link #fullHessian} without its nAll² matrix (profiled layout): the Hessian
+     * The blocks of {@link #fullHessian} without its nAll² matrix: the Hessian
      * over the model parameters with γ held at their values (nParams², row-major, no Schur terms),
      * and per γ its curvature d_g = ∂²f/∂γ_g² and mixed derivatives h_g = ∂²f/∂θ∂γ_g over its
      * channel's parameters ({@code CompiledModel.channelParams} order, row g of {@code mixed} with
@@ -230,10 +230,13 @@ public final class BinnedNll implements Objective {
      * @return −ln L at x
      */
     public double gammaBlocks(double[] x, double[] thetaHessian, double[] curvature, double[] mixed) {
-        if (explicitGamma) throw new IllegalStateException("gammaBlocks is for the profiled layout");
-        evaluate(x, null, null, false);
-        System.arraycopy(x, 0, extended, 0, m.nParams);
-        System.arraycopy(gammaValue, 0, extended, m.nParams, m.nGamma);
+        if (!explicitGamma) {
+            evaluate(x, null, null, false);
+            System.arraycopy(x, 0, extended, 0, m.nParams);
+            System.arraycopy(gammaValue, 0, extended, m.nParams, m.nGamma);
+        } else {
+            System.arraycopy(x, 0, extended, 0, m.nAll);
+        }
         java.util.Arrays.fill(curvature, 0, m.nGamma, 0);
         java.util.Arrays.fill(mixed, 0, m.nGamma * stride, 0);
         sinkCurvature = curvature;
@@ -244,6 +247,49 @@ public final class BinnedNll implements Objective {
             sinkCurvature = null;
             sinkMixed = null;
         }
+    }
+
+    /**
+     * Derivatives of sample s's expected yields at the point of the last evaluation, in the
+     * product form ν_sb = base_sb(θ) · C_s(θ) · γ_b: ∂(base_sb C_s)/∂θ = along[b] · direction +
+     * Σ_j shape[j·bins + b] · e_(shape term j's parameter), with direction (over the channel's
+     * parameters, {@code CompiledModel.channelParams} order) = ∂C_s/∂θ and along = base_sb; ν_sb
+     * is that times {@code gammaFactor[b]} (γ_b for a sample in the MC-statistics term, else 1),
+     * and ∂ν_sb/∂γ_b = {@code byGamma[b]} (base_sb C_s, or 0). Shape term j is the sample's j-th
+     * ({@code CompiledModel.sampleShapeStart[s] + j}); a clipped entry has no shape derivative.
+     */
+    public void sampleDerivatives(int s, double[] direction, double[] along, double[] shape, double[] gammaFactor,
+                                  double[] byGamma) {
+        final int c = m.sampleChannel[s];
+        final int L = m.channelParams[c].length;
+        final int b0 = m.channelBinStart[c];
+        final int e0 = m.sampleEntryStart[s], len = m.sampleEntryStart[s + 1] - e0;
+        Arrays.fill(direction, 0, L, 0);
+        for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) direction[m.mulLocal[k]] += dC[k];
+        final double cs = sampleC[s];
+        final boolean mc = m.sampleMcStat[s];
+        for (int b = 0; b < len; b++) {
+            along[b] = base[e0 + b];
+            gammaFactor[b] = mc ? binGammaValue[b0 + b] : 1;
+            byGamma[b] = mc ? base[e0 + b] * cs : 0;
+        }
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+        for (int k = m.sampleShapeStart[s], j = 0; k < m.sampleShapeStart[s + 1]; k++, j++) {
+            int so = m.shapeCoeffStart[k];
+            double p1 = shapeP[3 * k + 1];
+            for (int b = 0; b < len; b++) {
+                shape[j * len + b] = clipped[e0 + b] ? 0 : cs * (shapeS[so + b] + shapeA[so + b] * p1);
+            }
+        }
+    }
+
+    /**
+     * w_b = 1 − n_b/ν_b and q_b = n_b/ν_b² of every bin at the point of the last evaluation (0 in a
+     * bin that does not count or sits on the floor): the bin's weights in the Hessian.
+     */
+    public void binWeights(double[] wOut, double[] qOut) {
+        System.arraycopy(w, 0, wOut, 0, m.nBins);
+        System.arraycopy(q, 0, qOut, 0, m.nBins);
     }
 
     /** Row stride of the per-γ mixed derivatives of {@link #gammaBlocks}: the most parameters of a channel. */

@@ -3,7 +3,7 @@ package plumb.engine.compile;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
-import plumb.engine.inference.Covariances;
+import plumb.engine.inference.PostfitCovariance;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
 import plumb.engine.inference.Problem;
@@ -85,7 +85,7 @@ class BinFactorsTest {
         Fitter fitter = new Fitter(p);
         FitResult best = fitter.fit();
         assertTrue(best.converged(), best.status().toString());
-        double[] cov = Covariances.full(fitter.likelihood(), best);
+        PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         Yields.SampleYields sr = Yields.compute(p, best, cov).get(1).samples().get(0);
         // 1e-5 relative: the minimiser stops when the expected decrease is below its tolerance,
         // which leaves a relative offset of order 1e-6 in the fitted factors

@@ -68,7 +68,7 @@ class YieldsTest {
         Fitter fitter = new Fitter(p);
         FitResult best = fitter.fit();
         assertTrue(best.converged(), best.status().toString());
-        double[] cov = Covariances.full(fitter.likelihood(), best);
+        PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         assertNotNull(cov);
         Yields.ChannelYields c = only(Yields.compute(p, best, cov));
 
