@@ -39,7 +39,9 @@ final class CheckCommand implements Callable<Integer> {
         PrintWriter out = spec.commandLine().getOut();
         int factors = factors(m), nuisances = m.nParams - factors - binFactors(m);
         if (json != null) {
-            Outputs.write(json, Json.write(toJson(m, warnings)), out);
+            var root = toJson(m, warnings);
+            if (failure(warnings) != null) Json.failed(root, failure(warnings));
+            Outputs.write(json, Json.write(root), out);
             if ("-".equals(json)) return status(warnings);
         }
         out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
@@ -65,10 +67,16 @@ final class CheckCommand implements Callable<Integer> {
         return status(warnings);
     }
 
+    /** Why the check fails (--strict and warnings), or null. */
+    private String failure(List<String> warnings) {
+        if (!strict || warnings.isEmpty()) return null;
+        return String.format("--strict: %d warning%s", warnings.size(), warnings.size() == 1 ? "" : "s");
+    }
+
     private int status(List<String> warnings) {
-        if (!strict || warnings.isEmpty()) return ExitCodes.OK;
-        spec.commandLine().getErr().printf("plumb check: --strict: %d warning%s%n", warnings.size(),
-                warnings.size() == 1 ? "" : "s");
+        String failure = failure(warnings);
+        if (failure == null) return ExitCodes.OK;
+        spec.commandLine().getErr().println("plumb check: " + failure);
         spec.commandLine().getErr().flush();
         return ExitCodes.FAILED;
     }

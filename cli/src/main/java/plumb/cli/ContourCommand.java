@@ -52,13 +52,17 @@ final class ContourCommand implements Callable<Integer> {
         Contour.Result r = compute(l, fit, p, x, y, rays);
         CompiledModel m = l.compiled();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p.kind(), r)), out);
+        int failed = r.regions().stream().mapToInt(Contour.Region::failed).sum();
+        String failure = failed == 0 ? null : failed + " contour points could not be found: their refits did not converge";
+        if (json != null) {
+            var root = toJson(m, p.kind(), r);
+            if (failure != null) Json.failed(root, failure);
+            Outputs.write(json, Json.write(root), out);
+        }
         if (!"-".equals(json)) print(out, l, r);
         if (figureDir != null) WhatIf.writeFigure(figureDir, "contour", ContourFigure.of(r), out);
         out.flush();
-        int failed = r.regions().stream().mapToInt(Contour.Region::failed).sum();
-        if (failed > 0) throw new ComputationException(failed + " contour points could not be found: their refits did not converge");
-        return ExitCodes.OK;
+        return Outputs.failedAfterWriting(spec, failure);
     }
 
     /**

@@ -132,22 +132,23 @@ final class InjectCommand implements Callable<Integer> {
             return ExitCodes.OK;
         }
         List<InjectionSummary> summaries = c.summaries();
-        if (json != null) Outputs.write(json, Json.write(c.toJson()), out);
-        if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
-        int status = ExitCodes.OK;
-        if (c.closureFailed()) {
-            err.println("plumb inject: the Asimov closure check failed (see above)");
-            status = ExitCodes.FAILED;
-        }
+        List<String> failures = new ArrayList<>();
+        if (c.closureFailed()) failures.add("the Asimov closure check failed");
         for (InjectionSummary s : summaries) {
             if (s.toys() > 0 && s.converged() == 0) {
-                err.printf(Locale.ROOT, "plumb inject: no toy fit at %s = %s converged%n", m.parameterNames[m.poi],
-                        Numbers.plain(s.injected()));
-                status = ExitCodes.FAILED;
+                failures.add(String.format(Locale.ROOT, "no toy fit at %s = %s converged", m.parameterNames[m.poi],
+                        Numbers.plain(s.injected())));
             }
         }
+        if (json != null) {
+            var root = c.toJson();
+            if (!failures.isEmpty()) Json.failed(root, String.join("; ", failures));
+            Outputs.write(json, Json.write(root), out);
+        }
+        if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
+        for (String f : failures) err.println("plumb inject: " + f + (f.startsWith("the Asimov") && table ? " (see above)" : ""));
         err.flush();
-        return status;
+        return failures.isEmpty() ? ExitCodes.OK : ExitCodes.FAILED;
     }
 
     /**

@@ -58,6 +58,16 @@ public final class Json {
         }
     }
 
+    /**
+     * The rule for result files on exit status 1 (docs/cli-contract.md): the result, or an empty
+     * object when there is none, with {@code "converged": false} and the one-line {@code "failure"}.
+     */
+    public static ObjectNode failed(ObjectNode root, String why) {
+        root.put("converged", false);
+        root.put("failure", why);
+        return root;
+    }
+
     public static ObjectMapper mapper() {
         return MAPPER;
     }

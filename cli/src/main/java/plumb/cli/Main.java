@@ -103,9 +103,7 @@ public final class Main implements Runnable {
         while (leaf.hasSubcommand()) leaf = leaf.subcommand();
         String json = leaf.matchedOptionValue("--json", null);
         if (json == null) return;
-        com.fasterxml.jackson.databind.node.ObjectNode root = Json.object();
-        root.put("converged", false);
-        root.put("failure", why);
+        com.fasterxml.jackson.databind.node.ObjectNode root = Json.failed(Json.object(), why);
         try {
             Outputs.write(json, Json.write(root), c.getOut());
         } catch (InputException e) {

@@ -36,6 +36,18 @@ public final class Outputs {
         return new InputException("cannot write " + target + ": " + cause(e));
     }
 
+    /**
+     * The end of a command whose result files are written, with their failure when there is one:
+     * the failure on standard error, exit status 1 (not an exception, which would make Main
+     * replace the result file with the bare failure); exit status 0 when {@code failure} is null.
+     */
+    public static int failedAfterWriting(picocli.CommandLine.Model.CommandSpec spec, String failure) {
+        if (failure == null) return ExitCodes.OK;
+        spec.commandLine().getErr().println("plumb " + spec.name() + ": " + plumb.cli.table.Escape.controls(failure));
+        spec.commandLine().getErr().flush();
+        return ExitCodes.FAILED;
+    }
+
     /** The reason of an I/O failure without the path. */
     public static String cause(Exception e) {
         if (e instanceof UncheckedIOException u) return IoErrors.describe(u.getCause());

@@ -62,16 +62,20 @@ final class ProjectCommand implements Callable<Integer> {
         Projection.Result r = compute(l, fit, lumis, cl);
         CompiledModel m = l.compiled();
         var out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, r)), out);
-        if (!"-".equals(json) || outFile != null) Outputs.write(outFile == null ? "-" : outFile, tf.render(table(r)), out);
-        if (figureDir != null) WhatIf.writeFigure(figureDir, "projection", ProjectionFigure.of(r), out);
-        out.flush();
         List<String> errors = new ArrayList<>();
         for (Projection.Point p : r.points()) {
             if (p.error() != null) errors.add("L = " + Numbers.plain(p.lumi()) + ", " + p.scenario().label() + ": " + p.error());
         }
-        if (!errors.isEmpty()) throw new ComputationException(String.join("; ", errors));
-        return ExitCodes.OK;
+        String failure = errors.isEmpty() ? null : String.join("; ", errors);
+        if (json != null) {
+            var root = toJson(m, r);
+            if (failure != null) Json.failed(root, failure);
+            Outputs.write(json, Json.write(root), out);
+        }
+        if (!"-".equals(json) || outFile != null) Outputs.write(outFile == null ? "-" : outFile, tf.render(table(r)), out);
+        if (figureDir != null) WhatIf.writeFigure(figureDir, "projection", ProjectionFigure.of(r), out);
+        out.flush();
+        return Outputs.failedAfterWriting(spec, failure);
     }
 
     /**
