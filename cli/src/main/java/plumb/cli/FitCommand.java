@@ -12,6 +12,7 @@ import plumb.engine.model.ParameterKind;
 import plumb.engine.inference.FitChecks;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
+import plumb.engine.inference.Pulls;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 
@@ -102,8 +103,8 @@ final class FitCommand implements Callable<Integer> {
             Json.put(o, "error", r.checks().bound()[i] != 0 ? Double.NaN : r.errors()[i]);
             Json.put(o, "prefitValue", m.nominal[i]);
             Json.put(o, "prefitWidth", m.prefitWidth[i]);
-            Json.put(o, "pull", pull(m, r, i));
-            Json.put(o, "constraint", constraint(m, r, i));
+            Json.put(o, "pull", Pulls.pull(m, r, i));
+            Json.put(o, "constraint", Pulls.constraint(m, r, i));
             o.put("fixed", r.held()[i]);
             o.put("atKink", r.atKink()[i]);
             byte bound = r.checks().bound()[i];
@@ -212,16 +213,6 @@ final class FitCommand implements Callable<Integer> {
         return false;
     }
 
-    /** (value − prefitValue)/prefitWidth, NaN for free parameters. */
-    static double pull(CompiledModel m, FitResult r, int i) {
-        return (r.values()[i] - m.nominal[i]) / m.prefitWidth[i];
-    }
-
-    /** error/prefitWidth, NaN for free parameters. */
-    static double constraint(CompiledModel m, FitResult r, int i) {
-        return r.errors()[i] / m.prefitWidth[i];
-    }
-
     private static String decimals(double v) {
         return Double.isFinite(v) ? Numbers.fixed(v, 2) : Table.MISSING;
     }
@@ -235,7 +226,7 @@ final class FitCommand implements Callable<Integer> {
         Table.Builder t = Table.builder(null, "parameter", "value ± error", "pull", "constraint", "");
         int hiddenGamma = 0, flaggedGamma = 0, hiddenBinFactors = 0;
         for (int i = 0; i < m.nAll; i++) {
-            double pull = pull(m, r, i), cons = constraint(m, r, i);
+            double pull = Pulls.pull(m, r, i), cons = Pulls.constraint(m, r, i);
             boolean pulled = Math.abs(pull) > 1, constrained = cons < 0.5;
             if (m.kind[i] == ParameterKind.MC_STATISTICS && !showMcStat) {
                 hiddenGamma++;

@@ -53,17 +53,13 @@ public final class FitOptions {
             description = "Minimise the MC-statistics parameters as ordinary variables instead of in closed form.")
     public boolean explicitMcStat;
 
-    /** Bytes one toy's or scan point's results are assumed to take: a record and the parameter values. */
-    static long bytesPerTask(CompiledModel m) {
-        return 256 + 8L * m.nAll;
-    }
-
     /**
      * Refuses {@code option n} (toys, scan points) when their results would not fit in the heap,
-     * in one line naming the option, the size and the heap limit (exit status 2).
+     * in one line naming the option, the size and the heap limit (exit status 2); the policy is
+     * the engine's ({@link MemoryBudget#requireTaskResults}).
      */
     public static void requireCount(String option, long n, CompiledModel m) {
-        MemoryBudget.require(MemoryBudget.times(n, bytesPerTask(m)), option + " " + n);
+        MemoryBudget.requireTaskResults(n, m, option + " " + n);
     }
 
     /** Worker threads to use: --threads, or all cores. */

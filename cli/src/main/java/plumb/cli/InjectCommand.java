@@ -48,9 +48,6 @@ final class InjectCommand implements Callable<Integer> {
     /** Toys per injected value when --toys is not given (and --asimov is not asked alone). */
     static final int DEFAULT_TOYS = 1000;
 
-    /** Share of the JVM's maximum heap the toys' results may take (the rest: fits, JSON, the model). */
-    static final double MEMORY_SHARE = 0.5;
-
     /** Where the nuisance values of the generating point come from. */
     enum From { nominal, postfit }
 
@@ -310,25 +307,12 @@ final class InjectCommand implements Callable<Integer> {
         return n;
     }
 
-    /**
-     * Refuses a run whose toy results would not fit in memory: the results of every toy are kept
-     * (they are summed in index order, which makes results independent of threads and batches).
-     */
+    /** Refuses a run whose toy results would not all fit in memory (the engine's policy). */
     private void checkMemory(int perValue, int pulls) {
-        long need = (long) perValue * mu.size() * ToyFit.estimatedBytes(pulls);
-        long budget = (long) (Runtime.getRuntime().maxMemory() * MEMORY_SHARE);
-        if (need > budget) {
-            throw new InputException(String.format(Locale.ROOT,
-                    "--toys %d: %d toys x %d injected values need about %s of memory for their results, more than "
-                            + "the %s available; run fewer toys, or batches (--first/--count, then 'plumb merge-toys'), "
-                            + "or give Java more memory (PLUMB_JAVA_OPTS=-Xmx...)",
-                    perValue, perValue, mu.size(), bytes(need), bytes(budget)));
-        }
-    }
-
-    private static String bytes(long b) {
-        return b >= 1L << 30 ? String.format(Locale.ROOT, "%.1f GB", b / (double) (1L << 30))
-                : String.format(Locale.ROOT, "%.0f MB", Math.ceil(b / (double) (1L << 20)));
+        plumb.engine.inference.MemoryBudget.requireInjectionToys(perValue, mu.size(), pulls,
+                String.format(Locale.ROOT, "--toys %d (%d toys x %d injected values, every toy's fit kept)", perValue,
+                        perValue, mu.size()),
+                "run fewer toys, or batches (--first/--count, then 'plumb merge-toys')");
     }
 
     /** Every setting the toys' results depend on; batches merge only when these are equal. */
@@ -405,7 +389,7 @@ final class InjectCommand implements Callable<Integer> {
         }
         out.printf(Locale.ROOT, "  flag: pull mean or width, or coverage, more than 3 standard errors from 0, 1 and %.4f%n",
                 InjectionSummary.GAUSSIAN_68);
-        var line = InjectionToyFits.linearity(summaries);
+        var line = plumb.engine.inference.InjectionLinearity.through(summaries);
         if (line != null) {
             out.printf(Locale.ROOT, "%nLinearity (mean fitted %s = offset + slope x injected, weighted least squares):%n", poi);
             out.printf(Locale.ROOT, "  slope %s, offset %s%n", pm(line.slope(), line.slopeError(), 4),

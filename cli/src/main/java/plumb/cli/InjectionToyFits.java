@@ -82,7 +82,7 @@ record InjectionToyFits(ObjectNode run, Map<String, Object> labels, String[] nui
             if (closures != null) o.set("closure", closures.get(k));
             summaryKeys(o, summaries.get(k));
         }
-        InjectionLinearity line = linearity(summaries);
+        InjectionLinearity line = InjectionLinearity.through(summaries);
         if (line == null) {
             root.putNull("linearity");
         } else {
@@ -93,20 +93,6 @@ record InjectionToyFits(ObjectNode run, Map<String, Object> labels, String[] nui
             Json.put(l, "offsetError", line.offsetError());
         }
         return root;
-    }
-
-    /** Weighted straight line through (injected, mean ± meanError), or null with fewer than two usable points. */
-    static InjectionLinearity linearity(List<InjectionSummary> summaries) {
-        List<InjectionSummary> usable = new ArrayList<>();
-        for (InjectionSummary s : summaries) if (s.meanError() > 0 && Double.isFinite(s.meanError())) usable.add(s);
-        double[] x = new double[usable.size()], y = new double[x.length], e = new double[x.length];
-        for (int k = 0; k < x.length; k++) {
-            x[k] = usable.get(k).injected();
-            y[k] = usable.get(k).mean();
-            e[k] = usable.get(k).meanError();
-        }
-        if (Arrays.stream(x).distinct().count() < 2) return null;
-        return InjectionLinearity.fit(x, y, e);
     }
 
     private static void summaryKeys(ObjectNode o, InjectionSummary s) {

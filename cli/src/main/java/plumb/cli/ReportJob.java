@@ -96,8 +96,24 @@ final class ReportJob {
      * @throws InputException for bad options (nothing is written then) or a report that cannot be written
      */
     Written run(Path dir) {
-        long t0 = System.nanoTime();
         requireReportFolder(dir, files);
+        ReportInput in = assemble();
+        try {
+            return new Written(ReportWriter.write(in, dir, files), in.summary());
+        } catch (ReportFolder.NotReusable e) {
+            throw new InputException("--out " + dir + ": " + e.getMessage());
+        } catch (IOException | RuntimeException e) {
+            throw new InputException("--out " + dir + ": cannot write the report: " + Outputs.cause(e));
+        }
+    }
+
+    /**
+     * Computes every section: what the page shows and the JSON files it carries.
+     *
+     * @throws InputException for bad options
+     */
+    ReportInput assemble() {
+        long t0 = System.nanoTime();
         ModelInput.Loaded main = ModelInput.load(files.get(0));
         for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
         CompiledModel m = main.compiled();
@@ -185,13 +201,7 @@ final class ReportJob {
                 fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
         if (templates) in = in.withTemplates(plumb.engine.tooling.Templates.of(main.model()));
-        try {
-            return new Written(ReportWriter.write(in, dir, files), summary);
-        } catch (ReportFolder.NotReusable e) {
-            throw new InputException("--out " + dir + ": " + e.getMessage());
-        } catch (IOException | RuntimeException e) {
-            throw new InputException("--out " + dir + ": cannot write the report: " + Outputs.cause(e));
-        }
+        return in;
     }
 
     /**

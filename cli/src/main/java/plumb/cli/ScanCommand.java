@@ -24,9 +24,6 @@ import java.util.concurrent.Callable;
         description = "Profile likelihood scan of one parameter, with the 68%% and 95%% intervals found by root-finding.")
 final class ScanCommand implements Callable<Integer> {
 
-    /** Default half-width of the scan, in post-fit errors: covers the 95 % interval of a Gaussian with room. */
-    static final double DEFAULT_HALF_WIDTH = 3;
-
     @Mixin ModelInput input;
     @Mixin FitOptions fit;
 
@@ -87,22 +84,19 @@ final class ScanCommand implements Callable<Integer> {
 
     /**
      * Scans parameter {@code k} around the best fit {@code best} of the prepared data over
-     * {@code lohi} (null: best fit ± {@value #DEFAULT_HALF_WIDTH} errors, clipped to the range).
+     * {@code lohi} (null: the engine's default range, {@link ProfileScan#defaultRange}), the points
+     * re-based to the lowest −ln L found ({@link ProfileScan#rebased}).
      *
      * @throws ComputationException when the best fit did not converge
      */
     static ScanProfile compute(CompiledModel m, FitOptions.Prepared p, int k, FitResult best, double[] lohi, int points,
                             int threads) {
         if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
-        double v = best.values()[k], e = best.errors()[k];
-        if (lohi == null) {
-            double half = DEFAULT_HALF_WIDTH * (e > 0 && Double.isFinite(e) ? e : Math.max(1e-3, 0.1 * Math.abs(v)));
-            lohi = new double[] {Math.max(m.lower[k], v - half), Math.min(m.upper[k], v + half)};
-        }
+        if (lohi == null) lohi = ProfileScan.defaultRange(m, best, k);
         ProfileScan scan = new ProfileScan(m, p.data(), p.settings(), p.held(), p.heldValues(), best);
         List<ProfileScan.Point> pts;
         try (Progress bar = Progress.start("scan " + m.parameterNames[k], points)) {
-            pts = scan.points(k, lohi[0], lohi[1], points, threads, bar.callback());
+            pts = ProfileScan.rebased(scan.points(k, lohi[0], lohi[1], points, threads, bar.callback()));
         }
         List<ProfileScan.Interval> intervals = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads);
         return new ScanProfile(pts, intervals);
@@ -132,17 +126,16 @@ final class ScanCommand implements Callable<Integer> {
         }
     }
 
-    /** The scan result file of docs/cli-contract.md; nllAboveMin relative to the lowest −ln L found. */
+    /** The scan result file of docs/cli-contract.md; the points re-based (nllAboveMin from the lowest −ln L found). */
     static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, int k, FitResult best,
                              List<ProfileScan.Point> pts, List<ProfileScan.Interval> intervals) {
         ObjectNode root = Json.result(m.labels, p.kind());
         root.put("parameter", m.parameterNames[k]);
-        double floor = minimumDelta(pts);
         ArrayNode a = root.putArray("points");
         for (ProfileScan.Point x : pts) {
             ObjectNode o = a.addObject();
             Json.put(o, "value", x.value());
-            Json.put(o, "nllAboveMin", x.nllAboveMin() - floor);
+            Json.put(o, "nllAboveMin", x.nllAboveMin());
             o.put("status", x.status().name());
         }
         Json.put(root, "best", best.values()[k]);
@@ -150,13 +143,6 @@ final class ScanCommand implements Callable<Integer> {
         interval(root, "interval68", intervals.get(0));
         interval(root, "interval95", intervals.get(1));
         return root;
-    }
-
-    /** The minimum of the profile is the best fit unless a scan point found a lower one (then a warning sign). */
-    private static double minimumDelta(List<ProfileScan.Point> pts) {
-        double min = 0;
-        for (ProfileScan.Point x : pts) if (x.nllAboveMin() < min) min = x.nllAboveMin();
-        return min;
     }
 
     private static void interval(ObjectNode root, String key, ProfileScan.Interval iv) {
@@ -170,10 +156,9 @@ final class ScanCommand implements Callable<Integer> {
         String name = m.parameterNames[k];
         out.printf(Locale.ROOT, "Profile likelihood scan of %s: best fit %s%n", name,
                 Table.measurement(best.values()[k], best.errors()[k]));
-        double floor = minimumDelta(pts);
         Table.Builder t = Table.builder(null, name, "2ΔNLL", "");
         for (ProfileScan.Point x : pts) {
-            double d2 = 2 * (x.nllAboveMin() - floor);
+            double d2 = 2 * x.nllAboveMin();
             int bar = Double.isFinite(d2) ? (int) Math.round(Math.min(d2, 10) * 4) : 0;
             t.row(Table.number(x.value(), 5), Double.isFinite(d2) ? Numbers.fixed(d2, 4) : Table.MISSING, "#".repeat(bar));
         }

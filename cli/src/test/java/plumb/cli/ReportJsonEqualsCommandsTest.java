@@ -61,9 +61,34 @@ class ReportJsonEqualsCommandsTest {
         model = dir.resolve("model.json");
         ModelWriter.write(m, model);
         report = dir.resolve("report");
-        CommandLineTestSupport.Run r = CommandLineTestSupport.run("report", model.toString(), "--out", report.toString(),
-                "--toys", "6", "--impacts-top", "3", "--threads", "2", "--seed", "5");
-        assertEquals(ExitCodes.OK, r.status(), r.err());
+        // What `plumb report MODEL --out DIR --toys 6 ...` runs, kept in memory for the figure check.
+        ReportCommand command = new ReportCommand();
+        new picocli.CommandLine(command).parseArgs(model.toString(), "--out", report.toString(), "--toys", "6",
+                "--impacts-top", "3", "--threads", "2", "--seed", "5");
+        ReportJob job = new ReportJob(List.of(model), command.fit, command.toys, command.impactsTop, command.label);
+        assembled = job.assemble();
+        assertTrue(assembled.summary().failures().isEmpty(), assembled.summary().failures().toString());
+        plumb.cli.report.ReportWriter.write(assembled, report);
+    }
+
+    static plumb.cli.report.ReportInput assembled;
+
+    /**
+     * The report's injection figure draws the straight line of the injection result file: the line
+     * in the figure, read back from the chart's data at its two ends, has the JSON's slope and offset.
+     */
+    @Test
+    void theLinearityFigureDrawsTheLineOfTheJson() {
+        JsonNode line = CommandLineTestSupport.readJson(report.resolve("json/inject.json")).get("linearity");
+        assertTrue(line.isObject(), "three injected values with toys give a line: " + line);
+        org.jfree.chart.JFreeChart chart = plumb.cli.plot.LinearityFigure.of(
+                plumb.cli.report.ReportWriter.linearity("mu", assembled.injection())).chart();
+        org.jfree.data.xy.XYDataset drawn = chart.getXYPlot().getDataset(1);
+        double x0 = drawn.getXValue(0, 0), y0 = drawn.getYValue(0, 0);
+        double x1 = drawn.getXValue(0, 1), y1 = drawn.getYValue(0, 1);
+        double slope = (y1 - y0) / (x1 - x0);
+        assertEquals(line.get("slope").asDouble(), slope, 1e-12 * Math.abs(slope));
+        assertEquals(line.get("offset").asDouble(), y0 - slope * x0, 1e-9);
     }
 
     /** Each report file with the command line that must give the same JSON. */

@@ -1,5 +1,7 @@
 package plumb.cli.plot;
 
+import plumb.engine.inference.InjectionLinearity;
+
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -29,41 +31,17 @@ public record Linearity(String poi, List<Point> points) {
     }
 
     /**
-     * Straight line fitted = offset + slope · injected by least squares, weighted by 1/error² when
-     * every point has a positive error, unweighted otherwise. Returns {slope, slopeError, offset,
-     * offsetError} (standard weighted least squares, e.g. Bevington & Robinson, Data Reduction
-     * and Error Analysis, 3rd ed., ch. 6; from memory), or null with fewer than two distinct
-     * injected values. Unweighted errors are scaled by the residual variance.
+     * The straight line through the points: the engine's {@link InjectionLinearity}, the same line
+     * the injection result file and the terminal give for these points; null when it has none
+     * (fewer than two distinct injected values with an error bar).
      */
-    public double[] line() {
-        int n = points.size();
-        boolean weighted = true;
-        for (Point p : points) weighted &= p.error() > 0 && Double.isFinite(p.error());
-        double s = 0, sx = 0, sy = 0, sxx = 0, sxy = 0;
-        for (Point p : points) {
-            double w = weighted ? 1 / (p.error() * p.error()) : 1;
-            s += w;
-            sx += w * p.injected();
-            sy += w * p.fitted();
-            sxx += w * p.injected() * p.injected();
-            sxy += w * p.injected() * p.fitted();
+    public InjectionLinearity line() {
+        double[] x = new double[points.size()], y = new double[x.length], e = new double[x.length];
+        for (int k = 0; k < x.length; k++) {
+            x[k] = points.get(k).injected();
+            y[k] = points.get(k).fitted();
+            e[k] = points.get(k).error();
         }
-        double delta = s * sxx - sx * sx;
-        if (n < 2 || !(delta > 1e-12 * s * sxx)) return null;
-        double slope = (s * sxy - sx * sy) / delta;
-        double offset = (sxx * sy - sx * sxy) / delta;
-        double varSlope = s / delta;
-        double varOffset = sxx / delta;
-        if (!weighted) {
-            double rss = 0;
-            for (Point p : points) {
-                double r = p.fitted() - offset - slope * p.injected();
-                rss += r * r;
-            }
-            double variance = n > 2 ? rss / (n - 2) : Double.NaN;
-            varSlope *= variance;
-            varOffset *= variance;
-        }
-        return new double[] {slope, Math.sqrt(varSlope), offset, Math.sqrt(varOffset)};
+        return InjectionLinearity.throughUsable(x, y, e);
     }
 }

@@ -52,18 +52,18 @@ public final class LinearityFigure {
 
         LegendItemCollection legend = new LegendItemCollection();
         legend.add(Theme.legendMarker("Mean fitted " + in.poi(), Theme.diamond(11), Theme.INK, null));
-        double[] line = in.line();
+        plumb.engine.inference.InjectionLinearity line = in.line();
         if (line != null) {
             XYSeries fit = new XYSeries("fit");
-            fit.add(lo, line[2] + line[0] * lo);
-            fit.add(hi, line[2] + line[0] * hi);
+            fit.add(lo, line.offset() + line.slope() * lo);
+            fit.add(hi, line.offset() + line.slope() * hi);
             plot.setDataset(1, new XYSeriesCollection(fit));
             XYLineAndShapeRenderer fitRenderer = new XYLineAndShapeRenderer(true, false);
             fitRenderer.setSeriesPaint(0, Theme.FIT_LINE);
             fitRenderer.setSeriesStroke(0, Theme.LINE);
             plot.setRenderer(1, fitRenderer);
-            legend.add(Theme.legendMarker("Line: slope " + Table.measurement(line[0], line[1])
-                    + ", offset " + Table.measurement(line[2], line[3]), null, Theme.FIT_LINE, Theme.LINE));
+            legend.add(Theme.legendMarker("Line: slope " + Table.measurement(line.slope(), line.slopeError())
+                    + ", offset " + Table.measurement(line.offset(), line.offsetError()), null, Theme.FIT_LINE, Theme.LINE));
         }
         legend.add(Theme.legendMarker("Fitted = injected", null, Theme.MUTED_INK, Theme.DASHED));
 

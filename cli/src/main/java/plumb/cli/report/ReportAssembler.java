@@ -15,6 +15,7 @@ import plumb.engine.inference.InjectionSummary;
 import plumb.engine.inference.InjectionToys;
 import plumb.engine.inference.LimitResult;
 import plumb.engine.inference.ProfileScan;
+import plumb.engine.inference.Pulls;
 import plumb.engine.inference.Yields;
 import plumb.engine.model.Channel;
 import plumb.engine.model.Model;
@@ -39,8 +40,7 @@ public final class ReportAssembler {
         for (int i = 0; i < m.nAll; i++) {
             if (m.kind[i] == ParameterKind.MC_STATISTICS || m.kind[i] == ParameterKind.BIN_FACTOR) continue;
             params.add(new FitSection.Parameter(m.parameterNames[i], r.values()[i], r.errors()[i],
-                    m.nominal[i], m.prefitWidth[i], (r.values()[i] - m.nominal[i]) / m.prefitWidth[i],
-                    r.errors()[i] / m.prefitWidth[i]));
+                    m.nominal[i], m.prefitWidth[i], Pulls.pull(m, r, i), Pulls.constraint(m, r, i)));
         }
         CorrelationMatrix correlation = null;
         if (r.covariance() != null) {
@@ -109,19 +109,17 @@ public final class ReportAssembler {
     }
 
     /**
-     * The scan curve: ΔNLL relative to the lowest value found (as in the scan result file); points
-     * whose refit failed are left out.
+     * The scan curve: ΔNLL relative to the lowest value found ({@link ProfileScan#rebased}, as in the
+     * scan result file); points whose refit failed are left out.
      */
     public static ScanCurve scan(String parameter, double best, List<ProfileScan.Point> points,
                                  List<ProfileScan.Interval> intervals) {
-        double floor = 0;
-        for (ProfileScan.Point p : points) if (p.nllAboveMin() < floor) floor = p.nllAboveMin();
         List<ProfileScan.Point> good = new ArrayList<>();
-        for (ProfileScan.Point p : points) if (Double.isFinite(p.nllAboveMin())) good.add(p);
+        for (ProfileScan.Point p : ProfileScan.rebased(points)) if (Double.isFinite(p.nllAboveMin())) good.add(p);
         double[] x = new double[good.size()], y = new double[good.size()];
         for (int i = 0; i < x.length; i++) {
             x[i] = good.get(i).value();
-            y[i] = good.get(i).nllAboveMin() - floor;
+            y[i] = good.get(i).nllAboveMin();
         }
         return new ScanCurve(parameter, x, y, best, ends(intervals.get(0)), ends(intervals.get(1)));
     }

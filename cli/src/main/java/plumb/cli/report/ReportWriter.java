@@ -467,18 +467,23 @@ public final class ReportWriter {
                 .append(" and fitted; pull = (fitted − injected)/error.</p>\n");
             Table.Builder t = Table.builder(null, "Injected", "Toys", "Converged", "Mean fitted", "Pull mean", "Pull width",
                     "68% coverage");
-            List<Linearity.Point> points = new ArrayList<>();
             for (Results.InjectionValues r : inj) {
                 t.row(Table.number(r.injected(), 4), Integer.toString(r.toys()), Integer.toString(r.converged()),
                         Table.measurement(r.mean(), r.meanError()), fixed(r.pullMean(), 3), fixed(r.pullWidth(), 3),
                         fixed(r.coverage68(), 3));
-                points.add(new Linearity.Point(r.injected(), r.mean(), r.meanError()));
             }
             figure("injection", "Mean fitted " + poi + " against the injected value; error bars are errors of the mean.",
-                    () -> LinearityFigure.of(new Linearity(poi, points)));
+                    () -> LinearityFigure.of(linearity(poi, inj)));
             table(t.build(), "injection");
         }
         close();
+    }
+
+    /** What the injection figure draws: the mean fitted POI at every injected value, with its error. */
+    public static Linearity linearity(String poi, List<Results.InjectionValues> rows) {
+        List<Linearity.Point> points = new ArrayList<>();
+        for (Results.InjectionValues r : rows) points.add(new Linearity.Point(r.injected(), r.mean(), r.meanError()));
+        return new Linearity(poi, points);
     }
 
     /** Every variation's nominal, up and down templates, folded away: there are many. */

@@ -13,6 +13,38 @@ package plumb.engine.inference;
 public record InjectionLinearity(double slope, double slopeError, double offset, double offsetError) {
 
     /**
+     * The line through the injection summaries, the one the result file, the terminal and the
+     * report's figure all show: the points with a positive, finite error of the mean, or null when
+     * fewer than two distinct injected values have one.
+     */
+    public static InjectionLinearity through(java.util.List<InjectionSummary> summaries) {
+        double[] x = new double[summaries.size()], y = new double[x.length], e = new double[x.length];
+        for (int k = 0; k < x.length; k++) {
+            x[k] = summaries.get(k).injected();
+            y[k] = summaries.get(k).mean();
+            e[k] = summaries.get(k).meanError();
+        }
+        return throughUsable(x, y, e);
+    }
+
+    /**
+     * As {@link #through(java.util.List)} for points given as arrays: points without a positive,
+     * finite error are left out; null with fewer than two distinct injected values left.
+     */
+    public static InjectionLinearity throughUsable(double[] injected, double[] mean, double[] error) {
+        int n = 0;
+        double[] x = new double[injected.length], y = new double[x.length], e = new double[x.length];
+        for (int k = 0; k < injected.length; k++) {
+            if (!(error[k] > 0 && error[k] < Double.POSITIVE_INFINITY) || !Double.isFinite(mean[k])) continue;
+            x[n] = injected[k];
+            y[n] = mean[k];
+            e[n++] = error[k];
+        }
+        if (java.util.Arrays.stream(x, 0, n).distinct().count() < 2) return null;
+        return fit(java.util.Arrays.copyOf(x, n), java.util.Arrays.copyOf(y, n), java.util.Arrays.copyOf(e, n));
+    }
+
+    /**
      * @param injected points' injected values (at least two distinct)
      * @param mean     mean fitted values
      * @param error    errors of the means, positive and finite

@@ -68,13 +68,49 @@ public final class MemoryBudget {
 
     /** Refuses {@code bytes} for {@code what} when they exceed the heap still free. */
     public static void require(long bytes, String what) {
+        require(bytes, what, null);
+    }
+
+    /**
+     * As {@link #require(long, String)}, with {@code advice} (null: none) on how to need less,
+     * given before the advice to give Java more memory.
+     */
+    public static void require(long bytes, String what, String advice) {
         if (bytes < 0 || bytes > SHARE * available()) {
             throw new TooLargeException(String.format(Locale.ROOT,
                     "%s needs about %s of memory, more than the %s free in the Java heap (heap limit %s); "
-                            + "give Java more with -Xmx, e.g. PLUMB_JAVA_OPTS=-Xmx%dg",
+                            + "%sgive Java more with -Xmx, e.g. PLUMB_JAVA_OPTS=-Xmx%dg",
                     what, bytes < 0 ? "more than 8 EB" : human(bytes), human(available()),
-                    human(Runtime.getRuntime().maxMemory()), suggestGb(bytes)));
+                    human(Runtime.getRuntime().maxMemory()), advice == null ? "" : advice + ", or ", suggestGb(bytes)));
         }
+    }
+
+    // ---------------------------------------------------------------- toys and scan points
+
+    /**
+     * Bytes one toy's or scan point's result is taken to hold while a computation keeps them all
+     * (they are combined in index order, which is what makes results independent of threads and
+     * batches): a record and a value per parameter.
+     */
+    public static long taskResultBytes(plumb.engine.compile.CompiledModel m) {
+        return 256 + 8L * m.nAll;
+    }
+
+    /**
+     * Refuses {@code n} toys or scan points of model {@code m} whose results cannot all be kept in
+     * the heap still free; {@code what} names the request ("--toys 1000").
+     */
+    public static void requireTaskResults(long n, plumb.engine.compile.CompiledModel m, String what) {
+        require(times(n, taskResultBytes(m)), what);
+    }
+
+    /**
+     * Refuses an injection run whose toy fits cannot all be kept: {@code perValue} toys at each of
+     * {@code values} injected values, each fit with {@code pulls} nuisance pulls
+     * ({@link ToyFit#estimatedBytes}). {@code advice} says how to run fewer at once.
+     */
+    public static void requireInjectionToys(long perValue, int values, int pulls, String what, String advice) {
+        require(times(times(perValue, values), ToyFit.estimatedBytes(pulls)), what, advice);
     }
 
     /** Heap the JVM may still allocate: its limit less what is in use. */

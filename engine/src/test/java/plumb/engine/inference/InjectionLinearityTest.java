@@ -50,4 +50,19 @@ class InjectionLinearityTest {
         java.util.Arrays.fill(e, 0.1);
         assertThrows(IllegalArgumentException.class, () -> InjectionLinearity.fit(x, y, e));
     }
+
+    /**
+     * Points without a positive, finite error of the mean are left out, and what is left must hold
+     * two distinct injected values: (1, 2, 3) on y = 0.1 + 0.9x with the point at 2 lacking an
+     * error gives the line through the other two exactly.
+     */
+    @org.junit.jupiter.api.Test
+    void throughUsableLeavesOutPointsWithoutError() {
+        InjectionLinearity line = InjectionLinearity.throughUsable(new double[] {1, 2, 3}, new double[] {1.0, 5, 2.8},
+                new double[] {0.1, Double.NaN, 0.1});
+        assertEquals(0.9, line.slope(), 1e-12);
+        assertEquals(0.1, line.offset(), 1e-12);
+        org.junit.jupiter.api.Assertions.assertNull(InjectionLinearity.throughUsable(new double[] {1, 2},
+                new double[] {1, 2}, new double[] {0.1, 0}));
+    }
 }
