@@ -2,10 +2,11 @@ package plumb.cli;
 
 import picocli.CommandLine.Option;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.DataSets;
+import plumb.engine.inference.DataRequest;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.FitSettings;
 import plumb.engine.inference.MemoryBudget;
+import plumb.engine.inference.Problem;
 import plumb.engine.likelihood.DataSet;
 
 import java.util.ArrayList;
@@ -107,38 +108,70 @@ public final class FitOptions {
         return out;
     }
 
+    /** The --fix options resolved against the model, by name: what a {@link plumb.engine.inference.Problem} holds. */
+    public Map<String, Double> heldByName(CompiledModel m) {
+        Map<String, Double> out = new LinkedHashMap<>();
+        fixes(m).forEach((i, v) -> out.put(m.parameterNames[i], v));
+        return out;
+    }
+
+    /** The data asked for with --data, --asimov-poi and --asimov-from. */
+    public DataRequest dataRequest() {
+        return new DataRequest(data == DataChoice.asimov, asimovPoi, asimovFrom != AsimovFrom.prefit);
+    }
+
     /** The data set a command fits, with everything the result must report about it. */
-    public record Prepared(DataSet data, int[] held, double[] heldValues, FitSettings settings,
-                           FitResult asimovConditionalFit, Double asimovPoi) {
+    public record Prepared(Problem problem, FitResult asimovConditionalFit, Double asimovPoi) {
+        public DataSet data() {
+            return problem.data();
+        }
+
+        public int[] held() {
+            return problem.heldIndices();
+        }
+
+        public double[] heldValues() {
+            return problem.heldValues();
+        }
+
+        public FitSettings settings() {
+            return problem.settings();
+        }
+
         public String kind() {
-            return data.kind();
+            return problem.data().kind();
         }
     }
 
     /**
-     * Resolves the options on a model: the data set (observed, or Asimov at --asimov-poi, default
-     * {@code defaultAsimovPoi}), the held parameters and the fit settings.
+     * Resolves the options on a model (the engine's {@link DataRequest#forFit}): the data set
+     * (observed, or Asimov at --asimov-poi, default {@code defaultAsimovPoi}), the held parameters
+     * and the fit settings.
      */
     public Prepared prepare(CompiledModel m, double defaultAsimovPoi) {
-        Map<Integer, Double> f = fixes(m);
-        int[] held = f.keySet().stream().mapToInt(Integer::intValue).toArray();
-        double[] values = f.values().stream().mapToDouble(Double::doubleValue).toArray();
+        Map<String, Double> held = heldByName(m);
         FitSettings settings = settings();
-        if (data == DataChoice.observed) {
-            DataSet observed = DataSet.observed(m);
-            if (!observed.anyChannel()) {
-                throw new InputException("--data observed: every channel of the model is blinded; use --data asimov");
-            }
-            return new Prepared(observed, held, values, settings, null, null);
+        try {
+            DataRequest.FitData d = dataRequest().forFit(m, held, settings, defaultAsimovPoi);
+            return new Prepared(d.problem(), d.asimovConditionalFit(), d.asimovPoi());
+        } catch (DataRequest.Refused e) {
+            throw refused(e, null);
         }
-        if (m.poi < 0) throw new InputException("--data asimov: the model names no parameter of interest (poi)");
-        double mu = asimovPoi == null ? defaultAsimovPoi : asimovPoi;
-        if (!(mu >= m.lower[m.poi] && mu <= m.upper[m.poi])) {
-            throw new InputException(String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range [%s, %s]",
-                    mu, m.lower[m.poi], m.upper[m.poi]));
-        }
-        boolean postfit = asimovFrom != AsimovFrom.prefit;
-        DataSets.Generated g = DataSets.asimovAt(m, mu, held, values, postfit, settings);
-        return new Prepared(g.data(), held, values, settings, g.conditionalFit(), mu);
+    }
+
+    /**
+     * A data request the model refuses, in the words of the options that made it (exit status 2).
+     *
+     * @param file the model file, named where the model lacks what is asked (null: not named)
+     */
+    InputException refused(DataRequest.Refused e, java.nio.file.Path file) {
+        return new InputException(switch (e.reason()) {
+            case ALL_BLINDED -> "--data observed: every channel of the model is blinded; use --data asimov";
+            case NO_POI -> file != null ? file + ": the model names no parameter of interest (poi)"
+                    : "--data asimov: the model names no parameter of interest (poi)";
+            case POI_OUT_OF_RANGE -> String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range%s",
+                    e.value(), e.getMessage().substring(e.getMessage().indexOf(" [")));
+            case POI_HELD -> "--fix: " + e.getMessage().replace(" in a POI test", "");
+        });
     }
 }

@@ -1,27 +1,17 @@
 package plumb.cli;
 
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.DataSets;
-import plumb.engine.inference.FitResult;
+import plumb.engine.inference.DataRequest;
 import plumb.engine.inference.FitSettings;
 import plumb.engine.likelihood.DataSet;
 
 import java.nio.file.Path;
-import java.util.Locale;
-import java.util.Map;
 
 /**
- * The data sets of the POI tests (limit, discovery) resolved from the shared options:
- * the data tested (null for a blinded model fitted to "observed" data: no observed result),
- * the Asimov data set the expected results come from, and the held parameters.
- *
- * @param data       the data of the observed result, or null
- * @param kind       "observed" or "asimov": the data set the result is computed on
- * @param expected   the Asimov data set at {@code expectedPoi} (post-fit nuisances unless --asimov-from prefit)
- * @param generation data the toys' nuisance parameters are fitted to, or null for the nominal values
+ * The data sets of the POI tests (limit, discovery) resolved from the shared options by the
+ * engine ({@link DataRequest#forPoiTest}), with the held parameters and settings.
  */
-record PoiData(DataSet data, String kind, DataSet expected, double expectedPoi, DataSet generation, int[] held,
-               double[] heldValues, FitSettings settings, Double asimovPoi) {
+record PoiData(DataRequest.PoiTestData sets, int[] held, double[] heldValues, FitSettings settings) {
 
     /**
      * @param expectedPoi POI of the Asimov set of the expected result (0 for limits, 1 for discovery)
@@ -29,44 +19,42 @@ record PoiData(DataSet data, String kind, DataSet expected, double expectedPoi, 
      */
     static PoiData resolve(Path file, CompiledModel m, FitOptions o, double expectedPoi, double defaultAsimovPoi) {
         if (m.poi < 0) throw new InputException(file + ": the model names no parameter of interest (poi)");
-        Map<Integer, Double> f = o.fixes(m);
-        if (f.containsKey(m.poi)) throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held");
-        int[] held = f.keySet().stream().mapToInt(Integer::intValue).toArray();
-        double[] values = f.values().stream().mapToDouble(Double::doubleValue).toArray();
+        var held = o.heldByName(m);
         FitSettings settings = o.settings();
-        boolean postfit = o.asimovFrom != FitOptions.AsimovFrom.prefit;
-        DataSet expected = asimov(m, expectedPoi, held, values, postfit, settings);
-        DataSet observed = DataSet.observed(m);
-        if (o.data == FitOptions.DataChoice.asimov) {
-            double mu = o.asimovPoi == null ? defaultAsimovPoi : o.asimovPoi;
-            if (!(mu >= m.lower[m.poi] && mu <= m.upper[m.poi])) {
-                throw new InputException(String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range [%s, %s]",
-                        mu, m.lower[m.poi], m.upper[m.poi]));
-            }
-            DataSet data = mu == expectedPoi ? expected : asimov(m, mu, held, values, postfit, settings);
-            return new PoiData(data, "asimov", expected, expectedPoi, data, held, values, settings, mu);
+        try {
+            DataRequest.PoiTestData d = o.dataRequest().forPoiTest(m, held, settings, expectedPoi, defaultAsimovPoi);
+            return new PoiData(d, d.problem().heldIndices(), d.problem().heldValues(), settings);
+        } catch (DataRequest.Refused e) {
+            throw o.refused(e, file);
         }
-        if (m.anyBlinded()) {
-            // Blinded: no observed result; the toys' nuisances come from the unblinded channels, if any.
-            DataSet generation = postfit && observed.anyChannel() ? observed : null;
-            return new PoiData(null, "asimov", expected, expectedPoi, generation, held, values, settings, null);
-        }
-        return new PoiData(observed, "observed", expected, expectedPoi, observed, held, values, settings, null);
     }
 
-    private static DataSet asimov(CompiledModel m, double mu, int[] held, double[] values, boolean postfit,
-                                  FitSettings settings) {
-        DataSets.Generated g = DataSets.asimovAt(m, mu, held, values, postfit, settings);
-        FitResult c = g.conditionalFit();
-        if (c != null && !c.converged()) {
-            throw new ComputationException(String.format(Locale.ROOT,
-                    "the fit to the observed data with %s = %s that sets the Asimov data set did not converge (%s)",
-                    m.parameterNames[m.poi], mu, c.status()));
-        }
-        return g.data();
+    /** The data of the observed result, or null when blinded. */
+    DataSet data() {
+        return sets.data();
+    }
+
+    String kind() {
+        return sets.kind();
+    }
+
+    DataSet expected() {
+        return sets.expected();
+    }
+
+    double expectedPoi() {
+        return sets.expectedPoi();
+    }
+
+    DataSet generation() {
+        return sets.generation();
+    }
+
+    Double asimovPoi() {
+        return sets.asimovPoi();
     }
 
     boolean blinded() {
-        return data == null;
+        return sets.blinded();
     }
 }

@@ -3,7 +3,7 @@ package plumb.engine.api;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
 import plumb.engine.inference.AsymptoticUpperLimit;
-import plumb.engine.inference.DataSets;
+import plumb.engine.inference.DataRequest;
 import plumb.engine.inference.Discovery;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
@@ -26,7 +26,6 @@ import plumb.engine.model.ModelReader;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 
 /**
@@ -259,18 +258,8 @@ public final class Plumb {
 
     private static DataSet asimovAt(CompiledModel m, int[] held, double[] heldValues, FitSettings settings, double mu) {
         requirePoi(m);
-        if (!(mu >= m.lower[m.poi] && mu <= m.upper[m.poi])) {
-            throw new IllegalArgumentException(String.format(Locale.ROOT, "POI value %s is outside the range [%s, %s]",
-                    mu, m.lower[m.poi], m.upper[m.poi]));
-        }
-        DataSets.Generated g = DataSets.asimovAt(m, mu, held, heldValues, true, settings);
-        FitResult c = g.conditionalFit();
-        if (c != null && !c.converged()) {
-            throw new InferenceException(String.format(Locale.ROOT,
-                    "the fit to the observed data with %s = %s that sets the Asimov data set did not converge (%s)",
-                    m.parameterNames[m.poi], mu, c.status()));
-        }
-        return g.data();
+        DataRequest.requireInRange(m, mu);
+        return DataRequest.asimovAt(m, mu, held, heldValues, true, settings);
     }
 
     private static int threads() {
