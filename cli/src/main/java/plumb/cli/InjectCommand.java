@@ -1,6 +1,5 @@
 package plumb.cli;
 
-import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -12,6 +11,7 @@ import plumb.engine.inference.AsimovClosure;
 import plumb.engine.inference.DataSets;
 import plumb.engine.inference.FitSettings;
 import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.InjectionToyBatch;
 import plumb.engine.inference.InjectionToys;
 import plumb.engine.inference.ToyFit;
 import plumb.engine.inference.WorkRunner;
@@ -121,7 +121,7 @@ final class InjectCommand implements Callable<Integer> {
         InjectionRun c = compute(loaded, batch, table ? out : null);
         CompiledModel m = loaded.compiled();
         if (batch) {
-            c.toyFits().writePart(json, out);
+            ToyBatchFiles.write(c.toyFits(), json, out);
             if (table) {
                 out.printf(Locale.ROOT, "wrote toys %d..%d of each value to %s; merge the parts with 'plumb merge-toys'%n",
                         c.toyFits().first(), c.toyFits().first() + c.toyFits().count() - 1, json);
@@ -155,7 +155,7 @@ final class InjectCommand implements Callable<Integer> {
      * @param closures  per injected value the Asimov closure check (empty without --asimov)
      * @param summaries per injected value the toys' summary (empty in batch mode)
      */
-    record InjectionRun(CompiledModel model, InjectionToyFits toyFits, List<AsimovClosure> closures,
+    record InjectionRun(CompiledModel model, InjectionToyBatch toyFits, List<AsimovClosure> closures,
                     List<InjectionSummary> summaries) {
         boolean closureFailed() {
             return closures.stream().anyMatch(c -> !c.passed());
@@ -163,12 +163,7 @@ final class InjectCommand implements Callable<Integer> {
 
         /** The result file of docs/cli-contract.md. */
         ObjectNode toJson() {
-            List<ObjectNode> json = null;
-            if (!closures.isEmpty()) {
-                json = new ArrayList<>();
-                for (AsimovClosure c : closures) json.add(closureJson(model, c));
-            }
-            return toyFits.resultJson(json, summaries);
+            return InjectionJson.of(toyFits, model, closures, summaries);
         }
     }
 
@@ -235,7 +230,7 @@ final class InjectCommand implements Callable<Integer> {
             if (table != null) table.flush();
         }
 
-        List<InjectionToyFits.ValueFits> injections = new ArrayList<>();
+        List<InjectionToyBatch.ValueFits> injections = new ArrayList<>();
         long firstToy = first == null ? 0 : first;
         try (WorkRunner runner = ClusterOptions.runner(cluster, threadCount)) {
             for (int k = 0; k < mu.size(); k++) {
@@ -245,12 +240,12 @@ final class InjectCommand implements Callable<Integer> {
                     fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy,
                             perValue, runner, bar.callback());
                 }
-                injections.add(new InjectionToyFits.ValueFits(mu.get(k), fits));
+                injections.add(new InjectionToyBatch.ValueFits(mu.get(k), fits));
             }
         }
         String[] names = new String[pulled.length];
         for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
-        InjectionToyFits toyFits = new InjectionToyFits(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
+        InjectionToyBatch toyFits = new InjectionToyBatch(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
                 perValue, injections);
         return new InjectionRun(m, toyFits, closures, batch ? List.of() : toyFits.summaries());
     }
@@ -315,22 +310,12 @@ final class InjectCommand implements Callable<Integer> {
                 "run fewer toys, or batches (--first/--count, then 'plumb merge-toys')");
     }
 
-    /** Every setting the toys' results depend on; batches merge only when these are equal. */
+    /** Every setting the toys' results depend on (the engine's run identity); batches merge only when these are equal. */
     private ObjectNode runIdentity(ModelInput.Loaded loaded, CompiledModel m, Map<Integer, Double> fixes, FitSettings s) {
-        ObjectNode run = Json.object();
-        run.put("model", m.name);
-        run.put("modelSha256", sha256(loaded));
-        run.put("poi", m.parameterNames[m.poi]);
-        ArrayNode inj = run.putArray("injected");
-        for (double x : mu) inj.add(x);
-        run.put("from", from.name());
-        run.put("auxFluctuation", !noAuxFluctuation);
-        run.put("seed", seed);
-        ArrayNode f = run.putArray("fix");
-        fixes.forEach((i, v) -> f.add(m.parameterNames[i] + "=" + v));
-        run.put("optimizer", s.minimiser().name().toLowerCase(Locale.ROOT));
-        run.put("explicitMcStat", s.explicitGamma());
-        return run;
+        List<String> fixed = new ArrayList<>();
+        fixes.forEach((i, v) -> fixed.add(m.parameterNames[i] + "=" + v));
+        return InjectionToyBatch.runIdentity(m.name, sha256(loaded), m.parameterNames[m.poi], mu, from.name(),
+                !noAuxFluctuation, seed, fixed, s);
     }
 
     private static String sha256(ModelInput.Loaded loaded) {
@@ -342,29 +327,6 @@ final class InjectCommand implements Callable<Integer> {
         } catch (NoSuchAlgorithmException e) {
             throw new IllegalStateException(e); // every Java platform has SHA-256
         }
-    }
-
-    /** The closure's JSON: overall outcome, then every parameter not held. */
-    static ObjectNode closureJson(CompiledModel m, AsimovClosure c) {
-        ObjectNode o = Json.object();
-        Json.put(o, "injected", c.injected());
-        o.put("converged", c.fit().converged());
-        o.put("status", c.fit().status().name());
-        o.put("passed", c.passed());
-        o.put("tolerance", InjectionToys.CLOSURE_TOLERANCE);
-        Json.put(o, "maxDeviation", c.maxDeviation());
-        if (c.worstParameter() >= 0) o.put("worstParameter", m.parameterNames[c.worstParameter()]);
-        else o.putNull("worstParameter");
-        ArrayNode list = o.putArray("parameters");
-        for (int i = 0; i < m.nAll; i++) {
-            if (c.fit().held()[i]) continue;
-            ObjectNode p = list.addObject();
-            p.put("name", m.parameterNames[i]);
-            Json.put(p, "generating", c.generating()[i]);
-            Json.put(p, "fitted", c.fit().values()[i]);
-            Json.put(p, "deviation", c.fit().values()[i] - c.generating()[i]);
-        }
-        return o;
     }
 
     private static void printClosure(PrintWriter out, CompiledModel m, AsimovClosure c) {

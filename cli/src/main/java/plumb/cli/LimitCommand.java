@@ -13,7 +13,7 @@ import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.WorkRunner;
-import plumb.engine.inference.AsymptoticUpperLimit;
+import plumb.engine.inference.AsymptoticLimitWork;
 import plumb.engine.inference.ExpectedBands;
 import plumb.engine.inference.InferenceException;
 import plumb.engine.inference.LimitResult;
@@ -152,15 +152,15 @@ final class LimitCommand implements Callable<Integer> {
             if (toys == null) {
                 // Asymptotic limits: one model per thread or task, each computed sequentially (deterministic).
                 List<CompiledModel> compiled = new ArrayList<>();
-                List<AsymptoticWork.Inputs> inputs = new ArrayList<>();
+                List<AsymptoticLimitWork.Inputs> inputs = new ArrayList<>();
                 for (int i = 0; i < loaded.size(); i++) {
                     PoiData d = data.get(i);
                     compiled.add(loaded.get(i).compiled());
-                    inputs.add(new AsymptoticWork.Inputs(d.data(), d.expected(), d.settings(), d.held(), d.heldValues()));
+                    inputs.add(new AsymptoticLimitWork.Inputs(d.data(), d.expected(), d.settings(), d.held(), d.heldValues()));
                 }
-                List<AsymptoticWork.Limit> limits = runner.runEach(compiled, new AsymptoticWork(inputs, cl), null);
+                List<AsymptoticLimitWork.Limit> limits = runner.runEach(compiled, new AsymptoticLimitWork(inputs, cl), null);
                 for (int i = 0; i < loaded.size(); i++) {
-                    AsymptoticWork.Limit l = limits.get(i);
+                    AsymptoticLimitWork.Limit l = limits.get(i);
                     outcomes.add(new ModelLimit(loaded.get(i), xs[i], data.get(i), l.result(), l.error()));
                 }
             } else {

@@ -6,6 +6,7 @@ import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.InjectionToyBatch;
 
 import java.io.PrintWriter;
 import java.nio.file.Path;
@@ -35,10 +36,10 @@ final class MergeToysCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        InjectionToyFits c = InjectionToyFits.merge(parts);
+        InjectionToyBatch c = ToyBatchFiles.merge(parts);
         List<InjectionSummary> summaries = c.summaries();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(c.resultJson(null, summaries)), out);
+        if (json != null) Outputs.write(json, Json.write(InjectionJson.of(c, null, List.of(), summaries)), out);
         if (!"-".equals(json)) {
             out.printf("Merged %d part file(s): toys %d..%d of each injected value (model %s, seed %d)%n", parts.size(),
                     c.first(), c.first() + c.count() - 1, c.run().get("model").asText(), c.run().get("seed").asLong());

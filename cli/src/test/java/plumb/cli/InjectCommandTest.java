@@ -89,7 +89,7 @@ class InjectCommandTest {
             assertArrayEquals(Files.readAllBytes(whole), Files.readAllBytes(merged), mu);
         }
         JsonNode single = Json.mapper().readTree(dir.resolve("a.json").toFile());
-        assertEquals(InjectionToyFits.PART_FORMAT, single.get("format").asText());
+        assertEquals(plumb.engine.inference.InjectionToyBatch.FORMAT, single.get("format").asText());
         Path one = inject("one.json", "--mu", "1.5", "--toys", "20");
         JsonNode root = Json.mapper().readTree(one.toFile());
         for (String key : new String[] {"injected", "toys", "converged", "mean", "meanError", "pullMean", "pullWidth",

@@ -1,11 +1,6 @@
-package plumb.cli;
+package plumb.engine.inference;
 
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.inference.AsymptoticUpperLimit;
-import plumb.engine.inference.FitSettings;
-import plumb.engine.inference.InferenceException;
-import plumb.engine.inference.LimitResult;
-import plumb.engine.inference.WorkRunner;
 import plumb.engine.likelihood.DataSet;
 
 import java.io.Serializable;
@@ -13,16 +8,17 @@ import java.util.List;
 
 /**
  * The asymptotic limits of several models, one model per thread or cluster task
- * ({@link WorkRunner#runEach}): each model's data sets and settings as plain values.
+ * ({@link WorkRunner#runEach}): each model's data sets and settings as plain values. A limit that
+ * cannot be computed is an outcome with its error, so one model's failure leaves the others.
  */
-record AsymptoticWork(List<Inputs> inputs, double cl) implements WorkRunner.ModelWork<AsymptoticWork.Limit> {
+public record AsymptoticLimitWork(List<Inputs> inputs, double cl) implements WorkRunner.ModelWork<AsymptoticLimitWork.Limit> {
 
     /** What one model's limit needs besides the model. */
-    record Inputs(DataSet data, DataSet expected, FitSettings settings, int[] held, double[] heldValues)
+    public record Inputs(DataSet data, DataSet expected, FitSettings settings, int[] held, double[] heldValues)
             implements Serializable { }
 
     /** A model's limit, or why it has none. */
-    record Limit(LimitResult result, String error) implements Serializable { }
+    public record Limit(LimitResult result, String error) implements Serializable { }
 
     @Override
     public Limit run(CompiledModel m, int index) {
