@@ -215,7 +215,7 @@ final class ReportJob {
         }
         fit.threadCount();
         plumb.engine.inference.MemoryBudget.require(plumb.engine.inference.MemoryBudget.times(
-                (long) toys * INJECTED.length, FitOptions.bytesPerTask(m)), "--toys " + toys + " (per injected value, " + INJECTED.length + " values)");
+                (long) toys * INJECTED.length, plumb.engine.inference.MemoryBudget.taskResultBytes(m)), "--toys " + toys + " (per injected value, " + INJECTED.length + " values)");
     }
 
     /** Refuses, before any work, a --out folder that holds something other than a previous report or the models. */

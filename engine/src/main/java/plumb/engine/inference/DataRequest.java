@@ -41,6 +41,7 @@ public record DataRequest(boolean asimov, Double asimovPoi, boolean postfit) {
 
     /** A request refused on a model, with why (the command line words it per option). */
     public static final class Refused extends IllegalArgumentException {
+        private static final long serialVersionUID = 1L;
         private final Reason reason;
         private final double value;
 
