@@ -29,9 +29,12 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
  */
 class PostfitCovarianceTest {
 
-    /** 0: nothing held beyond the model; 1: a nuisance parameter and an MC-statistics γ held as well. */
+    /**
+     * 0: nothing held beyond the model; 1: a nuisance parameter and an MC-statistics γ held as
+     * well; 2: the explicit layout (γ among the fit's variables).
+     */
     @ParameterizedTest
-    @ValueSource(ints = {0, 1})
+    @ValueSource(ints = {0, 1, 2})
     void blockFormEqualsTheDenseInverse(int variant) {
         CompiledModel m = ModelCompiler.compile(SyntheticModels.medium(1));
         int[] held = new int[0];
@@ -41,7 +44,8 @@ class PostfitCovarianceTest {
             held = new int[] {theta, gamma};
             heldValues = new double[] {0.2, 1.01};
         }
-        Fitter fitter = new Fitter(m, DataSet.observed(m), FitSettings.defaults(), held, heldValues);
+        FitSettings settings = variant == 2 ? FitSettings.defaults().withExplicitGamma(true) : FitSettings.defaults();
+        Fitter fitter = new Fitter(m, DataSet.observed(m), settings, held, heldValues);
         FitResult best = fitter.fit();
         assertTrue(best.converged(), best.status().toString());
         double[] dense = Covariances.full(fitter.likelihood(), best);

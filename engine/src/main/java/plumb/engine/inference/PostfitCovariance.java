@@ -84,9 +84,27 @@ public final class PostfitCovariance implements java.io.Serializable {
             // a free γ without curvature: the full Hessian is not positive definite
             if (freeGamma[g] && !(d[g] > 0)) return null;
         }
-        double[] s = profiledInverse(a, nP, held, d, mixed, stride, gammaParams, freeGamma);
+        double[] s = fitCovarianceIsS(m, best, nll.explicitGamma(), freeGamma) ? best.covariance()
+                : profiledInverse(a, nP, held, d, mixed, stride, gammaParams, freeGamma);
         if (s == null) return null;
         return new PostfitCovariance(nP, m.nAll, held, s, a, d, mixed, stride, gammaParams);
+    }
+
+    /**
+     * Whether the fit's own covariance already is S, which saves an nParams³ inversion: with the
+     * explicit layout it is the θ block of the full inverse; with the profiled one the fit's Hessian
+     * is A minus the Schur terms of the γ inside their ranges, so S when every free γ is inside.
+     */
+    private static boolean fitCovarianceIsS(CompiledModel m, FitResult best, boolean explicit, boolean[] freeGamma) {
+        double[] cov = best.covariance();
+        if (cov == null || cov.length != m.nParams * m.nParams) return false;
+        if (explicit) return true;
+        for (int g = 0; g < freeGamma.length; g++) {
+            int i = m.nParams + g;
+            double v = best.values()[i];
+            if (freeGamma[g] && !(v > m.lower[i] && v < m.upper[i])) return false;
+        }
+        return true;
     }
 
     /**
