@@ -134,8 +134,7 @@ public final class EventBuild {
         for (SampleSpec s : spec.samples()) {
             passes++;
             for (VariationSpec v : s.variations()) {
-                if (v.source() == Source.OBSERVABLE || v.source() == Source.EVENTS) passes += (v.up() != null || v.upEvents() != null ? 1 : 0)
-                        + (v.down() != null || v.downEvents() != null ? 1 : 0);
+                if (v.source() == Source.EVENTS) passes += (v.upEvents() != null ? 1 : 0) + (v.downEvents() != null ? 1 : 0);
             }
         }
         List<Region> dataRegions = spec.regions().stream().filter(r -> !r.blinded()).toList();
@@ -145,15 +144,16 @@ public final class EventBuild {
         for (SampleSpec s : spec.samples()) {
             String view = view(s.events());
             nominal.put(s, view);
-            List<Region> regions = assembly.regions(s);
-            checkRegions(view, regions, s.events().path());
-            checkNumber(view, s.weight());
+            List<Pending> checks = new ArrayList<>();
+            regionChecks(checks, assembly.regions(s), s.events().path());
+            checks.add(new Pending(s.weight(), false, null));
             for (VariationSpec v : s.variations()) {
                 if (v.source() == Source.WEIGHTS || v.source() == Source.OBSERVABLE) {
-                    if (v.up() != null) checkNumber(view, v.up());
-                    if (v.down() != null) checkNumber(view, v.down());
+                    if (v.up() != null) checks.add(new Pending(v.up(), false, null));
+                    if (v.down() != null) checks.add(new Pending(v.down(), false, null));
                 }
             }
+            checkAll(view, checks);
         }
         Map<Events, String> alternative = new LinkedHashMap<>();
         for (SampleSpec s : spec.samples()) {
@@ -162,15 +162,19 @@ public final class EventBuild {
                     if (e == null) continue;
                     String view = view(e);
                     alternative.put(e, view);
-                    checkRegions(view, assembly.regions(s, v), e.path());
-                    checkNumber(view, s.weight());
+                    List<Pending> checks = new ArrayList<>();
+                    regionChecks(checks, assembly.regions(s, v), e.path());
+                    checks.add(new Pending(s.weight(), false, null));
+                    checkAll(view, checks);
                 }
             }
         }
         String dataView = null;
         if (spec.data() != null && !dataRegions.isEmpty()) {
             dataView = view(spec.data());
-            checkRegions(dataView, dataRegions, spec.data().path());
+            List<Pending> checks = new ArrayList<>();
+            regionChecks(checks, dataRegions, spec.data().path());
+            checkAll(dataView, checks);
         }
         for (SampleSpec s : spec.samples()) {
             String view = nominal.get(s);
@@ -182,23 +186,35 @@ public final class EventBuild {
                 if (v.up() != null) weights.add(v.up().sql());
                 if (v.down() != null) weights.add(v.down().sql());
             }
-            progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
-                    ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : ""));
+            // observable-based variations ride along on the same pass: the same table, the same selection
             HistogramJob job = new HistogramJob(regions, observables(regions), weights);
+            List<Expr> shifted = new ArrayList<>();
+            for (VariationSpec v : s.variations()) {
+                if (v.source() != Source.OBSERVABLE) continue;
+                for (Expr side : new Expr[] {v.up(), v.down()}) {
+                    if (side == null) continue;
+                    job = job.plus(assembly.regions(s, v), side.sql());
+                    shifted.add(side);
+                }
+            }
+            progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
+                    ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : "")
+                    + (shifted.isEmpty() ? "" : ", " + shifted.size() + " shifted observable" + (shifted.size() > 1 ? "s" : "")));
             HistogramJob.Sums sums = job.run(spark, view);
             refuseBad(s.name(), regions, weights, sums, s.events().path());
-            assembly.nominal(s, job, sums, sums.flow());
+            assembly.nominal(s, regions, job, sums, sums.flow());
+            int entry = regions.size();
             for (VariationSpec v : s.variations()) {
                 if (v.source() == Source.OBSERVABLE) {
                     List<Region> vr = assembly.regions(s, v);
                     double[][] up = null, down = null;
                     if (v.up() != null) {
-                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " up (observable)");
-                        up = observablePass(s, v.up(), vr, view);
+                        up = shiftedEntries(s, v.up(), job, sums, entry, vr);
+                        entry += vr.size();
                     }
                     if (v.down() != null) {
-                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " down (observable)");
-                        down = observablePass(s, v.down(), vr, view);
+                        down = shiftedEntries(s, v.down(), job, sums, entry, vr);
+                        entry += vr.size();
                     }
                     assembly.variation(s, v, vr, up, down);
                 } else if (v.source() == Source.EVENTS) {
@@ -226,13 +242,14 @@ public final class EventBuild {
         return assembly;
     }
 
-    private double[][] observablePass(SampleSpec s, Expr observable, List<Region> regions, String view) {
-        List<String> obs = new ArrayList<>();
-        for (int r = 0; r < regions.size(); r++) obs.add(observable.sql());
-        HistogramJob job = new HistogramJob(regions, obs, List.of(s.weight().sql()));
-        HistogramJob.Sums sums = job.run(spark, view);
-        refuseBadObservable(s.name() + " (" + observable.path() + ")", regions, sums, observable.path());
-        return perRegion(job, sums);
+    /** The histograms of one side of an observable variation: entries {@code from ..} of the sample's pass. */
+    private double[][] shiftedEntries(SampleSpec s, Expr observable, HistogramJob job, HistogramJob.Sums sums, int from,
+                                      List<Region> regions) {
+        refuseBadObservable(s.name() + " (" + observable.path() + ")", regions, sums, from, observable.path());
+        int[] off = job.offsets();
+        double[][] out = new double[regions.size()][];
+        for (int r = 0; r < out.length; r++) out[r] = sums.region(sums.sums()[0], off, from + r, regions.get(r).bins());
+        return out;
     }
 
     private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
@@ -275,8 +292,13 @@ public final class EventBuild {
     }
 
     private void refuseBadObservable(String sample, List<Region> regions, HistogramJob.Sums sums, String path) {
+        refuseBadObservable(sample, regions, sums, 0, path);
+    }
+
+    /** Entries {@code from ..} of the pass are {@code regions}. */
+    private void refuseBadObservable(String sample, List<Region> regions, HistogramJob.Sums sums, int from, String path) {
         for (int r = 0; r < regions.size(); r++) {
-            long bad = sums.badObservable()[r];
+            long bad = sums.badObservable()[from + r];
             if (bad > 0) {
                 throw new InputException(String.format(Locale.ROOT,
                         "%s: %s: region %s: the observable is NaN or null in %d selected event%s of %s; nothing written",
@@ -300,23 +322,39 @@ public final class EventBuild {
         return name;
     }
 
-    private void checkRegions(String view, List<Region> regions, String tablesPath) {
+    /** An expression to check against a table: a step (boolean) or a number, and the tables' key for the message. */
+    private record Pending(Expr expr, boolean bool, String tablesPath) { }
+
+    private static void regionChecks(List<Pending> checks, List<Region> regions, String tablesPath) {
         for (Region r : regions) {
-            for (Step st : r.steps()) check(view, st.keep(), true, tablesPath);
-            checkNumber(view, r.observable(), tablesPath);
+            for (Step st : r.steps()) checks.add(new Pending(st.keep(), true, tablesPath));
+            checks.add(new Pending(r.observable(), false, tablesPath));
         }
     }
 
-    private void checkNumber(String view, Expr e) {
-        check(view, e, false, null);
-    }
-
-    private void checkNumber(String view, Expr e, String tablesPath) {
-        check(view, e, false, tablesPath);
+    /**
+     * Checks a table's expressions in one analysis by Spark (each analysis costs about as much as a
+     * small pass); only when that fails are they analysed one by one, in order, so that the error
+     * names its key.
+     */
+    private void checkAll(String view, List<Pending> checks) {
+        StructField[] fields;
+        try {
+            fields = spark.table(view).selectExpr(checks.stream().map(p -> p.expr().sql()).toArray(String[]::new))
+                    .schema().fields();
+        } catch (Exception x) {   // analysed again one by one below
+            fields = null;
+        }
+        if (fields != null && fields.length == checks.size()) {
+            for (int i = 0; i < fields.length; i++) checkType(checks.get(i), fields[i].dataType());
+            return;
+        }
+        for (Pending p : checks) check(view, p);
     }
 
     /** Spark analyses the expression against the table now; an error names the key, the tables and Spark's message. */
-    private void check(String view, Expr e, boolean bool, String tablesPath) {
+    private void check(String view, Pending p) {
+        Expr e = p.expr();
         DataType type;
         try {
             StructField[] fields = spark.table(view).selectExpr(e.sql()).schema().fields();
@@ -326,13 +364,18 @@ public final class EventBuild {
         } catch (InputException x) {
             throw x;
         } catch (Exception x) {   // Spark's analysis errors are checked exceptions in Java's eyes
-            throw new InputException(spec.file() + ": " + e.path() + ": " + on(tablesPath) + "Spark: " + firstLine(x));
+            throw new InputException(spec.file() + ": " + e.path() + ": " + on(p.tablesPath()) + "Spark: " + firstLine(x));
         }
-        if (bool && !(type instanceof BooleanType)) {
+        checkType(p, type);
+    }
+
+    private void checkType(Pending p, DataType type) {
+        Expr e = p.expr();
+        if (p.bool() && !(type instanceof BooleanType)) {
             throw new InputException(spec.file() + ": " + e.path() + ": '" + e.sql() + "' is of type "
                     + type.simpleString() + ", expected a boolean");
         }
-        if (!bool && !(type instanceof NumericType)) {
+        if (!p.bool() && !(type instanceof NumericType)) {
             throw new InputException(spec.file() + ": " + e.path() + ": '" + e.sql() + "' is of type "
                     + type.simpleString() + ", expected a number");
         }

@@ -26,17 +26,53 @@ import java.util.Map;
  * <p>The cut flow (weighted with the first weight) and the counts of NaN/null observables and of
  * NaN/infinite/null weights come from the same pass.
  *
- * @param regions     the regions filled, with the observable expression of each (an observable
- *                    variation passes its own)
- * @param observables SQL of each region's observable, same order
+ * <p>The histograms filled are "entries": a region with an observable. A region may come back
+ * with another observable (an observable-based variation): its selection is evaluated once, and
+ * such an entry sums only the first weight.
+ *
+ * @param regions     the region of each entry
+ * @param observables SQL of each entry's observable, same order
  * @param weights     SQL of the weight expressions summed; the first also weights the cut flow
+ * @param weightsUsed per entry, how many of the weights (from the first) it sums
  */
-record HistogramJob(List<Region> regions, List<String> observables, List<String> weights) {
+record HistogramJob(List<Region> regions, List<String> observables, List<String> weights, int[] weightsUsed) {
+
+    /** Every region once with the given observables, summing every weight. */
+    HistogramJob(List<Region> regions, List<String> observables, List<String> weights) {
+        this(regions, observables, weights, filled(regions.size(), weights.size()));
+    }
+
+    private static int[] filled(int n, int value) {
+        int[] a = new int[n];
+        java.util.Arrays.fill(a, value);
+        return a;
+    }
+
+    /** This job with more entries: {@code more} binned in {@code observable}, summing the first weight. */
+    HistogramJob plus(List<Region> more, String observable) {
+        List<Region> r = new ArrayList<>(regions);
+        List<String> o = new ArrayList<>(observables);
+        int[] used = java.util.Arrays.copyOf(weightsUsed, weightsUsed.length + more.size());
+        for (int i = 0; i < more.size(); i++) {
+            r.add(more.get(i));
+            o.add(observable);
+            used[weightsUsed.length + i] = 1;
+        }
+        return new HistogramJob(r, o, weights, used);
+    }
+
+    /** The distinct regions in order of first appearance: one depth column and one cut flow each. */
+    List<Region> distinctRegions() {
+        List<Region> out = new ArrayList<>();
+        for (Region r : regions) if (!out.contains(r)) out.add(r);
+        return out;
+    }
 
     /**
-     * Per weight expression k: sums[k][cell] of w and squares[k][cell] of w², the raw entries per
-     * cell, per region the selected events with a NaN or null observable, per weight the selected
-     * events where it is NaN, infinite or null, and the cut flow.
+     * Per weight expression k: sums[k][cell] of w and squares[k][cell] of w² (zero where an entry
+     * does not sum weight k), the raw entries per cell, per entry the selected events with a NaN or
+     * null observable, per weight the selected events where it is NaN, infinite or null, and the
+     * cut flow of each distinct region.
      */
     record Sums(double[][] sums, double[][] squares, long[] entries, long[] badObservable, long[] badWeights,
                 CutFlow.Counts flow) {
@@ -49,7 +85,7 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
         }
     }
 
-    /** First cell of each region. */
+    /** First cell of each entry. */
     int[] offsets() {
         int[] o = new int[regions.size() + 1];
         for (int r = 0; r < regions.size(); r++) o[r + 1] = o[r] + regions.get(r).bins();
@@ -69,35 +105,42 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
         return s.append(" ELSE ").append(steps.size()).append(" END").toString();
     }
 
-    /** The projection's SQL over {@code table}, and how the partitions' loop reads its rows. */
+    /** How the partitions' loop reads the projection's rows; fills {@code distinct} with the distinct observables. */
     Tally.Layout layout(Map<String, Integer> distinct) {
+        List<Region> depths = distinctRegions();
         int n = regions.size();
-        int[] steps = new int[n], observableOf = new int[n];
+        int[] steps = new int[depths.size()], depthOf = new int[n], observableOf = new int[n];
+        for (int d = 0; d < depths.size(); d++) steps[d] = depths.get(d).steps().size();
         double[][] edges = new double[n][];
         boolean[] fold = new boolean[n];
         for (int r = 0; r < n; r++) {
-            steps[r] = regions.get(r).steps().size();
+            depthOf[r] = depths.indexOf(regions.get(r));
             edges[r] = regions.get(r).edges().clone();
             fold[r] = regions.get(r).outside() == Outside.FOLD;
             observableOf[r] = distinct.computeIfAbsent(observables.get(r), k -> distinct.size());
         }
-        return new Tally.Layout(steps, edges, fold, observableOf, offsets(), distinct.size(), weights.size());
+        return new Tally.Layout(steps, depthOf, edges, fold, observableOf, weightsUsed.clone(), offsets(), distinct.size(),
+                weights.size());
     }
 
+    /** The projection's SQL over {@code table}: depth per distinct region, then the observables, then the weights. */
     String sql(String table, Tally.Layout layout, Map<String, Integer> distinct) {
-        int n = regions.size();
+        List<Region> depths = distinctRegions();
         List<String> inner = new ArrayList<>(List.of("*"));
-        for (int r = 0; r < n; r++) inner.add(depth(regions.get(r)) + " AS __plumb_d" + r);
+        for (int d = 0; d < depths.size(); d++) inner.add(depth(depths.get(d)) + " AS __plumb_d" + d);
         List<String> outer = new ArrayList<>();
         List<String> selected = new ArrayList<>(), passedOne = new ArrayList<>();
-        for (int r = 0; r < n; r++) {
-            outer.add("__plumb_d" + r);
-            selected.add("__plumb_d" + r + " = " + layout.steps()[r]);
-            passedOne.add("__plumb_d" + r + " >= 1");
+        for (int d = 0; d < depths.size(); d++) {
+            outer.add("__plumb_d" + d);
+            selected.add("__plumb_d" + d + " = " + layout.steps()[d]);
+            passedOne.add("__plumb_d" + d + " >= 1");
         }
         for (Map.Entry<String, Integer> o : distinct.entrySet()) {
             List<String> users = new ArrayList<>();
-            for (int r = 0; r < n; r++) if (layout.observableOf()[r] == o.getValue()) users.add(selected.get(r));
+            for (int r = 0; r < regions.size(); r++) {
+                String sel = selected.get(layout.depthOf()[r]);
+                if (layout.observableOf()[r] == o.getValue() && !users.contains(sel)) users.add(sel);
+            }
             outer.add(onlyWhen(users, o.getKey()) + " AS __plumb_x" + o.getValue());
         }
         for (int k = 0; k < weights.size(); k++) {

@@ -53,10 +53,12 @@ final class ModelAssembly {
         return regions(s).stream().filter(r -> v.regions() == null || v.regions().contains(r.name())).toList();
     }
 
-    /** The nominal pass of a sample: yields, Σw², the weight variations (in the job's weight order) and its cut flow. */
-    void nominal(SampleSpec s, HistogramJob job, HistogramJob.Sums sums, CutFlow.Counts flow) {
+    /**
+     * The nominal pass of a sample: yields, Σw², the weight variations (in the job's weight order)
+     * and its cut flow; {@code regions} are the pass's first entries.
+     */
+    void nominal(SampleSpec s, List<Region> regions, HistogramJob job, HistogramJob.Sums sums, CutFlow.Counts flow) {
         int[] off = job.offsets();
-        List<Region> regions = job.regions();
         for (int r = 0; r < regions.size(); r++) {
             Region region = regions.get(r);
             int n = region.bins();

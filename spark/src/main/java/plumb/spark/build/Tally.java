@@ -15,37 +15,40 @@ final class Tally implements Serializable {
     private static final long serialVersionUID = 1L;
 
     /**
-     * What the loop needs to know, shipped to the tasks. Row columns: the depth of each region,
-     * then each distinct observable, then each weight.
+     * What the loop needs to know, shipped to the tasks. Row columns: the depth of each distinct
+     * region, then each distinct observable, then each weight. An entry is a region binned in one
+     * observable.
      *
-     * @param steps        steps per region (depth == steps: selected)
-     * @param edges        bin edges per region
-     * @param fold         per region: outside values go to the end bins (else dropped)
-     * @param observableOf per region: which distinct observable column it bins
-     * @param offsets      first cell of each region, and the number of cells last
+     * @param steps        steps per distinct region (depth == steps: selected)
+     * @param depthOf      per entry: its region's depth column
+     * @param edges        bin edges per entry
+     * @param fold         per entry: outside values go to the end bins (else dropped)
+     * @param observableOf per entry: which distinct observable column it bins
+     * @param weightsUsed  per entry: how many weights (from the first) it sums
+     * @param offsets      first cell of each entry, and the number of cells last
      * @param observables  number of distinct observable columns
      * @param weights      number of weight columns
      */
-    record Layout(int[] steps, double[][] edges, boolean[] fold, int[] observableOf, int[] offsets, int observables,
-                  int weights) implements Serializable {
+    record Layout(int[] steps, int[] depthOf, double[][] edges, boolean[] fold, int[] observableOf, int[] weightsUsed,
+                  int[] offsets, int observables, int weights) implements Serializable {
     }
 
     private final Layout layout;
     private final double[] sum, square;     // [cell * weights + k]
     private final long[] entries;           // [cell]
-    private final long[] badObservable;     // [region]
+    private final long[] badObservable;     // [entry]
     private final long[] badWeight;         // [k]
-    private final double[][] stepWeighted;  // [region][step], cumulative
+    private final double[][] stepWeighted;  // [distinct region][step], cumulative
     private final long[][] stepRaw;
     private transient double[] w;           // one event's weights
 
     Tally(Layout layout) {
         this.layout = layout;
-        int regions = layout.steps().length, cells = layout.offsets()[regions];
+        int regions = layout.steps().length, n = layout.depthOf().length, cells = layout.offsets()[n];
         sum = new double[cells * layout.weights()];
         square = new double[sum.length];
         entries = new long[cells];
-        badObservable = new long[regions];
+        badObservable = new long[n];
         badWeight = new long[layout.weights()];
         stepWeighted = new double[regions][];
         stepRaw = new long[regions][];
@@ -89,19 +92,21 @@ final class Tally implements Serializable {
             if (!Double.isFinite(v)) badWeight[k]++;
             w[k] = v;
         }
-        for (int r = 0; r < regions; r++) {
+        int[] depthOf = layout.depthOf();
+        for (int e = 0; e < depthOf.length; e++) {
+            int r = depthOf[e];
             if (row.getInt(r) != layout.steps()[r]) continue;
-            double x = value(row, regions + layout.observableOf()[r]);
+            double x = value(row, regions + layout.observableOf()[e]);
             if (Double.isNaN(x)) {
-                badObservable[r]++;
+                badObservable[e]++;
                 continue;
             }
-            int b = bin(x, layout.edges()[r], layout.fold()[r]);
+            int b = bin(x, layout.edges()[e], layout.fold()[e]);
             if (b < 0) continue;
-            int cell = layout.offsets()[r] + b;
+            int cell = layout.offsets()[e] + b;
             entries[cell]++;
             int base = cell * nw;
-            for (int k = 0; k < nw; k++) {
+            for (int k = 0, used = layout.weightsUsed()[e]; k < used; k++) {
                 double v = w[k];
                 sum[base + k] += v;
                 square[base + k] += v * v;

@@ -35,7 +35,7 @@ class BuildCommandTest {
         Path good = Files.writeString(dir.resolve("good.json"), spec.formatted("w"));
         StringWriter out = new StringWriter(), err = new StringWriter();
         int code = Main.execute(new String[] {"build", good.toString(), "--out", dir.resolve("m.json").toString(),
-                "--spark", "local[2]"}, new PrintWriter(out), new PrintWriter(err));
+                "--spark", "local[2]", "--spark-timeout", "600"}, new PrintWriter(out), new PrintWriter(err));
         assertEquals(0, code, err.toString());
         Model m = ModelReader.read(dir.resolve("m.json"));
         assertArrayEquals(new double[] {100, 120, 140}, m.channels().get(0).edges());
@@ -45,7 +45,7 @@ class BuildCommandTest {
         Path bad = Files.writeString(dir.resolve("bad.json"), spec.formatted("weight_that_is_not_there"));
         StringWriter err2 = new StringWriter();
         code = Main.execute(new String[] {"build", bad.toString(), "--out", dir.resolve("b.json").toString(),
-                "--spark", "local[2]"}, new PrintWriter(new StringWriter()), new PrintWriter(err2));
+                "--spark", "local[2]", "--spark-timeout", "600"}, new PrintWriter(new StringWriter()), new PrintWriter(err2));
         assertEquals(2, code, err2.toString());
         String line = err2.toString().lines().filter(l -> l.startsWith("plumb build: ")).findFirst().orElse("");
         assertTrue(line.contains("bad.json: samples[0].weight: Spark: ") && line.contains("weight_that_is_not_there"), err2.toString());

@@ -51,7 +51,7 @@ class EventBuildTest {
 
     @BeforeAll
     static void start() throws IOException {
-        runner = SparkRunner.open("local[2]", 120);
+        runner = SparkRunner.open("local[2]", 600);   // generous: the machine running the tests may be busy
         spark = SparkSession.builder().getOrCreate();
         Path spec = fixture(shared);
         outcome = EventBuild.build(BuildSpecReader.read(spec), spark, shared.resolve("model.json"),
