@@ -2,6 +2,7 @@ package plumb.cli;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
+import plumb.cli.table.Escape;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
@@ -76,7 +77,7 @@ final class CheckCommand implements Callable<Integer> {
     private int status(List<String> warnings) {
         String failure = failure(warnings);
         if (failure == null) return ExitCodes.OK;
-        spec.commandLine().getErr().println("plumb check: " + failure);
+        spec.commandLine().getErr().println("plumb check: " + Escape.controls(failure));
         spec.commandLine().getErr().flush();
         return ExitCodes.FAILED;
     }

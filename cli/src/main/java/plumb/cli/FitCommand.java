@@ -3,6 +3,7 @@ package plumb.cli;
 import com.fasterxml.jackson.databind.node.ArrayNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
+import plumb.cli.table.Escape;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
@@ -77,7 +78,7 @@ final class FitCommand implements Callable<Integer> {
             ProfileIntervals.print(out, m, r, profile);
             printOtherMinima(out, m, r);
         }
-        for (String w : checkWarnings(m, r)) spec.commandLine().getErr().println("plumb fit: warning: " + w);
+        for (String w : checkWarnings(m, r)) spec.commandLine().getErr().println("plumb fit: warning: " + Escape.controls(w));
         if (!r.converged()) {
             spec.commandLine().getErr().printf("plumb fit: the fit did not converge (%s)%n", r.status());
             return ExitCodes.FAILED;

@@ -2,6 +2,7 @@ package plumb.cli;
 
 import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
+import plumb.cli.table.Escape;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
@@ -143,7 +144,9 @@ final class InjectCommand implements Callable<Integer> {
             Outputs.write(json, Json.write(root), out);
         }
         if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
-        for (String f : failures) err.println("plumb inject: " + f + (f.startsWith("the Asimov") && table ? " (see above)" : ""));
+        for (String f : failures) {
+            err.println("plumb inject: " + Escape.controls(f) + (f.startsWith("the Asimov") && table ? " (see above)" : ""));
+        }
         err.flush();
         return failures.isEmpty() ? ExitCodes.OK : ExitCodes.FAILED;
     }

@@ -17,12 +17,13 @@ import java.util.Set;
 /**
  * Checks shared by every command before it runs: no output file may be one of the command's
  * input files (a model, a toy part) or another output, compared as real files (links and
- * relative names resolved). "-" (standard input or output) is never compared.
+ * relative names resolved), and none may lie below a file ("not a directory", found before the
+ * computation rather than after it). "-" (standard input or output) is never compared.
  */
 final class OutputChecks {
 
     /** Options that name a file or folder a command writes. */
-    static final Set<String> OUTPUTS = Set.of("--json", "--csv", "--out", "--log");
+    static final Set<String> OUTPUTS = Set.of("--json", "--csv", "--out", "--log", "--figure");
 
     private OutputChecks() {
     }
@@ -45,6 +46,12 @@ final class OutputChecks {
         }
         for (int k = 0; k < outputs.size(); k++) {
             Path out = outputs.get(k);
+            Path blocking = fileAmongParents(out);
+            if (blocking != null) {
+                // found now, not after the computation: the write would fail the same way
+                throw new CommandLine.ParameterException(cl, "cannot write " + out + ": not a directory ("
+                        + blocking + " is a file; given to " + names.get(k) + ")");
+            }
             for (Path in : inputs) {
                 if (sameFile(out, in) || Files.isDirectory(in) && readFrom(out, in)) {
                     throw new CommandLine.ParameterException(cl, names.get(k) + " " + out + ": is the input file "
@@ -59,6 +66,14 @@ final class OutputChecks {
                 }
             }
         }
+    }
+
+    /** The nearest existing parent folder of {@code out} when it is no folder (a file), else null. */
+    private static Path fileAmongParents(Path out) {
+        for (Path p = out.toAbsolutePath().normalize().getParent(); p != null; p = p.getParent()) {
+            if (Files.exists(p)) return Files.isDirectory(p) ? null : p;
+        }
+        return null;
     }
 
     private static void addPaths(Object value, List<Path> into) {

@@ -2,6 +2,7 @@ package plumb.cli;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import picocli.CommandLine.Command;
+import plumb.cli.table.Escape;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
@@ -80,8 +81,10 @@ final class ReportCommand implements Callable<Integer> {
         headline(dir.resolve("json"), out);
         out.printf(Locale.ROOT, "Report written to %s (%s)%n", o.index(), duration((System.nanoTime() - t0) * 1e-9));
         out.flush();
-        for (RunSummary.Failure f : s.failures()) err.printf("plumb %s: %s failed: %s%n", command, f.section(), f.message());
-        for (String f : s.nonConverged()) err.printf("plumb %s: did not converge: %s%n", command, f);
+        for (RunSummary.Failure f : s.failures()) {
+            err.printf("plumb %s: %s failed: %s%n", command, f.section(), Escape.controls(String.valueOf(f.message())));
+        }
+        for (String f : s.nonConverged()) err.printf("plumb %s: did not converge: %s%n", command, Escape.controls(f));
         err.flush();
         return s.anyFailure() ? ExitCodes.FAILED : ExitCodes.OK;
     }

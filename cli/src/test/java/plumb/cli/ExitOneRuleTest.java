@@ -93,7 +93,7 @@ class ExitOneRuleTest {
     /**
      * Every command that takes a model and --json, taken from picocli's model of Main (so a new
      * command is included): run on a model whose fit fails, each that exits 1 must leave its
-     * result file with the failure.
+     * result file with the failure, and write the same to standard output with --json -.
      */
     @Test
     void everyModelCommandThatExitsOneLeavesItsFailureInItsResultFile() throws IOException {
@@ -119,6 +119,12 @@ class ExitOneRuleTest {
             String failure = j.path("failure").asText("");
             assertFalse(failure.isEmpty(), command + ": " + j);
             assertTrue(r.err().contains(failure), command + ": " + r.err());
+
+            // '-' is standard output wherever --json is taken: the same result there, and nothing else
+            args.set(args.indexOf(out.toString()), "-");
+            var s = run(args.toArray(String[]::new));
+            assertEquals(ExitCodes.FAILED, s.status(), command + " --json -: " + s.err());
+            assertEquals(failure, s.json().path("failure").asText(), command + " --json -: " + s.out());
         }
         // the commands that fit must all fail on this model
         assertTrue(failed.containsAll(Set.of("fit", "impacts", "scan", "discovery", "limit", "gof", "yields", "inject",

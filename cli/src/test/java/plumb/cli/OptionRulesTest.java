@@ -62,7 +62,11 @@ class OptionRulesTest {
     static {
         RULES.put("--threads", List.of(bad("0", "--threads"), bad("-1", "--threads"), bad("x", "--threads")));
         RULES.put("--fix", List.of(bad("np_0=0.5 --fix np_0=1", "already held"), bad("nosuch=1", "no parameter 'nosuch'"),
-                bad("np_0=Infinity", "finite"), bad("np_0", "expected NAME=X"), bad("np_0=99", "outside the range")));
+                bad("np_0=Infinity", "finite"), bad("np_0", "expected NAME=X"), bad("np_0=99", "outside the range"),
+                bad("n\u001bp\u0007=1", "no parameter 'n\\ep\\u0007'")));   // control characters shown escaped
+        for (String output : List.of("--json", "--csv", "--out", "--log", "--figure")) {
+            RULES.put(output, List.of(bad("FILE/x.out", "not a directory")));   // FILE: a regular file
+        }
         RULES.put("--toys", List.of(bad("-1", "--toys"), bad("x", "--toys"), bad("2147483647", "--toys")));
         RULES.put("--points", List.of(bad("1", "--points"), bad("1000000000", "heap limit")));
         RULES.put("--cl", List.of(bad("1e-17", "--cl"), bad("1", "--cl"), bad("0.2", "--cl"), bad("NaN", "--cl")));
@@ -160,8 +164,10 @@ class OptionRulesTest {
         CommandSpec spec = commands().get(command);
         Path outDir = Files.createDirectories(dir.resolve("out-" + Math.abs((command + option).hashCode())));
         List<String> args = new ArrayList<>(List.of(command));
-        for (PositionalParamSpec p : spec.positionalParameters()) args.add(model.toString());   // a model, or a file at least
-        String[] tested = option.split(" ");
+        for (PositionalParamSpec p : spec.positionalParameters()) {
+            for (int k = 0; k < Math.max(1, p.arity().min()); k++) args.add(model.toString());   // a model, or a file at least
+        }
+        String[] tested = option.replace("FILE", model.toString()).split(" ");
         for (OptionSpec o : spec.options()) {
             if (o.required() && !o.longestName().equals(tested[0])) {
                 args.add(o.longestName());
@@ -187,6 +193,7 @@ class OptionRulesTest {
         assertTrue(r.err().startsWith("plumb " + command + ": "), line);
         assertTrue(r.err().contains(expected), "expected '" + expected + "': " + line);
         assertFalse(r.err().contains("internal error"), line);
+        assertTrue(r.err().strip().chars().noneMatch(c -> c < 0x20 || c == 0x7f), "no raw control character: " + line);
         try (var left = Files.list(outDir)) {
             assertEquals(List.of(), left.toList(), "nothing written: " + line);
         }
