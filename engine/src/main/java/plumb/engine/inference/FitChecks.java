@@ -67,6 +67,13 @@ public record FitChecks(double smallestEigenvalue, int[] degenerate, byte[] boun
             if (!held[i] && errors[i] > 0 && Double.isFinite(errors[i]) && bound[i] == 0) free[k++] = i;
         }
         if (k == 0) return new FitChecks(Double.NaN, new int[0], bound);
+        // H over the free set with each column scaled by its error, stored contiguously so the
+        // 60 products below run over plain rows (same products, same order, as H[i][j]·e_j·v_j)
+        double[] scaled = new double[k * k];
+        for (int a = 0; a < k; a++) {
+            int row = free[a] * dim;
+            for (int b = 0; b < k; b++) scaled[a * k + b] = hessian[row + free[b]] * errors[free[b]];
+        }
         double[] v = new double[k], w = new double[k];
         java.util.Arrays.fill(v, 1 / Math.sqrt(k));
         for (int a = 0; a < k; a++) v[a] += 1e-3 * ((a * 7919) % 13 - 6) / Math.sqrt(k);   // no accidental orthogonality
@@ -78,9 +85,9 @@ public record FitChecks(double smallestEigenvalue, int[] degenerate, byte[] boun
             for (int a = 0; a < k; a++) v[a] /= norm;
             lambda = 0;
             for (int a = 0; a < k; a++) {
-                int row = free[a] * dim;
+                int row = a * k;
                 double s = 0;
-                for (int b = 0; b < k; b++) s += hessian[row + free[b]] * errors[free[b]] * v[b];
+                for (int b = 0; b < k; b++) s += scaled[row + b] * v[b];
                 w[a] = errors[free[a]] * s;
                 lambda += v[a] * w[a];
             }
