@@ -181,7 +181,7 @@ public final class Fitter {
         }
         int[] candidates = searchOtherSides ? OtherSideSearch.candidates(m, held) : new int[0];
         if (candidates.length > 0 && best.converged()) {
-            OtherSideSearch.Outcome o = OtherSideSearch.run(m, best, candidates, lower, upper, x -> local(x, held));
+            OtherSideSearch.Outcome o = OtherSideSearch.run(m, best, candidates, lower, upper, nll, x -> local(x, held));
             if (o.best() != best) met.add(best);
             met.addAll(o.others());
             best = o.best();
