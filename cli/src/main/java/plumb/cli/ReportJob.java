@@ -66,6 +66,8 @@ final class ReportJob {
     private final String label;
     /** Draw the template figures of every variation (plumb report --templates). */
     boolean templates;
+    /** The cut flow of the build that made the main model (plumb demo --events), shown in its own section. */
+    List<plumb.cli.build.CutFlowRow> cutFlow = List.of();
 
     private final List<String> warnings = new ArrayList<>();
     private final List<String> nonConverged = new ArrayList<>();
@@ -134,7 +136,7 @@ final class ReportJob {
         warnings.addAll(FitCommand.checkWarnings(m, best));
         if (!best.converged()) nonConverged.add("best fit (" + best.status() + ")");
         ReportInput in = ReportInput.of(new RunSummary(m.name, null, null, null, null, null, null, 0, null, null, null))
-                .withFit(ReportAssembler.fit(m, best));
+                .withFit(ReportAssembler.fit(m, best)).withCutFlow(cutFlow);
 
         if (hasPoi) {
             ImpactsCommand.ImpactRanking impacts = section("impacts", () -> ImpactsCommand.compute(m, p, best, impactsTop, false, threads));

@@ -30,10 +30,10 @@ public final class EventBuilds {
                 request, out, err);
     }
 
-    /** The events demo: invented tables written to {@code dir}, built into DIR/model.json. */
-    public static BuildOutcome demo(Path dir, String master, int timeoutSeconds, PrintWriter out, PrintWriter err) {
-        return (BuildOutcome) call(DEMO, "run", new Class<?>[] {Path.class, String.class, int.class, PrintWriter.class,
-                PrintWriter.class}, dir, master, timeoutSeconds, out, err);
+    /** The events demo: invented tables drawn from {@code seed} written to {@code dir}, built into DIR/model.json. */
+    public static BuildOutcome demo(Path dir, String master, int timeoutSeconds, long seed, PrintWriter out, PrintWriter err) {
+        return (BuildOutcome) call(DEMO, "run", new Class<?>[] {Path.class, String.class, int.class, long.class,
+                PrintWriter.class, PrintWriter.class}, dir, master, timeoutSeconds, seed, out, err);
     }
 
     private static Object call(String className, String method, Class<?>[] types, Object... args) {

@@ -1,6 +1,7 @@
 package plumb.cli.report;
 
 import java.util.List;
+import plumb.cli.build.CutFlowRow;
 import plumb.cli.plot.ImpactBars;
 import plumb.cli.plot.ScanCurve;
 import plumb.engine.tooling.Templates;
@@ -19,7 +20,7 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
                           Results.Limits limits, Results.GofValues gof, List<Results.InjectionValues> injection,
                           List<Results.Attachment> attachments, List<Results.Closure> closures,
                           Results.ErrorBreakdown breakdown, List<Results.PlanningPart> planning,
-                          List<Templates.Template> templates) {
+                          List<Templates.Template> templates, List<CutFlowRow> cutFlow) {
 
     /** Default number of parameters in the impacts ranking. */
     public static final int DEFAULT_IMPACTS_TOP = 20;
@@ -33,67 +34,73 @@ public record ReportInput(RunSummary summary, FitSection fit, ImpactBars impacts
         closures = closures == null ? List.of() : List.copyOf(closures);
         planning = planning == null ? List.of() : List.copyOf(planning);
         templates = templates == null ? List.of() : List.copyOf(templates);
+        cutFlow = cutFlow == null ? List.of() : List.copyOf(cutFlow);
     }
 
     /** A report with only the run summary. */
     public static ReportInput of(RunSummary summary) {
-        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null, null, null);
+        return new ReportInput(summary, null, null, DEFAULT_IMPACTS_TOP, null, null, null, null, null, null, null, null, null, null, null, null);
     }
 
     public ReportInput withSummary(RunSummary summary) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withFit(FitSection fit) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withImpacts(ImpactBars impacts, int top) {
-        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, top, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withYields(List<ChannelYieldBands> yields) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withScan(ScanCurve scan) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withDiscovery(Results.DiscoveryValues discovery) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withLimits(Results.Limits limits) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withGoodnessOfFit(Results.GofValues gof) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withInjection(List<Results.InjectionValues> injection) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withAttachments(List<Results.Attachment> attachments) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withClosures(List<Results.Closure> closures) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withBreakdown(Results.ErrorBreakdown breakdown) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     /** The planning section (sensitivity, projections, contours, look-elsewhere): its parts in order. */
     public ReportInput withPlanning(List<Results.PlanningPart> planning) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 
     public ReportInput withTemplates(List<Templates.Template> templates) {
-        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates);
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
+    }
+
+    /** The cut flow of the build that made the model: a section of its own when not empty. */
+    public ReportInput withCutFlow(List<CutFlowRow> cutFlow) {
+        return new ReportInput(summary, fit, impacts, impactsTop, yields, scan, discovery, limits, gof, injection, attachments, closures, breakdown, planning, templates, cutFlow);
     }
 }

@@ -29,6 +29,7 @@ import plumb.cli.plot.ScanCurve;
 import plumb.cli.plot.ScanFigure;
 import plumb.cli.plot.YieldsFigure;
 import plumb.cli.table.Escape;
+import plumb.cli.build.CutFlowRow;
 import plumb.cli.table.Table;
 import plumb.cli.table.TableFormat;
 
@@ -47,7 +48,7 @@ public final class ReportWriter {
     static final int CORRELATION_MAX = 24;
 
     /** Section ids and their short names (navigation bar, list of failed sections). */
-    private static final String[][] SECTIONS = {{"summary", "Run"}, {"fit", "Fit"}, {"pulls", "Pulls"},
+    private static final String[][] SECTIONS = {{"summary", "Run"}, {"cutflow", "Cut flow"}, {"fit", "Fit"}, {"pulls", "Pulls"},
         {"impacts", "Impacts"}, {"yields", "Yields"}, {"scan", "Scan"}, {"discovery", "Discovery"}, {"limits", "Limits"},
         {"planning", "Reach"}, {"gof", "Goodness of fit"}, {"injection", "Injection"}, {"templates", "Templates"}, {"files", "Files"}};
 
@@ -126,10 +127,14 @@ public final class ReportWriter {
         page.append("<header><div class=\"brand\">Plumb report</div><h1>").append(esc(s.model())).append("</h1>");
         if (s.description() != null) page.append("<p class=\"lead\">").append(esc(s.description())).append("</p>");
         page.append("</header>\n<nav>");
-        for (String[] sec : SECTIONS) page.append("<a href=\"#").append(sec[0]).append("\">").append(sec[1]).append("</a>");
+        for (String[] sec : SECTIONS) {
+            if (sec[0].equals("cutflow") && in.cutFlow().isEmpty()) continue;   // only a model built from events has one
+            page.append("<a href=\"#").append(sec[0]).append("\">").append(sec[1]).append("</a>");
+        }
         page.append("</nav>\n<p id=\"broken\" class=\"bad box\" hidden>Some figures did not load.</p>\n<main>\n");
 
         html = new StringBuilder();
+        cutFlowSection();
         fitSection();
         pullsSection();
         impactsSection();
@@ -247,6 +252,20 @@ public final class ReportWriter {
                 c.row(row);
             }
             tableFilesOnly(c.build(), "correlation", "Full correlation matrix");
+        }
+        close();
+    }
+
+    /** The selection of the build that made the model, region by region (only for a model built from events). */
+    private void cutFlowSection() throws IOException {
+        if (in.cutFlow().isEmpty()) return;
+        open("cutflow", "Cut flow");
+        html.append("<p>The event selection of the build that made this model: after each step of a region, the weighted ")
+            .append("sum Σw and the number of events of each sample left (cumulative). The last row, “")
+            .append(esc(CutFlowRow.IN_THE_BINS)).append("”, is what the region's histogram holds: the last step less ")
+            .append("the events outside the bin edges, or equal to it when they are folded into the end bins.</p>\n");
+        for (Map.Entry<String, Table> e : CutFlowTables.byRegion(in.cutFlow()).entrySet()) {
+            table(e.getValue(), "cutflow_" + e.getKey());
         }
         close();
     }
