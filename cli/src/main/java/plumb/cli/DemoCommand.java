@@ -28,7 +28,7 @@ import java.util.concurrent.Callable;
                 + "invented collider): copies it to DIR/model.json and writes DIR/index.html.",
                 "With --events: invented event tables of the same scenario (Parquet, DIR/events), their build "
                 + "description (DIR/build.json), the model built from them on Spark (DIR/model.json, cut flow in "
-                + "DIR/model.cutflow.{txt,csv,tex}) and the report with a cut-flow section (DIR/index.html)."})
+                + "DIR/model.cutflow.{txt,csv,tex}) and the report with a cut-flow section (DIR/report/index.html)."})
 final class DemoCommand implements Callable<Integer> {
 
     /** Folders written when neither --out nor --events DIR names one. */
@@ -89,11 +89,14 @@ final class DemoCommand implements Callable<Integer> {
         if (m.isBlank()) throw new InputException("--spark: the master is empty (local[*], spark://HOST:PORT or yarn)");
         if (timeout < 1) throw new InputException("--spark-timeout must be at least 1 second, got " + timeout);
         Path dir = !events.isEmpty() ? Path.of(events) : out != null ? out : Path.of(DEFAULT_EVENTS_DIR);
+        // the report replaces its folder whole, so it gets one of its own beside the tables and the model
+        Path report = dir.resolve("report");
+        ReportJob.requireReportFolder(report, List.of());   // before any work
         PrintWriter o = spec.commandLine().getOut(), e = spec.commandLine().getErr();
         BuildOutcome built = EventBuilds.demo(dir, m, timeout, fit.seed, o, e);
         ReportJob job = new ReportJob(List.of(built.model()), fit, toys, ReportCommand.DEFAULT_IMPACTS_TOP, null);
         job.cutFlow = built.cutFlow();
-        int code = ReportCommand.run(job, dir, o, e, "demo");
+        int code = ReportCommand.run(job, report, o, e, "demo");
         String stem = built.model().getFileName().toString().replaceFirst("\\.json$", "");
         o.println("Events demo in " + dir + ":");
         o.printf("  %-20s %s%n", "event tables", dir.resolve("events").resolve("*.parquet"));
@@ -101,7 +104,7 @@ final class DemoCommand implements Callable<Integer> {
                 dir.resolve("build.json"), dir.resolve("build.json"));
         o.printf("  %-20s %s%n", "model", built.model());
         o.printf("  %-20s %s.{txt,csv,tex}%n", "cut flow", dir.resolve(stem + ".cutflow"));
-        o.printf("  %-20s %s%n", "report", dir.resolve("index.html"));
+        o.printf("  %-20s %s%n", "report", report.resolve("index.html"));
         o.flush();
         return code;
     }

@@ -84,8 +84,8 @@ class EventsDemoTest {
         Model m = ModelReader.read(out.resolve("model.json"));   // the reader's every rule
         assertEquals(List.of("isolated", "not_isolated"), m.channels().stream().map(Channel::name).toList());
         assertEquals("mu", m.poi());
-        for (String f : List.of("build.json", "model.cutflow.txt", "model.cutflow.csv", "model.cutflow.tex", "index.html",
-                "events/signal.parquet", "events/data.parquet", "tables/cutflow_isolated.csv")) {
+        for (String f : List.of("build.json", "model.cutflow.txt", "model.cutflow.csv", "model.cutflow.tex", "report/index.html",
+                "events/signal.parquet", "events/data.parquet", "report/tables/cutflow_isolated.csv")) {
             assertTrue(Files.isRegularFile(out.resolve(f)), f);
         }
         try (var s = Files.list(out.resolve("events"))) {
@@ -127,13 +127,13 @@ class EventsDemoTest {
             if (key[1].equals("continuum")) assertTrue(total < Double.parseDouble(steps.get(3)[3]), e.getKey());
         }
 
-        String page = Files.readString(out.resolve("index.html"));
+        String page = Files.readString(out.resolve("report/index.html"));
         assertTrue(page.contains("<section id=\"cutflow\">"), "cut-flow section");
         assertTrue(page.contains("href=\"#cutflow\""), "cut flow in the navigation");
         assertTrue(page.contains("Region isolated: events left after each step") && page.contains("both isolated")
                 && page.contains("in the bins"), "the isolated region's table");
         assertTrue(page.contains("Region not_isolated"), "the control region's table");
-        assertTrue(r.out().contains(out.resolve("index.html").toString()) && r.out().contains(out.resolve("build.json").toString())
+        assertTrue(r.out().contains(out.resolve("report/index.html").toString()) && r.out().contains(out.resolve("build.json").toString())
                 && r.out().contains(out.resolve("model.cutflow").toString()), r.out());
     }
 
