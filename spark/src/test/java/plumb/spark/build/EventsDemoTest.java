@@ -1,5 +1,6 @@
 package plumb.spark.build;
 
+import com.fasterxml.jackson.databind.ObjectMapper;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import plumb.cli.Main;
@@ -54,6 +55,17 @@ class EventsDemoTest {
         // the signal peaks at the resonance mass: mean of the 85 % core (7.5 GeV) and 15 % tail (20 GeV), error ≈ 0.17 GeV
         double mean = DemoEvents.simulated(DemoEvents.PROCESSES.get(0), 11).stream().mapToDouble(r -> (Double) r[0]).average().orElseThrow();
         assertEquals(DemoEvents.MASS, mean, 1.0);
+    }
+
+    @Test
+    void theWorkedExampleOfTheDocsIsTheDemoDescription() throws IOException {
+        String doc = Files.readString(Path.of("..", "docs", "build-format.md"));
+        String example = doc.substring(doc.indexOf("## Worked example: the events demo"));
+        example = example.substring(example.indexOf("```json") + 7, example.indexOf("```", example.indexOf("```json") + 7));
+        ObjectMapper json = new ObjectMapper();
+        try (var in = EventsDemo.class.getResourceAsStream(EventsDemo.SPEC_RESOURCE)) {
+            assertEquals(json.readTree(in), json.readTree(example));
+        }
     }
 
     @Test
