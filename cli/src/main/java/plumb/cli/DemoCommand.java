@@ -49,7 +49,7 @@ final class DemoCommand implements Callable<Integer> {
             description = "With --events: where Spark runs (default: local[*], in this process).")
     String master;
 
-    @Option(names = "--spark-timeout", paramLabel = "S", defaultValue = "60",
+    @Option(names = "--spark-timeout", converter = OptionValues.Positive.class, paramLabel = "S", defaultValue = "60",
             description = "With --events: seconds to wait for the Spark master (default: ${DEFAULT-VALUE}).")
     int timeout;
 
@@ -87,7 +87,6 @@ final class DemoCommand implements Callable<Integer> {
         }
         String m = master == null ? "local[*]" : master;
         if (m.isBlank()) throw new InputException("--spark: the master is empty (local[*], spark://HOST:PORT or yarn)");
-        if (timeout < 1) throw new InputException("--spark-timeout must be at least 1 second, got " + timeout);
         Path dir = !events.isEmpty() ? Path.of(events) : out != null ? out : Path.of(DEFAULT_EVENTS_DIR);
         // the report replaces its folder whole, so it gets one of its own beside the tables and the model
         Path report = dir.resolve("report");

@@ -66,7 +66,10 @@ final class ReportJob {
     private final String label;
     /** Draw the template figures of every variation (plumb report --templates). */
     boolean templates;
-    /** The cut flow of the build that made the main model (plumb demo --events), shown in its own section. */
+    /**
+     * The cut flow of the build that made the main model, shown in its own section: given by
+     * {@code plumb demo --events}, otherwise read from the file the build wrote beside the model.
+     */
     List<plumb.cli.build.CutFlowRow> cutFlow = List.of();
 
     private final List<String> warnings = new ArrayList<>();
@@ -117,6 +120,8 @@ final class ReportJob {
     ReportInput assemble() {
         long t0 = System.nanoTime();
         ModelInput.Loaded main = ModelInput.load(files.get(0));
+        // a model written by plumb build has its cut flow beside it
+        if (cutFlow.isEmpty()) cutFlow = plumb.cli.build.CutFlowFile.readBeside(files.get(0), main.model(), warnings);
         for (Path f : files.subList(1, files.size())) ModelInput.load(f);   // every model valid before any work
         CompiledModel m = main.compiled();
         requireOptions(m, fit, toys);

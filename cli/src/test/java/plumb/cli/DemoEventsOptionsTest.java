@@ -39,7 +39,7 @@ class DemoEventsOptionsTest {
         assertTrue(r.err().contains("give the folder once"), r.err());
         r = CommandLineTestSupport.run("demo", "--events", "--spark-timeout", "0");
         assertEquals(2, r.status(), r.err());
-        assertTrue(r.err().contains("--spark-timeout must be at least 1 second"), r.err());
+        assertTrue(r.err().contains("--spark-timeout") && r.err().contains("must be at least 1"), r.err());
         assertFalse(Files.exists(dir.resolve("a")));
         assertFalse(Files.exists(dir.resolve("b")));
     }

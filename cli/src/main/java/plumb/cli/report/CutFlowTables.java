@@ -16,6 +16,9 @@ import java.util.Map;
  */
 public final class CutFlowTables {
 
+    /** The sample name of the observed events in a build's cut flow. */
+    static final String DATA = "data";
+
     private CutFlowTables() {
     }
 
@@ -37,10 +40,12 @@ public final class CutFlowTables {
             steps.add(r.step());
             cell.put(r.sample() + '\u0000' + r.step(), r);
         }
+        // the observed events have weight one: their Σw would only repeat their count
+        boolean dataCounted = rows.stream().filter(r -> r.sample().equals(DATA)).allMatch(r -> r.weighted() == r.raw());
         List<String> header = new ArrayList<>();
         header.add("after step");
         for (String s : samples) {
-            header.add(s + " Σw");
+            if (!(dataCounted && s.equals(DATA))) header.add(s + " Σw");
             header.add(s + " events");
         }
         Table.Builder t = Table.builder("Region " + region + ": events left after each step (cumulative)",
@@ -50,7 +55,7 @@ public final class CutFlowTables {
             line.add(step);
             for (String s : samples) {
                 CutFlowRow r = cell.get(s + '\u0000' + step);
-                line.add(r == null ? "" : Table.number(r.weighted(), 5));
+                if (!(dataCounted && s.equals(DATA))) line.add(r == null ? "" : Table.number(r.weighted(), 5));
                 line.add(r == null ? "" : Long.toString(r.raw()));
             }
             t.row(line);

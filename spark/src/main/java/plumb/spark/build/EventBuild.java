@@ -108,10 +108,7 @@ public final class EventBuild {
 
     /** The file name of the model without .json: the cut flow files take it with their own ending. */
     static Path stem(Path modelFile) {
-        String name = modelFile.getFileName().toString();
-        if (name.endsWith(".json.gz")) name = name.substring(0, name.length() - 8);
-        else if (name.endsWith(".json")) name = name.substring(0, name.length() - 5);
-        return modelFile.resolveSibling(name + ".cutflow");
+        return plumb.cli.build.CutFlowFile.stem(modelFile);   // where the report looks for it too
     }
 
     /** Cut flow first, the model last: a model on disk means that every file of the build is there. */
