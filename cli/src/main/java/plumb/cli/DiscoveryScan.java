@@ -43,7 +43,7 @@ final class DiscoveryScan {
     static Result compute(List<Path> files, FitOptions fit, String label, double reference, Integer toys) {
         if (!(reference > 0)) throw new InputException("--reference must be positive, got " + reference);
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
-        List<Path> all = LimitCommand.modelFiles(files);
+        List<Path> all = ModelLabels.modelFiles(files);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : all) loaded.add(ModelInput.load(f));
         if (toys != null) for (ModelInput.Loaded l : loaded) FitOptions.requireCount("--toys", toys, l.compiled());

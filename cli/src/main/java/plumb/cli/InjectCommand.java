@@ -9,25 +9,18 @@ import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.AsimovClosure;
-import plumb.engine.inference.DataSets;
 import plumb.engine.inference.FitSettings;
 import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.FitResult;
+import plumb.engine.inference.InjectionStudy;
 import plumb.engine.inference.InjectionToyBatch;
 import plumb.engine.inference.InjectionToys;
-import plumb.engine.inference.ToyFit;
 import plumb.engine.inference.WorkRunner;
 import plumb.engine.likelihood.DataSet;
 
-import java.io.IOException;
-import java.io.InputStream;
 import java.io.PrintWriter;
-import java.nio.file.Files;
-import java.security.DigestInputStream;
-import java.security.MessageDigest;
-import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
 import java.util.HashSet;
-import java.util.HexFormat;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
@@ -204,15 +197,14 @@ final class InjectCommand implements Callable<Integer> {
         checkMemory(perValue, pulled.length);
         int threadCount = options.threadCount();
 
-        List<double[]> points = new ArrayList<>();
-        for (double x : mu) {
-            DataSets.Generated g = engine.generatingPoint(x, postfit);
-            if (g.conditionalFit() != null && !g.conditionalFit().converged()) {
+        InjectionStudy study = new InjectionStudy(engine, mu, postfit);
+        for (int k = 0; k < mu.size(); k++) {
+            FitResult c = study.conditionalFit(k);
+            if (c != null && !c.converged()) {
                 throw new ComputationException(String.format(Locale.ROOT,
                         "the fit to the observed data with %s = %s did not converge (%s); use --from nominal",
-                        m.parameterNames[m.poi], Numbers.plain(x), g.conditionalFit().status()));
+                        m.parameterNames[m.poi], Numbers.plain(mu.get(k)), c.status()));
             }
-            points.add(g.values());
         }
 
         if (table != null) {
@@ -226,7 +218,7 @@ final class InjectCommand implements Callable<Integer> {
         if (asimov) {
             if (table != null) table.printf("%nAsimov closure (fit to the Asimov data set from the nominal values):%n");
             for (int k = 0; k < mu.size(); k++) {
-                AsimovClosure c = engine.closure(points.get(k));
+                AsimovClosure c = study.closure(k);
                 closures.add(c);
                 if (table != null) printClosure(table, m, c);
             }
@@ -237,39 +229,15 @@ final class InjectCommand implements Callable<Integer> {
         long firstToy = first == null ? 0 : first;
         try (WorkRunner runner = ClusterOptions.runner(cluster, threadCount)) {
             for (int k = 0; k < mu.size(); k++) {
-                ToyFit[] fits;
                 try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
                         Numbers.plain(mu.get(k))), perValue)) {
-                    fits = engine.run(points.get(k), InjectionToys.injectionSeed(seed, k), !noAuxFluctuation, firstToy,
-                            perValue, runner, bar.callback());
+                    injections.add(study.toys(k, seed, !noAuxFluctuation, firstToy, perValue, runner, bar.callback()));
                 }
-                injections.add(new InjectionToyBatch.ValueFits(mu.get(k), fits));
             }
         }
-        String[] names = new String[pulled.length];
-        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
-        InjectionToyBatch toyFits = new InjectionToyBatch(runIdentity(loaded, m, fixes, settings), m.labels, names, firstToy,
-                perValue, injections);
+        InjectionToyBatch toyFits = new InjectionToyBatch(runIdentity(loaded, m, fixes, settings), m.labels,
+                study.nuisanceNames(), firstToy, perValue, injections);
         return new InjectionRun(m, toyFits, closures, batch ? List.of() : toyFits.summaries());
-    }
-
-    /**
-     * What {@code plumb inject MODEL --mu X,… --toys N --asimov} does with the shared options'
-     * --fix, --threads, --seed, --optimizer and --explicit-mcstat: toys at the nominal nuisance
-     * values, auxiliary values fluctuated, and the Asimov closure check at every X.
-     */
-    static InjectCommand withClosure(List<Double> mu, int toys, FitOptions fit) {
-        InjectCommand c = new InjectCommand();
-        c.mu = List.copyOf(mu);
-        c.toys = toys;
-        c.asimov = true;
-        c.from = From.nominal;
-        c.fix = fit.fix;
-        c.threads = fit.threads;
-        c.seed = fit.seed;
-        c.minimiser = fit.minimiser;
-        c.explicitMcStat = fit.explicitMcStat;
-        return c;
     }
 
     /** The shared fit options, filled from this command's own (inject has no --data). */
@@ -317,19 +285,8 @@ final class InjectCommand implements Callable<Integer> {
     private ObjectNode runIdentity(ModelInput.Loaded loaded, CompiledModel m, Map<Integer, Double> fixes, FitSettings s) {
         List<String> fixed = new ArrayList<>();
         fixes.forEach((i, v) -> fixed.add(m.parameterNames[i] + "=" + v));
-        return InjectionToyBatch.runIdentity(m.name, sha256(loaded), m.parameterNames[m.poi], mu, from.name(),
+        return InjectionToyBatch.runIdentity(m.name, loaded.sha256(), m.parameterNames[m.poi], mu, from.name(),
                 !noAuxFluctuation, seed, fixed, s);
-    }
-
-    private static String sha256(ModelInput.Loaded loaded) {
-        try (InputStream in = new DigestInputStream(Files.newInputStream(loaded.content()), MessageDigest.getInstance("SHA-256"))) {
-            in.transferTo(java.io.OutputStream.nullOutputStream());
-            return HexFormat.of().formatHex(((DigestInputStream) in).getMessageDigest().digest());
-        } catch (IOException e) {
-            throw new InputException(loaded.file() + ": cannot read: " + Outputs.cause(e));
-        } catch (NoSuchAlgorithmException e) {
-            throw new IllegalStateException(e); // every Java platform has SHA-256
-        }
     }
 
     private static void printClosure(PrintWriter out, CompiledModel m, AsimovClosure c) {

@@ -72,9 +72,6 @@ final class LimitCommand implements Callable<Integer> {
 
     @Spec CommandSpec spec;
 
-    /** One model's outcome: its limit, or why it has none. */
-    record ModelLimit(ModelInput.Loaded model, double x, PoiData data, LimitResult result, String error) { }
-
     @Override
     public Integer call() {
         if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
@@ -84,14 +81,7 @@ final class LimitCommand implements Callable<Integer> {
         String key = c.key();
         PrintWriter out = spec.commandLine().getOut();
         List<String> errors = c.errors();
-        if (json != null) {
-            ObjectNode root = toJson(outcomes, key);
-            if (!errors.isEmpty()) {
-                root.put("converged", false);
-                root.put("failure", String.join("; ", errors));
-            }
-            Outputs.write(json, Json.write(root), out);
-        }
+        if (json != null) Outputs.write(json, Json.write(LimitJson.of(outcomes, key, cl, toys, fit.seed)), out);
         if (csv != null) Outputs.write(csv, TableFormat.CSV.render(table(outcomes, key)), out);
         if (!"-".equals(json)) {
             if (outcomes.size() == 1) printSingle(out, outcomes.get(0));
@@ -111,22 +101,8 @@ final class LimitCommand implements Callable<Integer> {
     record LimitTable(List<ModelLimit> outcomes, String key) {
         /** The outcomes that have no limit, with why. */
         List<String> errors() {
-            List<String> errors = new ArrayList<>();
-            for (ModelLimit o : outcomes) {
-                if (o.error() != null) errors.add(outcomes.size() == 1 ? o.error() : o.model().file() + ": " + o.error());
-            }
-            return errors;
+            return ModelLimit.errors(outcomes);
         }
-    }
-
-    /** Asymptotic limits at 95 % CL of {@code models} with the shared options (what {@code plumb limit} does by default). */
-    static LimitCommand asymptotic(List<Path> models, FitOptions fit, String label) {
-        LimitCommand c = new LimitCommand();
-        c.models = models;
-        c.fit = fit;
-        c.cl = 0.95;
-        c.label = label;
-        return c;
     }
 
     /**
@@ -136,13 +112,13 @@ final class LimitCommand implements Callable<Integer> {
      * @throws InputException for options that do not fit the models
      */
     LimitTable compute() {
-        List<Path> files = modelFiles(models);
+        List<Path> files = ModelLabels.modelFiles(models);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : files) loaded.add(ModelInput.load(f));
         if (toys != null) for (ModelInput.Loaded l : loaded) FitOptions.requireCount("--toys", toys, l.compiled());
-        String key = labelKey(loaded);
+        String key = ModelLabels.key(loaded, label);
         double[] xs = new double[loaded.size()];
-        for (int i = 0; i < xs.length; i++) xs[i] = x(loaded.get(i), key);
+        for (int i = 0; i < xs.length; i++) xs[i] = ModelLabels.x(loaded.get(i), key);
         int threads = fit.threadCount();
         // Resolve every model's data first: bad options fail before any long computation.
         List<PoiData> data = new ArrayList<>();
@@ -151,18 +127,7 @@ final class LimitCommand implements Callable<Integer> {
         try (WorkRunner runner = ClusterOptions.runner(cluster, threads)) {
             if (toys == null) {
                 // Asymptotic limits: one model per thread or task, each computed sequentially (deterministic).
-                List<CompiledModel> compiled = new ArrayList<>();
-                List<AsymptoticLimitWork.Inputs> inputs = new ArrayList<>();
-                for (int i = 0; i < loaded.size(); i++) {
-                    PoiData d = data.get(i);
-                    compiled.add(loaded.get(i).compiled());
-                    inputs.add(new AsymptoticLimitWork.Inputs(d.data(), d.expected(), d.settings(), d.held(), d.heldValues()));
-                }
-                List<AsymptoticLimitWork.Limit> limits = runner.runEach(compiled, new AsymptoticLimitWork(inputs, cl), null);
-                for (int i = 0; i < loaded.size(); i++) {
-                    AsymptoticLimitWork.Limit l = limits.get(i);
-                    outcomes.add(new ModelLimit(loaded.get(i), xs[i], data.get(i), l.result(), l.error()));
-                }
+                outcomes.addAll(ModelLimit.asymptotic(loaded, xs, data, cl, runner));
             } else {
                 for (int i = 0; i < loaded.size(); i++) {
                     try (Progress bar = Progress.start("toys " + loaded.get(i).file().getFileName(),
@@ -187,125 +152,6 @@ final class LimitCommand implements Callable<Integer> {
         } catch (InferenceException e) {
             return new ModelLimit(l, x, d, null, e.getMessage());
         }
-    }
-
-    /** The model files named: files as given, folders expanded to their .json / .json.gz files by name. */
-    static List<Path> modelFiles(List<Path> args) {
-        List<Path> out = new ArrayList<>();
-        for (Path p : args) {
-            if (!Files.isDirectory(p)) {
-                out.add(p);
-                continue;
-            }
-            try (Stream<Path> s = Files.list(p)) {
-                List<Path> found = s.filter(f -> Files.isRegularFile(f)
-                        && (f.getFileName().toString().endsWith(".json") || f.getFileName().toString().endsWith(".json.gz")))
-                        .sorted().toList();
-                if (found.isEmpty()) throw new InputException(p + ": the folder holds no model files (.json, .json.gz)");
-                out.addAll(found);
-            } catch (IOException e) {
-                throw new InputException(p + ": cannot list the folder: " + e.getMessage());
-            }
-        }
-        return out;
-    }
-
-    /** --label, or the first numeric label every model has (null for a single model without one). */
-    private String labelKey(List<ModelInput.Loaded> loaded) {
-        if (label != null) return label;
-        for (String k : loaded.get(0).compiled().labels.keySet()) {
-            boolean all = true;
-            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels.get(k) instanceof Number;
-            if (all) return k;
-        }
-        if (loaded.size() > 1) {
-            throw new InputException("--label: the models share no numeric label to order the limits by; name one with --label");
-        }
-        return null;
-    }
-
-    private static double x(ModelInput.Loaded l, String key) {
-        if (key == null) return Double.NaN;
-        Object v = l.compiled().labels.get(key);
-        if (v instanceof Number n) return n.doubleValue();
-        throw new InputException(String.format(Locale.ROOT, "--label %s: %s has no numeric label '%s' (labels.%s)",
-                key, l.file(), key, key));
-    }
-
-    /** The limit file of docs/cli-contract.md, with the points of every model. */
-    ObjectNode toJson(List<ModelLimit> outcomes, String key) {
-        ModelLimit first = outcomes.get(0);
-        ObjectNode root = Json.result(outcomes.size() == 1 ? first.model().compiled().labels : commonLabels(outcomes),
-                first.data().kind());
-        if (outcomes.size() == 1) {
-            if (first.data().asimovPoi() != null) root.put("asimovPoi", first.data().asimovPoi());
-            putLimit(root, first);
-        }
-        if (key != null) root.put("label", key);
-        else root.putNull("label");
-        ArrayNode points = root.putArray("points");
-        for (ModelLimit o : outcomes) {
-            ObjectNode p = points.addObject();
-            p.put("model", o.model().file().toString());
-            Json.put(p, "x", o.x());
-            putLimit(p, o);
-            p.put("data", o.data().kind());
-            p.set("labels", Json.result(o.model().compiled().labels, o.data().kind()).get("labels"));
-        }
-        return root;
-    }
-
-    private void putLimit(ObjectNode node, ModelLimit o) {
-        CompiledModel m = o.model().compiled();
-        node.put("poi", m.parameterNames[m.poi]);
-        node.put("cl", cl);
-        node.put("method", toys == null ? "asymptotic" : "toys");
-        node.put("statistic", "qtilde_mu");
-        LimitResult r = o.result();
-        if (r == null) {
-            node.putNull("observed");
-            ObjectNode e = node.putObject("expected");
-            for (String k : BAND_KEYS) e.putNull(k);
-            node.put("error", o.error());
-            return;
-        }
-        Json.put(node, "observed", r.observed());
-        bands(node.putObject("expected"), r.expected());
-        Json.put(node, "muHat", r.muHat());
-        if (toys != null) {
-            Json.put(node, "observedError", r.observedError());
-            bands(node.putObject("expectedError"), r.expectedError());
-            node.put("toysPerPoint", toys);
-            node.put("toys", r.toys());
-            node.put("failedToys", r.failedToys());
-            node.put("seed", fit.seed);
-            ArrayNode pts = node.putArray("clsPoints");
-            for (LimitResult.ClsPoint c : r.points()) {
-                ObjectNode p = pts.addObject();
-                p.put("mu", c.mu());
-                Json.put(p, "q", c.qObserved());
-                Json.put(p, "clsb", c.clsb());
-                Json.put(p, "clb", c.clb());
-                Json.put(p, "cls", c.cls());
-                Json.put(p, "clsError", c.clsError());
-                Json.array(p, "expectedCls", c.expectedCls());
-            }
-        }
-        node.put("fits", r.fits());
-        node.put("seconds", r.seconds());
-    }
-
-    private static final String[] BAND_KEYS = {"minus2", "minus1", "median", "plus1", "plus2"};
-
-    private static void bands(ObjectNode node, ExpectedBands b) {
-        double[] v = b.toArray();
-        for (int k = 0; k < v.length; k++) Json.put(node, BAND_KEYS[k], v[k]);
-    }
-
-    private static Map<String, Object> commonLabels(List<ModelLimit> outcomes) {
-        Map<String, Object> common = new LinkedHashMap<>(outcomes.get(0).model().compiled().labels);
-        for (ModelLimit o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels.get(e.getKey())));
-        return common;
     }
 
     /** The table of limits, one row per model, ordered by x. */

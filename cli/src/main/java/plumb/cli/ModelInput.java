@@ -34,6 +34,19 @@ public final class ModelInput {
         public Loaded(Path file, Model model, CompiledModel compiled) {
             this(file, model, compiled, file);
         }
+
+        /** SHA-256 of the file's bytes, in hex: what identifies the model of a run. */
+        public String sha256() {
+            try (java.io.InputStream in = new java.security.DigestInputStream(java.nio.file.Files.newInputStream(content),
+                    java.security.MessageDigest.getInstance("SHA-256"))) {
+                in.transferTo(java.io.OutputStream.nullOutputStream());
+                return java.util.HexFormat.of().formatHex(((java.security.DigestInputStream) in).getMessageDigest().digest());
+            } catch (java.io.IOException e) {
+                throw new InputException(file + ": cannot read: " + Outputs.cause(e));
+            } catch (java.security.NoSuchAlgorithmException e) {
+                throw new IllegalStateException(e); // every Java platform has SHA-256
+            }
+        }
     }
 
     public Loaded load() {

@@ -66,7 +66,7 @@ final class ReportCommand implements Callable<Integer> {
     public Integer call() {
         if (toys < 0) throw new InputException("--toys must be at least 0, got " + toys);
         if (impactsTop < 1) throw new InputException("--impacts-top must be at least 1, got " + impactsTop);
-        List<Path> files = LimitCommand.modelFiles(models);
+        List<Path> files = ModelLabels.modelFiles(models);
         ReportJob job = new ReportJob(files, fit, toys, impactsTop, label);
         job.templates = templates;
         return run(job, out, spec.commandLine().getOut(),

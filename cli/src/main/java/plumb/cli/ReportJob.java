@@ -12,8 +12,13 @@ import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.AsimovClosure;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.Fitter;
+import plumb.engine.inference.InjectionStudy;
 import plumb.engine.inference.InjectionSummary;
+import plumb.engine.inference.InjectionToyBatch;
+import plumb.engine.inference.InjectionToys;
+import plumb.engine.inference.MemoryBudget;
 import plumb.engine.inference.ProfileScan;
+import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.Yields;
 
 import java.io.IOException;
@@ -55,6 +60,9 @@ final class ReportJob {
      * above it, which lifts the mean fitted value there and bends the line for no fault of the fit.
      */
     static final double[] INJECTED = {1, 2, 3};
+
+    /** Confidence level of the report's limits: the limit command's default. */
+    static final double LIMIT_CL = 0.95;
 
     /** Points of the POI scan: the scan command's default. */
     static final int SCAN_POINTS = 21;
@@ -201,7 +209,7 @@ final class ReportJob {
             in = in.withGoodnessOfFit(ReportAssembler.gof(gof.result()));
         }
 
-        in = injection(in, main, hasPoi);
+        in = injection(in, main, p, hasPoi);
 
         RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.content()),
                 p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
@@ -240,15 +248,27 @@ final class ReportJob {
             failures.add(new RunSummary.Failure("limits", "the model names no parameter of interest (poi)"));
             return in;
         }
-        LimitCommand command = LimitCommand.asymptotic(files, fit, label);
-        LimitCommand.LimitTable limits = section("limits", command::compute);
-        if (limits == null) return in;
-        attach("limit", command.toJson(limits.outcomes(), limits.key()));
-        if (!limits.errors().isEmpty()) failures.add(new RunSummary.Failure("limits", String.join("; ", limits.errors())));
+        // Asymptotic limits at 95 % CL of every model, ordered by the label: plumb limit FILES [--label KEY].
+        List<ModelInput.Loaded> loaded = new ArrayList<>();
+        for (Path f : files) loaded.add(ModelInput.load(f));
+        String key = ModelLabels.key(loaded, label);
+        double[] xs = new double[loaded.size()];
+        for (int i = 0; i < xs.length; i++) xs[i] = ModelLabels.x(loaded.get(i), key);
+        List<ModelLimit> outcomes = section("limits", () -> {
+            List<PoiData> data = new ArrayList<>();
+            for (ModelInput.Loaded l : loaded) data.add(PoiData.resolve(l.file(), l.compiled(), fit, 0.0, 0.0));
+            try (WorkRunner runner = WorkRunner.threads(fit.threadCount())) {
+                return ModelLimit.asymptotic(loaded, xs, data, LIMIT_CL, runner);
+            }
+        });
+        if (outcomes == null) return in;
+        attach("limit", LimitJson.of(outcomes, key, LIMIT_CL, null, fit.seed));
+        List<String> errors = ModelLimit.errors(outcomes);
+        if (!errors.isEmpty()) failures.add(new RunSummary.Failure("limits", String.join("; ", errors)));
         List<LimitBands.Point> points = new ArrayList<>();
-        for (LimitCommand.ModelLimit o : limits.outcomes()) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
-        CompiledModel m = limits.outcomes().get(0).model().compiled();
-        return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", 0.95, limits.key(), points));
+        for (ModelLimit o : outcomes) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
+        CompiledModel m = outcomes.get(0).model().compiled();
+        return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", LIMIT_CL, key, points));
     }
 
     /** Rays of the report's contour: enough for a smooth curve, half the command's default for speed. */
@@ -323,17 +343,50 @@ final class ReportJob {
         return pick;
     }
 
-    private ReportInput injection(ReportInput in, ModelInput.Loaded main, boolean hasPoi) {
+    /** What the injection section ran: the toys and the closure checks. */
+    private record Injection(InjectionToyBatch toys, List<AsimovClosure> closures) {
+    }
+
+    /**
+     * The injection section: {@code plumb inject MODEL --mu 1,2,3 --toys T --asimov} with the shared
+     * options (toys at the nominal nuisance values, auxiliary values fluctuated, the closure check
+     * at every value), through the engine's {@link InjectionStudy}.
+     */
+    private ReportInput injection(ReportInput in, ModelInput.Loaded main, FitOptions.Prepared p, boolean hasPoi) {
         CompiledModel m = main.compiled();
-        InjectCommand.InjectionRun inj = section("injection", () -> {
+        Injection inj = section("injection", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
+            if (p.problem().holds(m.parameterNames[m.poi])) {
+                throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held in an injection");
+            }
+            if (m.fixed[m.poi]) throw new InputException(main.file() + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
             List<Double> mu = new ArrayList<>();
             for (double x : INJECTED) if (x >= m.lower[m.poi] && x <= m.upper[m.poi]) mu.add(x);
             if (mu.isEmpty()) throw new ComputationException("none of the injected values 1, 2, 3 is inside the POI's range");
-            return InjectCommand.withClosure(mu, toys, fit).compute(main, false, null);
+            InjectionToys engine = new InjectionToys(p.problem());
+            try {
+                MemoryBudget.requireInjectionToys(toys, mu.size(), engine.pulledParameters().length,
+                        String.format(Locale.ROOT, "--toys %d (%d toys x %d injected values, every toy's fit kept)", toys,
+                                toys, mu.size()), "run fewer toys");
+            } catch (MemoryBudget.TooLargeException e) {
+                throw new InputException(e.getMessage());   // a bad option: exit status 2, nothing written
+            }
+            InjectionStudy study = new InjectionStudy(engine, mu, false);
+            List<AsimovClosure> closures = new ArrayList<>();
+            for (int k = 0; k < mu.size(); k++) closures.add(study.closure(k));
+            List<InjectionToyBatch.ValueFits> fits = new ArrayList<>();
+            try (WorkRunner runner = WorkRunner.threads(fit.threadCount())) {
+                for (int k = 0; k < mu.size(); k++) fits.add(study.toys(k, fit.seed, true, 0, toys, runner, null));
+            }
+            List<String> fixed = new ArrayList<>();
+            p.problem().held().forEach((name, v) -> fixed.add(name + "=" + v));
+            ObjectNode run = InjectionToyBatch.runIdentity(m.name, main.sha256(), m.parameterNames[m.poi], mu, "nominal",
+                    true, fit.seed, fixed, p.settings());
+            return new Injection(new InjectionToyBatch(run, m.labels, study.nuisanceNames(), 0, toys, fits), closures);
         });
         if (inj == null) return in;
-        attach("inject", inj.toJson());
+        List<InjectionSummary> summaries = inj.toys().summaries();
+        attach("inject", InjectionJson.of(inj.toys(), m, inj.closures(), summaries));
         String poi = m.parameterNames[m.poi];
         for (AsimovClosure c : inj.closures()) {
             if (!c.fit().converged()) {
@@ -345,7 +398,7 @@ final class ReportJob {
                         Numbers.plain(c.injected()), m.parameterNames[c.worstParameter()], c.maxDeviation())));
             }
         }
-        for (InjectionSummary s : inj.summaries()) {
+        for (InjectionSummary s : summaries) {
             if (s.toys() > 0 && s.converged() == 0) {
                 failures.add(new RunSummary.Failure("injection", String.format(Locale.ROOT, "no toy fit at %s = %s converged",
                         poi, Numbers.plain(s.injected()))));
@@ -356,7 +409,7 @@ final class ReportJob {
             }
         }
         return in.withClosures(ReportAssembler.closures(m, inj.closures()))
-                .withInjection(inj.toyFits().count() > 0 ? ReportAssembler.injection(inj.summaries()) : List.of());
+                .withInjection(inj.toys().count() > 0 ? ReportAssembler.injection(summaries) : List.of());
     }
 
     /**

@@ -15,7 +15,21 @@ public record AsymptoticLimitWork(List<Inputs> inputs, double cl) implements Wor
 
     /** What one model's limit needs besides the model. */
     public record Inputs(DataSet data, DataSet expected, FitSettings settings, int[] held, double[] heldValues)
-            implements Serializable { }
+            implements Serializable {
+        /** The data sets of a POI test as resolved ({@link DataRequest#forPoiTest} with expected POI 0). */
+        public static Inputs of(DataRequest.PoiTestData d) {
+            Problem p = d.problem();
+            return new Inputs(d.data(), d.expected(), p.settings(), p.heldIndices(), p.heldValues());
+        }
+    }
+
+    /**
+     * The asymptotic limits of several models at confidence level {@code cl}, one model per
+     * thread or task of {@code runner}, in the models' order.
+     */
+    public static List<Limit> compute(List<CompiledModel> models, List<Inputs> inputs, double cl, WorkRunner runner) {
+        return runner.runEach(models, new AsymptoticLimitWork(inputs, cl), null);
+    }
 
     /** A model's limit, or why it has none. */
     public record Limit(LimitResult result, String error) implements Serializable { }
