@@ -64,7 +64,7 @@ final class DiscoveryCommand implements Callable<Integer> {
         Discovery.Significance observed = c.observed(), expected = c.expected();
         ToyPValue toy = c.toy();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, c, fit.seed)), out);
+        if (json != null) Outputs.write(json, Json.write(DiscoveryJson.of(m, c.data(), c.observed(), c.expected(), c.toy(), fit.seed)), out);
         if (!"-".equals(json)) print(out, l, d, observed, expected, toy);
         return ExitCodes.OK;
     }
@@ -139,39 +139,6 @@ final class DiscoveryCommand implements Callable<Integer> {
             throw new ComputationException(e.getMessage());
         }
         return new DiscoveryTests(d, observed, expected, toy);
-    }
-
-    /** The discovery result file of docs/cli-contract.md; {@code seed} is reported with toys. */
-    static ObjectNode toJson(CompiledModel m, DiscoveryTests c, long seed) {
-        PoiData d = c.data();
-        Discovery.Significance observed = c.observed(), expected = c.expected();
-        ToyPValue toy = c.toy();
-        ObjectNode root = Json.result(m.labels, d.kind());
-        root.put("poi", m.parameterNames[m.poi]);
-        root.put("statistic", "q0");
-        if (observed == null) root.putNull("observed");
-        else put(root.putObject("observed"), observed);
-        ObjectNode e = root.putObject("expected");
-        put(e, expected);
-        e.put("asimovPoi", d.expectedPoi());
-        if (toy != null) {
-            ObjectNode t = root.putObject("toys");
-            t.put("toys", toy.toys());
-            t.put("failed", toy.failed());
-            t.put("exceeding", toy.exceeding());
-            Json.put(t, "p", toy.p());
-            Json.put(t, "pError", toy.error());
-            Json.put(t, "z", toy.z());
-            t.put("seed", seed);
-        }
-        return root;
-    }
-
-    private static void put(ObjectNode node, Discovery.Significance s) {
-        Json.put(node, "q0", s.q0());
-        Json.put(node, "z", s.z());
-        Json.put(node, "p", s.p());
-        Json.put(node, "muHat", s.muHat());
     }
 
     private void print(PrintWriter out, ModelInput.Loaded l, PoiData d, Discovery.Significance observed,

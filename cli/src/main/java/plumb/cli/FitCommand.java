@@ -68,7 +68,7 @@ final class FitCommand implements Callable<Integer> {
         Map<Integer, double[]> profile = ProfileIntervals.withKinks(m, p, r, intervalParams, fit.threadCount());
         PrintWriter out = spec.commandLine().getOut();
         if (json != null) {
-            ObjectNode root = ProfileIntervals.addTo(toJson(m, p, r), m, profile);
+            ObjectNode root = ProfileIntervals.addTo(FitJson.of(m, p, r), m, profile);
             if (starts != null) root.put("starts", starts);
             if (!r.converged()) root.put("failure", "the fit did not converge (" + r.status() + ")");
             Outputs.write(json, Json.write(root), out);
@@ -86,69 +86,6 @@ final class FitCommand implements Callable<Integer> {
         return ExitCodes.OK;
     }
 
-    /** The fit result file of docs/cli-contract.md. */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, FitResult r) {
-        ObjectNode root = Json.result(m.labels, p.kind());
-        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
-        root.put("converged", r.converged());
-        root.put("status", r.status().name());
-        Json.put(root, "nll", r.nll());
-        ArrayNode params = root.putArray("parameters");
-        for (int i = 0; i < m.nAll; i++) {
-            ObjectNode o = params.addObject();
-            o.put("name", m.parameterNames[i]);
-            o.put("kind", m.kind[i].name().toLowerCase(Locale.ROOT));
-            Json.put(o, "value", r.values()[i]);
-            // at a bound the minimum is no stationary point: the curvature there is no error (null);
-            // --intervals gives the one-sided profile interval
-            Json.put(o, "error", r.checks().bound()[i] != 0 ? Double.NaN : r.errors()[i]);
-            Json.put(o, "prefitValue", m.nominal[i]);
-            Json.put(o, "prefitWidth", m.prefitWidth[i]);
-            Json.put(o, "pull", Pulls.pull(m, r, i));
-            Json.put(o, "constraint", Pulls.constraint(m, r, i));
-            o.put("fixed", r.held()[i]);
-            o.put("atKink", r.atKink()[i]);
-            byte bound = r.checks().bound()[i];
-            if (bound == 0) o.putNull("atBound");
-            else o.put("atBound", bound < 0 ? "lower" : "upper");
-        }
-        FitChecks checks = r.checks();
-        root.put("nearSingular", checks.nearSingular());
-        Json.put(root, "smallestCorrelationEigenvalue", checks.smallestEigenvalue());
-        ArrayNode degenerate = root.putArray("degenerate");
-        for (int i : checks.degenerate()) degenerate.add(m.parameterNames[i]);
-        root.put("severalMinima", r.severalMinima());
-        ArrayNode others = root.putArray("otherMinima");
-        for (FitResult.OtherMinimum o : r.otherMinima()) {
-            ObjectNode e = others.addObject();
-            Json.put(e, "nllAboveBest", o.nllAboveBest());
-            ArrayNode differ = e.putArray("differences");
-            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
-                ObjectNode d = differ.addObject();
-                d.put("name", m.parameterNames[i]);
-                Json.put(d, "value", o.values()[i]);
-                Json.put(d, "bestValue", r.values()[i]);
-            }
-        }
-        ObjectNode corr = root.putObject("correlation");
-        List<Integer> free = new ArrayList<>();
-        for (int i = 0; i < m.nParams; i++) if (!r.held()[i]) free.add(i);
-        ArrayNode names = corr.putArray("names");
-        free.forEach(i -> names.add(m.parameterNames[i]));
-        ArrayNode matrix = corr.putArray("matrix");
-        for (int i : free) {
-            ArrayNode row = matrix.addArray();
-            for (int j : free) Json.add(row, r.correlation(i, j, m.nParams));
-        }
-        ObjectNode timing = root.putObject("timing");
-        timing.put("seconds", r.seconds());
-        timing.put("evaluations", r.evaluations());
-        return root;
-    }
-
-    /** Parameters listed per other minimum: those that differ most from the best fit. */
-    static final int MOST_DIFFERENT = 3;
-
     /** The other minima the fit met, and why parameters on a kink carry a profile interval. */
     static void printOtherMinima(PrintWriter out, CompiledModel m, FitResult r) {
         if (r.anyAtKink()) {
@@ -163,7 +100,7 @@ final class FitCommand implements Callable<Integer> {
                 r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a");
         for (FitResult.OtherMinimum o : r.otherMinima()) {
             StringBuilder b = new StringBuilder();
-            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
+            for (int i : o.mostDifferent(m, r, FitJson.MOST_DIFFERENT)) {
                 b.append(b.length() == 0 ? "" : ", ").append(m.parameterNames[i]).append(' ')
                         .append(Numbers.fixed(o.values()[i], 2)).append(" (here ").append(Numbers.fixed(r.values()[i], 2))
                         .append(')');
@@ -179,7 +116,7 @@ final class FitCommand implements Callable<Integer> {
         if (r.severalMinima()) {
             FitResult.OtherMinimum o = r.otherMinima().get(0);
             List<String> names = new ArrayList<>();
-            for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) names.add(m.parameterNames[i]);
+            for (int i : o.mostDifferent(m, r, FitJson.MOST_DIFFERENT)) names.add(m.parameterNames[i]);
             out.add(String.format(Locale.ROOT, "the model has several minima: the fit met %d other minim%s of -ln L "
                             + "(the nearest %.4g above, differing most in %s); results use the lowest",
                     r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a", o.nllAboveBest(), String.join(", ", names)));

@@ -49,7 +49,7 @@ final class GofCommand implements Callable<Integer> {
         GoodnessOfFit.Result r = c.result();
         ToyPValue toy = c.toy();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, c, fit.seed)), out);
+        if (json != null) Outputs.write(json, Json.write(GofJson.of(m, p, c.result(), c.toy(), fit.seed)), out);
         if (!"-".equals(json)) print(out, l, p, r, toy);
         return ExitCodes.OK;
     }
@@ -83,36 +83,6 @@ final class GofCommand implements Callable<Integer> {
         } catch (InferenceException e) {
             throw new ComputationException(e.getMessage());
         }
-    }
-
-    /** The goodness-of-fit result file of docs/cli-contract.md; {@code seed} is reported with toys. */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, GofTests computed, long seed) {
-        GoodnessOfFit.Result r = computed.result();
-        ToyPValue toy = computed.toy();
-        ObjectNode root = Json.result(m.labels, p.kind());
-        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
-        root.put("method", "saturated");
-        Json.put(root, "statistic", r.statistic());
-        root.put("ndof", r.ndof());
-        Json.put(root, "p", r.p());
-        Json.put(root, "constraintStatistic", r.constraintStatistic());
-        ArrayNode channels = root.putArray("channels");
-        for (int c = 0; c < m.nChannels; c++) {
-            ObjectNode o = channels.addObject();
-            o.put("name", m.channelNames[c]);
-            o.put("bins", r.channelBins()[c]);
-            Json.put(o, "statistic", r.channelStatistic()[c]);
-        }
-        if (toy != null) {
-            ObjectNode t = root.putObject("toys");
-            t.put("toys", toy.toys());
-            t.put("failed", toy.failed());
-            t.put("exceeding", toy.exceeding());
-            Json.put(t, "p", toy.p());
-            Json.put(t, "pError", toy.error());
-            t.put("seed", seed);
-        }
-        return root;
     }
 
     private void print(PrintWriter out, ModelInput.Loaded l, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy) {

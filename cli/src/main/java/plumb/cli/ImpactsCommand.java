@@ -68,7 +68,7 @@ final class ImpactsCommand implements Callable<Integer> {
         List<Impacts.Entry> entries = c.entries();
         Impacts.Breakdown breakdown = c.breakdown();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, best, entries, breakdown)), out);
+        if (json != null) Outputs.write(json, Json.write(ImpactsJson.of(m, p, best, entries, breakdown)), out);
         if (!"-".equals(json)) printTable(out, m, p, best, entries, breakdown);
         long failed = c.failedRefits();
         if (failed > 0) {
@@ -111,55 +111,6 @@ final class ImpactsCommand implements Callable<Integer> {
             entries = impacts.rank(exact, runner, bar.callback());
         }
         return new ImpactRanking(entries, impacts.breakdown());
-    }
-
-    /** The impacts result file of docs/cli-contract.md, with the linearised shifts and the breakdown added. */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, FitResult best, List<Impacts.Entry> entries,
-                             Impacts.Breakdown breakdown) {
-        ObjectNode root = Json.result(m.labels, p.kind());
-        if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
-        root.put("poi", m.parameterNames[m.poi]);
-        Json.put(root, "poiValue", best.values()[m.poi]);
-        Json.put(root, "poiError", best.errors()[m.poi]);
-        ArrayNode list = root.putArray("impacts");
-        for (Impacts.Entry e : entries) {
-            ObjectNode o = list.addObject();
-            o.put("parameter", e.name());
-            Json.put(o, "pull", e.pull());
-            Json.put(o, "constraint", e.constraint());
-            putShift(o, "prefit", e.prefit());
-            putShift(o, "postfit", e.postfit());
-            ObjectNode lin = o.putObject("linearised");
-            putShift(lin, "prefit", e.linearPrefit());
-            putShift(lin, "postfit", e.linearPostfit());
-            o.put("refitted", e.refitted());
-        }
-        ObjectNode b = root.putObject("breakdown");
-        Json.put(b, "total", breakdown.total());
-        Json.put(b, "statOnly", breakdown.statOnly());
-        ArrayNode groups = b.putArray("groups");
-        for (Impacts.Contribution c : breakdown.groups()) {
-            ObjectNode g = groups.addObject();
-            g.put("name", c.group());
-            g.put("parameters", c.members());
-            Json.put(g, "error", c.contribution());
-            Json.put(g, "fixedError", c.fixedError());
-        }
-        return root;
-    }
-
-    private static void putShift(ObjectNode parent, String key, Impacts.Shift s) {
-        if (s == null) {
-            parent.putNull(key);
-            return;
-        }
-        ObjectNode o = parent.putObject(key);
-        Json.put(o, "up", s.up());
-        Json.put(o, "down", s.down());
-        if (s.upStatus() != null) {
-            o.put("upStatus", s.upStatus().name());
-            o.put("downStatus", s.downStatus().name());
-        }
     }
 
     private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult best,

@@ -10,7 +10,12 @@ import plumb.cli.report.Results;
 import plumb.cli.report.RunSummary;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.AsimovClosure;
+import plumb.engine.inference.Discovery;
 import plumb.engine.inference.FitResult;
+import plumb.engine.inference.GoodnessOfFit;
+import plumb.engine.inference.Impacts;
+import plumb.engine.inference.PostfitCovariance;
+import plumb.engine.inference.Problem;
 import plumb.engine.inference.Fitter;
 import plumb.engine.inference.InjectionStudy;
 import plumb.engine.inference.InjectionSummary;
@@ -138,12 +143,12 @@ final class ReportJob {
         boolean hasPoi = m.poi >= 0;
 
         List<String> checkWarnings = CheckCommand.warnings(main);
-        attach("check", CheckCommand.toJson(m, checkWarnings));
+        attach("check", CheckCommand.toJson(m, checkWarnings));   // a summary of the model: no computation
         warnings.addAll(checkWarnings);
 
-        Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
+        Fitter fitter = new Fitter(p.problem());
         FitResult best = fitter.fit();
-        attach("fit", ProfileIntervals.addTo(FitCommand.toJson(m, p, best), m,
+        attach("fit", ProfileIntervals.addTo(FitJson.of(m, p, best), m,
                 ProfileIntervals.withKinks(m, p, best, new int[0], threads)));
         warnings.addAll(FitCommand.minimaWarnings(m, best));
         warnings.addAll(FitCommand.checkWarnings(m, best));
@@ -152,9 +157,17 @@ final class ReportJob {
                 .withFit(ReportAssembler.fit(m, best)).withCutFlow(cutFlow);
 
         if (hasPoi) {
-            ImpactsCommand.ImpactRanking impacts = section("impacts", () -> ImpactsCommand.compute(m, p, best, impactsTop, false, threads));
+            // plumb impacts MODEL --exact-top N: the ranking with the top N refitted exactly, and the breakdown
+            ImpactsCommand.ImpactRanking impacts = section("impacts", () -> {
+                if (!best.converged() || best.covariance() == null) {
+                    throw new ComputationException("the best fit did not converge (" + best.status() + "); no impacts");
+                }
+                Impacts engine = new Impacts(p.problem(), best, false);
+                List<Impacts.Entry> entries = engine.rank(Math.min(impactsTop, engine.candidates().length), threads, null);
+                return new ImpactsCommand.ImpactRanking(entries, engine.breakdown());
+            });
             if (impacts != null) {
-                attach("impacts", ImpactsCommand.toJson(m, p, best, impacts.entries(), impacts.breakdown()));
+                attach("impacts", ImpactsJson.of(m, p, best, impacts.entries(), impacts.breakdown()));
                 for (var e : impacts.entries()) {
                     if (e.refitted() && !(e.postfit().converged() && e.prefit().converged())) {
                         nonConverged.add("impacts: a refit with " + e.name() + " held");
@@ -167,19 +180,29 @@ final class ReportJob {
             failures.add(new RunSummary.Failure("impacts", "the model names no parameter of interest (poi)"));
         }
 
-        List<Yields.ChannelYields> yields = section("yields", () -> YieldsCommand.compute(m, p, fitter, best));
+        List<Yields.ChannelYields> yields = section("yields", () -> {
+            if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no post-fit yields");
+            PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
+            if (cov == null) throw new ComputationException("the post-fit covariance is not positive definite; no post-fit errors");
+            return Yields.compute(p.problem(), best, cov);
+        });
         if (yields != null) {
-            attach("yields", YieldsCommand.toJson(m, p, yields));
+            attach("yields", YieldsJson.of(m, p, yields));
             in = in.withYields(ReportAssembler.yields(main.model(), m, yields));
         }
 
         ScanCommand.ScanProfile scan = section("scan", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
             if (best.held()[m.poi]) throw new ComputationException("the POI is held, it cannot be scanned");
-            return ScanCommand.compute(m, p, m.poi, best, null, SCAN_POINTS, threads);
+            if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
+            // plumb scan MODEL: the POI over the default range, re-based to the lowest -ln L found
+            ProfileScan engine = new ProfileScan(p.problem(), best);
+            double[] range = ProfileScan.defaultRange(m, best, m.poi);
+            return new ScanCommand.ScanProfile(ProfileScan.rebased(engine.points(m.poi, range[0], range[1], SCAN_POINTS, threads, null)),
+                    engine.intervals(m.poi, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads));
         });
         if (scan != null) {
-            attach("scan", ScanCommand.toJson(m, p, m.poi, best, scan.points(), scan.intervals()));
+            attach("scan", ScanJson.of(m, p, m.poi, best, scan.points(), scan.intervals()));
             for (ProfileScan.Point x : scan.points()) {
                 if (Double.isNaN(x.nllAboveMin())) nonConverged.add(String.format(Locale.ROOT, "scan point %s = %s (%s)",
                         m.parameterNames[m.poi], Numbers.plain(x.value()), x.status()));
@@ -193,20 +216,30 @@ final class ReportJob {
 
         DiscoveryCommand.DiscoveryTests discovery = section("discovery", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
-            return DiscoveryCommand.compute(main, fit, null);
+            // plumb discovery MODEL: observed (unless blinded) and expected on the Asimov set at --asimov-poi (default 1)
+            double expectedPoi = fit.asimovPoi == null ? 1.0 : fit.asimovPoi;
+            try {
+                plumb.engine.inference.DataRequest.requireInRange(m, expectedPoi);
+            } catch (plumb.engine.inference.DataRequest.Refused e) {
+                throw fit.refused(e, main.file());
+            }
+            PoiData d = PoiData.resolve(main.file(), m, fit, expectedPoi, expectedPoi);
+            Problem onExpected = d.sets().problem();
+            return new DiscoveryCommand.DiscoveryTests(d, d.blinded() ? null : Discovery.compute(onExpected.withData(d.data())),
+                    Discovery.compute(onExpected), null);
         });
         if (discovery != null) {
-            attach("discovery", DiscoveryCommand.toJson(m, discovery, fit.seed));
+            attach("discovery", DiscoveryJson.of(m, discovery.data(), discovery.observed(), discovery.expected(), null, fit.seed));
             in = in.withDiscovery(ReportAssembler.discovery(discovery.observed(), discovery.expected()));
         }
 
         in = limits(in, hasPoi);
         in = planning(in, main, p, best, hasPoi);
 
-        GofCommand.GofTests gof = section("gof", () -> GofCommand.compute(m, p, fit, null));
+        GoodnessOfFit.Result gof = section("gof", () -> GoodnessOfFit.compute(p.problem()));
         if (gof != null) {
-            attach("gof", GofCommand.toJson(m, p, gof, fit.seed));
-            in = in.withGoodnessOfFit(ReportAssembler.gof(gof.result()));
+            attach("gof", GofJson.of(m, p, gof, null, fit.seed));
+            in = in.withGoodnessOfFit(ReportAssembler.gof(gof));
         }
 
         in = injection(in, main, p, hasPoi);

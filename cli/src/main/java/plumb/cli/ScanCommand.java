@@ -63,7 +63,7 @@ final class ScanCommand implements Callable<Integer> {
         List<ProfileScan.Point> pts = c.points();
         List<ProfileScan.Interval> intervals = c.intervals();
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, k, best, pts, intervals)), out);
+        if (json != null) Outputs.write(json, Json.write(ScanJson.of(m, p, k, best, pts, intervals)), out);
         if (!"-".equals(json)) printTable(out, m, k, best, pts, intervals);
         long failed = c.failedRefits();
         if (failed > 0) {
@@ -124,31 +124,6 @@ final class ScanCommand implements Callable<Integer> {
         } catch (NumberFormatException e) {
             throw new InputException("--range " + text + ": expected two numbers LO:HI");
         }
-    }
-
-    /** The scan result file of docs/cli-contract.md; the points re-based (nllAboveMin from the lowest −ln L found). */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, int k, FitResult best,
-                             List<ProfileScan.Point> pts, List<ProfileScan.Interval> intervals) {
-        ObjectNode root = Json.result(m.labels, p.kind());
-        root.put("parameter", m.parameterNames[k]);
-        ArrayNode a = root.putArray("points");
-        for (ProfileScan.Point x : pts) {
-            ObjectNode o = a.addObject();
-            Json.put(o, "value", x.value());
-            Json.put(o, "nllAboveMin", x.nllAboveMin());
-            o.put("status", x.status().name());
-        }
-        Json.put(root, "best", best.values()[k]);
-        Json.put(root, "error", best.errors()[k]);
-        interval(root, "interval68", intervals.get(0));
-        interval(root, "interval95", intervals.get(1));
-        return root;
-    }
-
-    private static void interval(ObjectNode root, String key, ProfileScan.Interval iv) {
-        ArrayNode a = root.putArray(key);
-        Json.add(a, iv.low());
-        Json.add(a, iv.high());
     }
 
     private void printTable(PrintWriter out, CompiledModel m, int k, FitResult best, List<ProfileScan.Point> pts,

@@ -52,7 +52,7 @@ final class YieldsCommand implements Callable<Integer> {
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         Fitter fitter = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues());
         List<Yields.ChannelYields> yields = compute(m, p, fitter, fitter.fit());
-        if (json != null) Outputs.write(json, Json.write(toJson(m, p, yields)), spec.commandLine().getOut());
+        if (json != null) Outputs.write(json, Json.write(YieldsJson.of(m, p, yields)), spec.commandLine().getOut());
         if (!"-".equals(json) || outFile != null) {
             StringBuilder text = new StringBuilder();
             for (Table t : tables(m, yields)) {
@@ -77,37 +77,6 @@ final class YieldsCommand implements Callable<Integer> {
         double[] prefitValues = m.nominal.clone();
         for (int i = 0; i < p.held().length; i++) prefitValues[p.held()[i]] = p.heldValues()[i];
         return Yields.compute(m, p.data(), prefitValues, best.held(), best, cov);
-    }
-
-    /** The yields result file of docs/cli-contract.md, with channel sums added. */
-    static ObjectNode toJson(CompiledModel m, FitOptions.Prepared p, List<Yields.ChannelYields> yields) {
-        ObjectNode root = Json.result(m.labels, p.kind());
-        ArrayNode channels = root.putArray("channels");
-        for (Yields.ChannelYields c : yields) {
-            ObjectNode o = channels.addObject();
-            o.put("name", c.name());
-            if (c.observed() == null) o.putNull("observed");
-            else Json.array(o, "observed", c.observed());
-            ArrayNode samples = o.putArray("samples");
-            for (Yields.SampleYields s : c.samples()) {
-                ObjectNode so = samples.addObject();
-                so.put("name", s.name());
-                band(so, "prefit", s.prefit());
-                band(so, "postfit", s.postfit());
-            }
-            ObjectNode total = o.putObject("total");
-            band(total, "prefit", c.totalPrefit());
-            band(total, "postfit", c.totalPostfit());
-        }
-        return root;
-    }
-
-    private static void band(ObjectNode parent, String key, Yields.Band b) {
-        ObjectNode o = parent.putObject(key);
-        Json.array(o, "yields", b.values());
-        Json.array(o, "errors", b.errors());
-        Json.put(o, "sum", b.sum());
-        Json.put(o, "sumError", b.sumError());
     }
 
     /** Per channel a pre-fit and a post-fit table: one row per bin and a sum row; samples, total, data, data/total. */
