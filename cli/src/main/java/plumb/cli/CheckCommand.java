@@ -38,27 +38,27 @@ final class CheckCommand implements Callable<Integer> {
         CompiledModel m = loaded.compiled();
         List<String> warnings = warnings(loaded);
         PrintWriter out = spec.commandLine().getOut();
-        int factors = factors(m), nuisances = m.nParams - factors - binFactors(m);
+        int factors = factors(m), nuisances = m.nParams() - factors - binFactors(m);
         if (json != null) {
             var root = toJson(m, warnings);
             if (failure(warnings) != null) Json.failed(root, failure(warnings));
             Outputs.write(json, Json.write(root), out);
             if ("-".equals(json)) return status(warnings);
         }
-        out.printf("%s: valid model '%s'%n", loaded.file(), m.name);
-        out.printf("  %s, %s, %s%n", Numbers.count(m.nChannels, "channel"), Numbers.count(m.nBins, "bin"),
-                Numbers.count(m.nSamples, "sample"));
-        out.printf("  %s: %s, %s, %s%s%n", Numbers.count(m.nAll, "parameter"), Numbers.count(factors, "free factor"),
-                Numbers.count(nuisances, "nuisance parameter"), Numbers.count(m.nGamma, "MC-statistics parameter"),
+        out.printf("%s: valid model '%s'%n", loaded.file(), m.name());
+        out.printf("  %s, %s, %s%n", Numbers.count(m.nChannels(), "channel"), Numbers.count(m.nBins(), "bin"),
+                Numbers.count(m.nSamples(), "sample"));
+        out.printf("  %s: %s, %s, %s%s%n", Numbers.count(m.nAll(), "parameter"), Numbers.count(factors, "free factor"),
+                Numbers.count(nuisances, "nuisance parameter"), Numbers.count(m.nGamma(), "MC-statistics parameter"),
                 binFactors(m) == 0 ? "" : ", " + Numbers.count(binFactors(m), "per-bin free factor"));
-        out.printf("  parameter of interest: %s%n", m.poi < 0 ? "(none)" : m.parameterNames[m.poi]);
-        for (int c = 0; c < m.nChannels; c++) {
-            out.printf("  channel %-20s %4d %s%s%n", m.channelNames[c], m.bins(c), m.bins(c) == 1 ? "bin" : "bins",
-                    m.observed[c] == null ? "  (blinded)" : "");
+        out.printf("  parameter of interest: %s%n", m.poi() < 0 ? "(none)" : m.parameterNames(m.poi()));
+        for (int c = 0; c < m.nChannels(); c++) {
+            out.printf("  channel %-20s %4d %s%s%n", m.channelNames(c), m.bins(c), m.bins(c) == 1 ? "bin" : "bins",
+                    m.blinded(c) ? "  (blinded)" : "");
         }
-        if (!m.pruned.isEmpty()) {
-            out.printf("  pruned %s (options.pruneBelow):%n", Numbers.count(m.pruned.size(), "variation part"));
-            m.pruned.forEach(p -> out.println("    " + p));
+        if (!m.pruned().isEmpty()) {
+            out.printf("  pruned %s (options.pruneBelow):%n", Numbers.count(m.pruned().size(), "variation part"));
+            m.pruned().forEach(p -> out.println("    " + p));
         }
         if (!warnings.isEmpty()) {
             out.printf("  %s:%n", Numbers.count(warnings.size(), "warning"));
@@ -84,7 +84,7 @@ final class CheckCommand implements Callable<Integer> {
 
     /** The compiler's warnings (one-sided and over-100 % variations), then the lint warnings. */
     static List<String> warnings(ModelInput.Loaded loaded) {
-        List<String> all = new ArrayList<>(loaded.compiled().warnings);
+        List<String> all = new ArrayList<>(loaded.compiled().warnings());
         all.addAll(Lint.warnings(loaded.model()));
         return all;
     }
@@ -92,19 +92,19 @@ final class CheckCommand implements Callable<Integer> {
     /** The check result file of docs/cli-contract.md. */
     static ObjectNode toJson(CompiledModel m, List<String> warningLines) {
         int factors = factors(m);
-        ObjectNode root = Json.result(m.labels, m.anyBlinded() ? "blinded" : "observed");
+        ObjectNode root = Json.result(m.labels(), m.anyBlinded() ? "blinded" : "observed");
         root.put("valid", true);
-        root.put("channels", m.nChannels);
-        root.put("bins", m.nBins);
-        root.put("samples", m.nSamples);
-        root.put("parameters", m.nAll);
+        root.put("channels", m.nChannels());
+        root.put("bins", m.nBins());
+        root.put("samples", m.nSamples());
+        root.put("parameters", m.nAll());
         root.put("freeFactors", factors);
-        root.put("nuisanceParameters", m.nParams - factors - binFactors(m));
+        root.put("nuisanceParameters", m.nParams() - factors - binFactors(m));
         root.put("binFactors", binFactors(m));
-        root.put("mcStatParameters", m.nGamma);
-        root.put("poi", m.poi < 0 ? null : m.parameterNames[m.poi]);
+        root.put("mcStatParameters", m.nGamma());
+        root.put("poi", m.poi() < 0 ? null : m.parameterNames(m.poi()));
         var pruned = root.putArray("pruned");
-        m.pruned.forEach(pruned::add);
+        m.pruned().forEach(pruned::add);
         var warnings = root.putArray("warnings");
         warningLines.forEach(warnings::add);
         return root;
@@ -112,13 +112,13 @@ final class CheckCommand implements Callable<Integer> {
 
     private static int binFactors(CompiledModel m) {
         int n = 0;
-        for (int i = 0; i < m.nParams; i++) if (m.kind[i] == ParameterKind.BIN_FACTOR) n++;
+        for (int i = 0; i < m.nParams(); i++) if (m.kind(i) == ParameterKind.BIN_FACTOR) n++;
         return n;
     }
 
     private static int factors(CompiledModel m) {
         int factors = 0;
-        for (int i = 0; i < m.nParams; i++) if (m.kind[i] == ParameterKind.FACTOR) factors++;
+        for (int i = 0; i < m.nParams(); i++) if (m.kind(i) == ParameterKind.FACTOR) factors++;
         return factors;
     }
 }

@@ -78,7 +78,7 @@ final class ContourCommand implements Callable<Integer> {
                     name.equals(x) ? "x" : "y", name, name));
         }
         java.util.Map<String, Double> held = new java.util.LinkedHashMap<>();
-        for (int k = 0; k < p.held().length; k++) held.put(m.parameterNames[p.held()[k]], p.heldValues()[k]);
+        for (int k = 0; k < p.held().length; k++) held.put(m.parameterNames(p.held()[k]), p.heldValues()[k]);
         try {
             return Contour.compute(plumb.engine.inference.Problem.of(m, p.data(), p.settings(), held), x, y,
                     Contour.DEFAULT_CLS, rays, fit.threadCount(), null);
@@ -91,7 +91,7 @@ final class ContourCommand implements Callable<Integer> {
 
     private static void print(PrintWriter out, ModelInput.Loaded l, Contour.Result r) {
         out.printf(Locale.ROOT, "Profile-likelihood regions of %s and %s for model '%s' (%s)%n", r.xName(), r.yName(),
-                l.compiled().name, l.file());
+                l.compiled().name(), l.file());
         out.printf(Locale.ROOT, "  best fit %s = %s ± %s, %s = %s ± %s, correlation %s%n", r.xName(),
                 Numbers.plain(r.xBest()), Numbers.plain(r.xError()), r.yName(), Numbers.plain(r.yBest()),
                 Numbers.plain(r.yError()), Numbers.fixed(r.correlation(), 3));
@@ -117,7 +117,7 @@ final class ContourCommand implements Callable<Integer> {
 
     /** The contour file of docs/cli-contract.md. */
     static ObjectNode toJson(CompiledModel m, String data, Contour.Result r) {
-        ObjectNode root = Json.result(m.labels, data);
+        ObjectNode root = Json.result(m.labels(), data);
         root.put("x", r.xName());
         root.put("y", r.yName());
         ObjectNode best = root.putObject("best");

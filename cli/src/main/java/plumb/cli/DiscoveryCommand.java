@@ -115,10 +115,10 @@ final class DiscoveryCommand implements Callable<Integer> {
         // The expected significance is on the Asimov set at --asimov-poi (default 1); --data asimov
         // then tests that same set.
         double expectedPoi = fit.asimovPoi == null ? 1.0 : fit.asimovPoi;
-        if (m.poi < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
-        if (!(expectedPoi >= m.lower[m.poi] && expectedPoi <= m.upper[m.poi])) {
+        if (m.poi() < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
+        if (!(expectedPoi >= m.lower(m.poi()) && expectedPoi <= m.upper(m.poi()))) {
             throw new InputException(String.format(Locale.ROOT, "--asimov-poi %s is outside the POI range [%s, %s]",
-                    expectedPoi, m.lower[m.poi], m.upper[m.poi]));
+                    expectedPoi, m.lower(m.poi()), m.upper(m.poi())));
         }
         PoiData d = PoiData.resolve(l.file(), m, fit, expectedPoi, expectedPoi);
         Discovery.Significance observed = null, expected;
@@ -144,8 +144,8 @@ final class DiscoveryCommand implements Callable<Integer> {
     private void print(PrintWriter out, ModelInput.Loaded l, PoiData d, Discovery.Significance observed,
                        Discovery.Significance expected, ToyPValue toy) {
         CompiledModel m = l.compiled();
-        String poi = m.parameterNames[m.poi];
-        out.printf(Locale.ROOT, "Discovery test of %s = 0 for model '%s' (%s)%n", poi, m.name, l.file());
+        String poi = m.parameterNames(m.poi());
+        out.printf(Locale.ROOT, "Discovery test of %s = 0 for model '%s' (%s)%n", poi, m.name(), l.file());
         out.printf(Locale.ROOT, "  method: profile likelihood ratio q0, one-sided; asymptotic Z = sqrt(q0), p = 1 - Phi(Z)"
                 + " (Cowan, Cranmer, Gross, Vitells 2011)%n");
         if (observed == null) {

@@ -15,8 +15,8 @@ final class DiscoveryJson {
     /** The discovery result file of docs/cli-contract.md; {@code seed} is reported with toys. */
     static ObjectNode of(CompiledModel m, PoiData d, Discovery.Significance observed, Discovery.Significance expected,
                          ToyPValue toy, long seed) {
-        ObjectNode root = Json.result(m.labels, d.kind());
-        root.put("poi", m.parameterNames[m.poi]);
+        ObjectNode root = Json.result(m.labels(), d.kind());
+        root.put("poi", m.parameterNames(m.poi()));
         root.put("statistic", "q0");
         if (observed == null) root.putNull("observed");
         else put(root.putObject("observed"), observed);

@@ -53,7 +53,7 @@ final class DiscoveryScan {
         String kind = null;
         for (ModelInput.Loaded l : loaded) {
             CompiledModel m = l.compiled();
-            Object v = m.labels.get(key);
+            Object v = m.labels().get(key);
             if (!(v instanceof Number n)) {
                 throw new InputException(String.format(Locale.ROOT, "--label %s: %s has no numeric label '%s' (labels.%s)",
                         key, l.file(), key, key));
@@ -62,7 +62,7 @@ final class DiscoveryScan {
             if (d.blinded()) throw new InputException(l.file() + ": the model is blinded; a scan of the local p-value needs data");
             kind = d.kind();
             Map<String, Double> held = new LinkedHashMap<>();
-            for (int k = 0; k < d.held().length; k++) held.put(m.parameterNames[d.held()[k]], d.heldValues()[k]);
+            for (int k = 0; k < d.held().length; k++) held.put(m.parameterNames(d.held()[k]), d.heldValues()[k]);
             problems.add(Problem.of(m, d.data(), d.settings(), held));
             xs.add(new double[] {n.doubleValue()});
         }
@@ -100,9 +100,9 @@ final class DiscoveryScan {
     }
 
     private static String commonNumericLabel(List<ModelInput.Loaded> loaded) {
-        for (String k : loaded.get(0).compiled().labels.keySet()) {
+        for (String k : loaded.get(0).compiled().labels().keySet()) {
             boolean all = true;
-            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels.get(k) instanceof Number;
+            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels().get(k) instanceof Number;
             if (all) return k;
         }
         throw new InputException("--label: the models share no numeric label to order the scan by; name one with --label");

@@ -101,7 +101,7 @@ final class FitCommand implements Callable<Integer> {
         for (FitResult.OtherMinimum o : r.otherMinima()) {
             StringBuilder b = new StringBuilder();
             for (int i : o.mostDifferent(m, r, FitJson.MOST_DIFFERENT)) {
-                b.append(b.length() == 0 ? "" : ", ").append(m.parameterNames[i]).append(' ')
+                b.append(b.length() == 0 ? "" : ", ").append(m.parameterNames(i)).append(' ')
                         .append(Numbers.fixed(o.values()[i], 2)).append(" (here ").append(Numbers.fixed(r.values()[i], 2))
                         .append(')');
             }
@@ -116,15 +116,15 @@ final class FitCommand implements Callable<Integer> {
         if (r.severalMinima()) {
             FitResult.OtherMinimum o = r.otherMinima().get(0);
             List<String> names = new ArrayList<>();
-            for (int i : o.mostDifferent(m, r, FitJson.MOST_DIFFERENT)) names.add(m.parameterNames[i]);
+            for (int i : o.mostDifferent(m, r, FitJson.MOST_DIFFERENT)) names.add(m.parameterNames(i));
             out.add(String.format(Locale.ROOT, "the model has several minima: the fit met %d other minim%s of -ln L "
                             + "(the nearest %.4g above, differing most in %s); results use the lowest",
                     r.otherMinima().size(), r.otherMinima().size() == 1 ? "um" : "a", o.nllAboveBest(), String.join(", ", names)));
         }
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             if (r.atKink()[i]) {
                 out.add(String.format(Locale.ROOT, "%s ends on the kink of its interpolation at 0: its symmetric error is one "
-                        + "side's curvature; fit.json carries its profile interval", m.parameterNames[i]));
+                        + "side's curvature; fit.json carries its profile interval", m.parameterNames(i)));
             }
         }
         return out;
@@ -136,7 +136,7 @@ final class FitCommand implements Callable<Integer> {
         FitChecks c = r.checks();
         if (r.converged() && c.nearSingular()) {
             List<String> names = new ArrayList<>();
-            for (int i : c.degenerate()) names.add(m.parameterNames[i]);
+            for (int i : c.degenerate()) names.add(m.parameterNames(i));
             out.add(c.smallestEigenvalue() == 0
                     ? "the Hessian is not positive definite: some combination of the parameters is not constrained by the data"
                     : String.format(Locale.ROOT, "the Hessian is near-singular (smallest eigenvalue of the correlation matrix %.2g): "
@@ -156,26 +156,26 @@ final class FitCommand implements Callable<Integer> {
     }
 
     private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult r) {
-        out.printf(Locale.ROOT, "Maximum-likelihood fit of '%s' to the %s data%s%n", m.name, p.kind(),
+        out.printf(Locale.ROOT, "Maximum-likelihood fit of '%s' to the %s data%s%n", m.name(), p.kind(),
                 p.asimovPoi() == null ? "" : String.format(Locale.ROOT, " (Asimov at %s = %s)",
-                        m.poi >= 0 ? m.parameterNames[m.poi] : "poi", Numbers.plain(p.asimovPoi())));
+                        m.poi() >= 0 ? m.parameterNames(m.poi()) : "poi", Numbers.plain(p.asimovPoi())));
         out.printf(Locale.ROOT, "status %s, -ln L = %.6f, %d evaluations, %.1f ms%n%n", r.status(), r.nll(),
                 r.evaluations(), r.seconds() * 1e3);
         Table.Builder t = Table.builder(null, "parameter", "value ± error", "pull", "constraint", "");
         int hiddenGamma = 0, flaggedGamma = 0, hiddenBinFactors = 0;
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             double pull = Pulls.pull(m, r, i), cons = Pulls.constraint(m, r, i);
             boolean pulled = Math.abs(pull) > 1, constrained = cons < 0.5;
-            if (m.kind[i] == ParameterKind.MC_STATISTICS && !showMcStat) {
+            if (m.kind(i) == ParameterKind.MC_STATISTICS && !showMcStat) {
                 hiddenGamma++;
                 if (pulled || constrained) flaggedGamma++;
                 continue;
             }
-            if (m.kind[i] == ParameterKind.BIN_FACTOR && !showBinFactors) {
+            if (m.kind(i) == ParameterKind.BIN_FACTOR && !showBinFactors) {
                 hiddenBinFactors++;
                 continue;
             }
-            String flags = (i == m.poi ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained " : "")
+            String flags = (i == m.poi() ? "POI " : "") + (pulled ? "pulled " : "") + (constrained ? "constrained " : "")
                     + (r.atKink()[i] ? "on kink " : "")
                     + (r.checks().bound()[i] < 0 ? "at lower bound" : r.checks().bound()[i] > 0 ? "at upper bound" : "")
                     + (degenerate(r, i) ? "degenerate" : "");
@@ -184,7 +184,7 @@ final class FitCommand implements Callable<Integer> {
                     // rounded to a huge error the value would read 0: its own digits instead
                     : degenerate(r, i) ? Table.number(r.values()[i], 4) + " ± " + Table.number(r.errors()[i], 2)
                     : Table.measurement(r.values()[i], r.errors()[i]);
-            t.row(m.parameterNames[i], shown,
+            t.row(m.parameterNames(i), shown,
                     decimals(pull), decimals(cons), flags.strip());
         }
         out.print(TableFormat.TEXT.render(t.build()));

@@ -22,22 +22,22 @@ final class FitJson {
 
     /** The fit result file of docs/cli-contract.md. */
     static ObjectNode of(CompiledModel m, FitOptions.Prepared p, FitResult r) {
-        ObjectNode root = Json.result(m.labels, p.kind());
+        ObjectNode root = Json.result(m.labels(), p.kind());
         if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
         root.put("converged", r.converged());
         root.put("status", r.status().name());
         Json.put(root, "nll", r.nll());
         ArrayNode params = root.putArray("parameters");
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             ObjectNode o = params.addObject();
-            o.put("name", m.parameterNames[i]);
-            o.put("kind", m.kind[i].name().toLowerCase(Locale.ROOT));
+            o.put("name", m.parameterNames(i));
+            o.put("kind", m.kind(i).name().toLowerCase(Locale.ROOT));
             Json.put(o, "value", r.values()[i]);
             // at a bound the minimum is no stationary point: the curvature there is no error (null);
             // --intervals gives the one-sided profile interval
             Json.put(o, "error", r.checks().bound()[i] != 0 ? Double.NaN : r.errors()[i]);
-            Json.put(o, "prefitValue", m.nominal[i]);
-            Json.put(o, "prefitWidth", m.prefitWidth[i]);
+            Json.put(o, "prefitValue", m.nominal(i));
+            Json.put(o, "prefitWidth", m.prefitWidth(i));
             Json.put(o, "pull", Pulls.pull(m, r, i));
             Json.put(o, "constraint", Pulls.constraint(m, r, i));
             o.put("fixed", r.held()[i]);
@@ -50,7 +50,7 @@ final class FitJson {
         root.put("nearSingular", checks.nearSingular());
         Json.put(root, "smallestCorrelationEigenvalue", checks.smallestEigenvalue());
         ArrayNode degenerate = root.putArray("degenerate");
-        for (int i : checks.degenerate()) degenerate.add(m.parameterNames[i]);
+        for (int i : checks.degenerate()) degenerate.add(m.parameterNames(i));
         root.put("severalMinima", r.severalMinima());
         ArrayNode others = root.putArray("otherMinima");
         for (FitResult.OtherMinimum o : r.otherMinima()) {
@@ -59,20 +59,20 @@ final class FitJson {
             ArrayNode differ = e.putArray("differences");
             for (int i : o.mostDifferent(m, r, MOST_DIFFERENT)) {
                 ObjectNode d = differ.addObject();
-                d.put("name", m.parameterNames[i]);
+                d.put("name", m.parameterNames(i));
                 Json.put(d, "value", o.values()[i]);
                 Json.put(d, "bestValue", r.values()[i]);
             }
         }
         ObjectNode corr = root.putObject("correlation");
         List<Integer> free = new ArrayList<>();
-        for (int i = 0; i < m.nParams; i++) if (!r.held()[i]) free.add(i);
+        for (int i = 0; i < m.nParams(); i++) if (!r.held()[i]) free.add(i);
         ArrayNode names = corr.putArray("names");
-        free.forEach(i -> names.add(m.parameterNames[i]));
+        free.forEach(i -> names.add(m.parameterNames(i)));
         ArrayNode matrix = corr.putArray("matrix");
         for (int i : free) {
             ArrayNode row = matrix.addArray();
-            for (int j : free) Json.add(row, r.correlation(i, j, m.nParams));
+            for (int j : free) Json.add(row, r.correlation(i, j, m.nParams()));
         }
         ObjectNode timing = root.putObject("timing");
         timing.put("seconds", r.seconds());

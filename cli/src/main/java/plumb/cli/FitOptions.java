@@ -99,9 +99,9 @@ public final class FitOptions {
             if (out.containsKey(i)) {
                 throw new InputException("--fix " + f + ": " + name + " is already held by an earlier --fix; give each parameter once");
             }
-            if (!(v >= m.lower[i] && v <= m.upper[i])) {
+            if (!(v >= m.lower(i) && v <= m.upper(i))) {
                 throw new InputException(String.format(Locale.ROOT, "--fix %s: %s is outside the range [%s, %s] of %s",
-                        f, v, m.lower[i], m.upper[i], name));
+                        f, v, m.lower(i), m.upper(i), name));
             }
             out.put(i, v);
         }
@@ -111,7 +111,7 @@ public final class FitOptions {
     /** The --fix options resolved against the model, by name: what a {@link plumb.engine.inference.Problem} holds. */
     public Map<String, Double> heldByName(CompiledModel m) {
         Map<String, Double> out = new LinkedHashMap<>();
-        fixes(m).forEach((i, v) -> out.put(m.parameterNames[i], v));
+        fixes(m).forEach((i, v) -> out.put(m.parameterNames(i), v));
         return out;
     }
 

@@ -87,7 +87,7 @@ final class GofCommand implements Callable<Integer> {
 
     private void print(PrintWriter out, ModelInput.Loaded l, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy) {
         CompiledModel m = l.compiled();
-        out.printf(Locale.ROOT, "Goodness of fit of model '%s' (%s) to the %s data%s%n", m.name, l.file(), p.kind(),
+        out.printf(Locale.ROOT, "Goodness of fit of model '%s' (%s) to the %s data%s%n", m.name(), l.file(), p.kind(),
                 p.asimovPoi() == null ? "" : " (Asimov at POI = " + Numbers.plain(p.asimovPoi()) + ")");
         out.println("  method: saturated-model statistic 2 sum[nu - n + n ln(n/nu)] plus constraint terms "
                 + "(Baker, Cousins 1984), chi-square asymptotics");
@@ -99,10 +99,10 @@ final class GofCommand implements Callable<Integer> {
                     toy.toys() - toy.failed(), fit.seed, toy.exceeding(), toy.failed());
         }
         Table.Builder t = Table.builder(null, "channel", "bins", "statistic", "statistic/bin");
-        for (int c = 0; c < m.nChannels; c++) {
+        for (int c = 0; c < m.nChannels(); c++) {
             int bins = r.channelBins()[c];
             double s = r.channelStatistic()[c];
-            t.row(m.channelNames[c], bins == 0 ? "not fitted" : Integer.toString(bins), Table.number(s, 4),
+            t.row(m.channelNames(c), bins == 0 ? "not fitted" : Integer.toString(bins), Table.number(s, 4),
                     bins == 0 ? Table.MISSING : Table.number(s / bins, 3));
         }
         t.row("constraints", "", Table.number(r.constraintStatistic(), 4), "");

@@ -14,7 +14,7 @@ final class GofJson {
 
     /** The goodness-of-fit result file of docs/cli-contract.md; {@code seed} is reported with toys. */
     static ObjectNode of(CompiledModel m, FitOptions.Prepared p, GoodnessOfFit.Result r, ToyPValue toy, long seed) {
-        ObjectNode root = Json.result(m.labels, p.kind());
+        ObjectNode root = Json.result(m.labels(), p.kind());
         if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
         root.put("method", "saturated");
         Json.put(root, "statistic", r.statistic());
@@ -22,9 +22,9 @@ final class GofJson {
         Json.put(root, "p", r.p());
         Json.put(root, "constraintStatistic", r.constraintStatistic());
         ArrayNode channels = root.putArray("channels");
-        for (int c = 0; c < m.nChannels; c++) {
+        for (int c = 0; c < m.nChannels(); c++) {
             ObjectNode o = channels.addObject();
-            o.put("name", m.channelNames[c]);
+            o.put("name", m.channelNames(c));
             o.put("bins", r.channelBins()[c]);
             Json.put(o, "statistic", r.channelStatistic()[c]);
         }

@@ -51,13 +51,13 @@ final class ImpactsCommand implements Callable<Integer> {
         if (top != null && top < 1) throw new InputException("--top must be at least 1, got " + top);
         if (exactTop != null && exactTop < 0) throw new InputException("--exact-top must be at least 0, got " + exactTop);
         CompiledModel m = input.load().compiled();
-        if (m.poi < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
+        if (m.poi() < 0) throw new InputException(input.file + ": the model names no parameter of interest (poi)");
         // impacts are shifts of the fitted POI: with the POI held every shift would be zero
-        if (fit.fixes(m).containsKey(m.poi)) {
-            throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held; impacts are shifts of its fitted value");
+        if (fit.fixes(m).containsKey(m.poi())) {
+            throw new InputException("--fix: the POI " + m.parameterNames(m.poi()) + " cannot be held; impacts are shifts of its fitted value");
         }
-        if (m.fixed[m.poi]) {
-            throw new InputException(input.file + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model; impacts need it free");
+        if (m.fixed(m.poi())) {
+            throw new InputException(input.file + ": the POI " + m.parameterNames(m.poi()) + " is fixed in the model; impacts need it free");
         }
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
@@ -115,9 +115,9 @@ final class ImpactsCommand implements Callable<Integer> {
 
     private void printTable(PrintWriter out, CompiledModel m, FitOptions.Prepared p, FitResult best,
                             List<Impacts.Entry> entries, Impacts.Breakdown breakdown) {
-        String poi = m.parameterNames[m.poi];
+        String poi = m.parameterNames(m.poi());
         out.printf(Locale.ROOT, "Impacts on %s = %s (%s data)%n", poi,
-                Table.measurement(best.values()[m.poi], best.errors()[m.poi]), p.kind());
+                Table.measurement(best.values()[m.poi()], best.errors()[m.poi()]), p.kind());
         int shown = top == null ? entries.size() : Math.min(top, entries.size());
         Table.Builder t = Table.builder(null, "#", "parameter", "pull", "constraint",
                 "post-fit +", "post-fit −", "linear +", "pre-fit +", "pre-fit −", "linear pre +", "note");

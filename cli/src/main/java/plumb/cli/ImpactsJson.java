@@ -16,11 +16,11 @@ final class ImpactsJson {
     /** The impacts result file of docs/cli-contract.md, with the linearised shifts and the breakdown added. */
     static ObjectNode of(CompiledModel m, FitOptions.Prepared p, FitResult best, List<Impacts.Entry> entries,
                              Impacts.Breakdown breakdown) {
-        ObjectNode root = Json.result(m.labels, p.kind());
+        ObjectNode root = Json.result(m.labels(), p.kind());
         if (p.asimovPoi() != null) root.put("asimovPoi", p.asimovPoi());
-        root.put("poi", m.parameterNames[m.poi]);
-        Json.put(root, "poiValue", best.values()[m.poi]);
-        Json.put(root, "poiError", best.errors()[m.poi]);
+        root.put("poi", m.parameterNames(m.poi()));
+        Json.put(root, "poiValue", best.values()[m.poi()]);
+        Json.put(root, "poiError", best.errors()[m.poi()]);
         ArrayNode list = root.putArray("impacts");
         for (Impacts.Entry e : entries) {
             ObjectNode o = list.addObject();

@@ -127,7 +127,7 @@ final class InjectCommand implements Callable<Integer> {
         if (c.closureFailed()) failures.add("the Asimov closure check failed");
         for (InjectionSummary s : summaries) {
             if (s.toys() > 0 && s.converged() == 0) {
-                failures.add(String.format(Locale.ROOT, "no toy fit at %s = %s converged", m.parameterNames[m.poi],
+                failures.add(String.format(Locale.ROOT, "no toy fit at %s = %s converged", m.parameterNames(m.poi()),
                         Numbers.plain(s.injected())));
             }
         }
@@ -136,7 +136,7 @@ final class InjectCommand implements Callable<Integer> {
             if (!failures.isEmpty()) Json.failed(root, String.join("; ", failures));
             Outputs.write(json, Json.write(root), out);
         }
-        if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames[m.poi]);
+        if (table && c.toyFits().count() > 0) printSummaries(out, summaries, showNuisances, m.parameterNames(m.poi()));
         for (String f : failures) {
             err.println("plumb inject: " + Escape.controls(f) + (f.startsWith("the Asimov") && table ? " (see above)" : ""));
         }
@@ -176,13 +176,13 @@ final class InjectCommand implements Callable<Integer> {
         FitOptions options = fitOptions();
         int perValue = checkOptions(m, batch);
         Map<Integer, Double> fixes = options.fixes(m);
-        if (m.poi < 0) throw new InputException(loaded.file() + ": the model names no parameter of interest (poi)");
-        if (fixes.containsKey(m.poi)) throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held in an injection");
-        if (m.fixed[m.poi]) throw new InputException(loaded.file() + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
+        if (m.poi() < 0) throw new InputException(loaded.file() + ": the model names no parameter of interest (poi)");
+        if (fixes.containsKey(m.poi())) throw new InputException("--fix: the POI " + m.parameterNames(m.poi()) + " cannot be held in an injection");
+        if (m.fixed(m.poi())) throw new InputException(loaded.file() + ": the POI " + m.parameterNames(m.poi()) + " is fixed in the model");
         for (double x : mu) {
-            if (!(x >= m.lower[m.poi] && x <= m.upper[m.poi])) {
+            if (!(x >= m.lower(m.poi()) && x <= m.upper(m.poi()))) {
                 throw new InputException(String.format(Locale.ROOT, "--mu %s is outside the POI range [%s, %s]",
-                        Numbers.plain(x), Numbers.plain(m.lower[m.poi]), Numbers.plain(m.upper[m.poi])));
+                        Numbers.plain(x), Numbers.plain(m.lower(m.poi())), Numbers.plain(m.upper(m.poi()))));
             }
         }
         boolean postfit = from == From.postfit;
@@ -203,13 +203,13 @@ final class InjectCommand implements Callable<Integer> {
             if (c != null && !c.converged()) {
                 throw new ComputationException(String.format(Locale.ROOT,
                         "the fit to the observed data with %s = %s did not converge (%s); use --from nominal",
-                        m.parameterNames[m.poi], Numbers.plain(mu.get(k)), c.status()));
+                        m.parameterNames(m.poi()), Numbers.plain(mu.get(k)), c.status()));
             }
         }
 
         if (table != null) {
             table.printf(Locale.ROOT, "Signal injection into '%s': %s = %s, %d toys each, nuisances at %s values, %s, seed %d%n",
-                    m.name, m.parameterNames[m.poi], joined(), perValue, from == From.postfit ? "post-fit" : "nominal",
+                    m.name(), m.parameterNames(m.poi()), joined(), perValue, from == From.postfit ? "post-fit" : "nominal",
                     noAuxFluctuation ? "auxiliary values held" : "auxiliary values fluctuated", seed);
             table.flush();
         }
@@ -229,13 +229,13 @@ final class InjectCommand implements Callable<Integer> {
         long firstToy = first == null ? 0 : first;
         try (WorkRunner runner = ClusterOptions.runner(cluster, threadCount)) {
             for (int k = 0; k < mu.size(); k++) {
-                try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames[m.poi],
+                try (Progress bar = Progress.start(String.format(Locale.ROOT, "toys at %s = %s", m.parameterNames(m.poi()),
                         Numbers.plain(mu.get(k))), perValue)) {
                     injections.add(study.toys(k, seed, !noAuxFluctuation, firstToy, perValue, runner, bar.callback()));
                 }
             }
         }
-        InjectionToyBatch toyFits = new InjectionToyBatch(runIdentity(loaded, m, fixes, settings), m.labels,
+        InjectionToyBatch toyFits = new InjectionToyBatch(runIdentity(loaded, m, fixes, settings), m.labels(),
                 study.nuisanceNames(), firstToy, perValue, injections);
         return new InjectionRun(m, toyFits, closures, batch ? List.of() : toyFits.summaries());
     }
@@ -284,16 +284,16 @@ final class InjectCommand implements Callable<Integer> {
     /** Every setting the toys' results depend on (the engine's run identity); batches merge only when these are equal. */
     private ObjectNode runIdentity(ModelInput.Loaded loaded, CompiledModel m, Map<Integer, Double> fixes, FitSettings s) {
         List<String> fixed = new ArrayList<>();
-        fixes.forEach((i, v) -> fixed.add(m.parameterNames[i] + "=" + v));
-        return InjectionToyBatch.runIdentity(m.name, loaded.sha256(), m.parameterNames[m.poi], mu, from.name(),
+        fixes.forEach((i, v) -> fixed.add(m.parameterNames(i) + "=" + v));
+        return InjectionToyBatch.runIdentity(m.name(), loaded.sha256(), m.parameterNames(m.poi()), mu, from.name(),
                 !noAuxFluctuation, seed, fixed, s);
     }
 
     private static void printClosure(PrintWriter out, CompiledModel m, AsimovClosure c) {
         out.printf(Locale.ROOT, "  %s = %-8s %s, fitted %s = %s, largest |fitted - generating| = %s (%s): %s%n",
-                m.parameterNames[m.poi], Numbers.plain(c.injected()), c.fit().status(), m.parameterNames[m.poi],
-                Numbers.plain(c.fit().values()[m.poi]), String.format(Locale.ROOT, "%.2e", c.maxDeviation()),
-                c.worstParameter() >= 0 ? m.parameterNames[c.worstParameter()] : "-",
+                m.parameterNames(m.poi()), Numbers.plain(c.injected()), c.fit().status(), m.parameterNames(m.poi()),
+                Numbers.plain(c.fit().values()[m.poi()]), String.format(Locale.ROOT, "%.2e", c.maxDeviation()),
+                c.worstParameter() >= 0 ? m.parameterNames(c.worstParameter()) : "-",
                 c.passed() ? "passed" : "FAILED (tolerance " + InjectionToys.CLOSURE_TOLERANCE + ")");
     }
 

@@ -106,13 +106,13 @@ final class InjectionJson {
         o.put("passed", c.passed());
         o.put("tolerance", InjectionToys.CLOSURE_TOLERANCE);
         Json.put(o, "maxDeviation", c.maxDeviation());
-        if (c.worstParameter() >= 0) o.put("worstParameter", m.parameterNames[c.worstParameter()]);
+        if (c.worstParameter() >= 0) o.put("worstParameter", m.parameterNames(c.worstParameter()));
         else o.putNull("worstParameter");
         ArrayNode list = o.putArray("parameters");
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             if (c.fit().held()[i]) continue;
             ObjectNode p = list.addObject();
-            p.put("name", m.parameterNames[i]);
+            p.put("name", m.parameterNames(i));
             Json.put(p, "generating", c.generating()[i]);
             Json.put(p, "fitted", c.fit().values()[i]);
             Json.put(p, "deviation", c.fit().values()[i] - c.generating()[i]);

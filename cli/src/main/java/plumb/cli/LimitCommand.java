@@ -158,7 +158,7 @@ final class LimitCommand implements Callable<Integer> {
     Table table(List<ModelLimit> outcomes, String key) {
         CompiledModel m0 = outcomes.get(0).model().compiled();
         String title = String.format(Locale.ROOT, "CLs upper limits on %s at %s%% CL (%s, q~mu statistic, %s data)",
-                m0.parameterNames[m0.poi], Numbers.plain(100 * cl), toys == null ? "asymptotic" : toys + " toys",
+                m0.parameterNames(m0.poi()), Numbers.plain(100 * cl), toys == null ? "asymptotic" : toys + " toys",
                 outcomes.get(0).data().kind());
         Table.Builder t = Table.builder(title, key == null ? "x" : key, "model", "observed", "expected -2σ",
                 "expected -1σ", "expected median", "expected +1σ", "expected +2σ");
@@ -187,9 +187,9 @@ final class LimitCommand implements Callable<Integer> {
 
     private void printSingle(PrintWriter out, ModelLimit o) {
         CompiledModel m = o.model().compiled();
-        String poi = m.parameterNames[m.poi];
+        String poi = m.parameterNames(m.poi());
         out.printf(Locale.ROOT, "CLs upper limit on %s at %s%% CL for model '%s' (%s)%n", poi, Numbers.plain(100 * cl),
-                m.name, o.model().file());
+                m.name(), o.model().file());
         if (toys == null) {
             out.printf(Locale.ROOT, "  method: asymptotic formulae for the q~mu test statistic (Cowan, Cranmer, Gross, "
                     + "Vitells 2011), sigma from the Asimov data set at %s = 0%n", poi);

@@ -28,7 +28,7 @@ final class LimitJson {
      */
     static ObjectNode of(List<ModelLimit> outcomes, String key, double cl, Integer toys, long seed) {
         ModelLimit first = outcomes.get(0);
-        ObjectNode root = Json.result(outcomes.size() == 1 ? first.model().compiled().labels : commonLabels(outcomes),
+        ObjectNode root = Json.result(outcomes.size() == 1 ? first.model().compiled().labels() : commonLabels(outcomes),
                 first.data().kind());
         if (outcomes.size() == 1) {
             if (first.data().asimovPoi() != null) root.put("asimovPoi", first.data().asimovPoi());
@@ -43,7 +43,7 @@ final class LimitJson {
             Json.put(p, "x", o.x());
             putLimit(p, o, cl, toys, seed);
             p.put("data", o.data().kind());
-            p.set("labels", Json.result(o.model().compiled().labels, o.data().kind()).get("labels"));
+            p.set("labels", Json.result(o.model().compiled().labels(), o.data().kind()).get("labels"));
         }
         List<String> errors = ModelLimit.errors(outcomes);
         if (!errors.isEmpty()) {
@@ -55,7 +55,7 @@ final class LimitJson {
 
     private static void putLimit(ObjectNode node, ModelLimit o, double cl, Integer toys, long seed) {
         CompiledModel m = o.model().compiled();
-        node.put("poi", m.parameterNames[m.poi]);
+        node.put("poi", m.parameterNames(m.poi()));
         node.put("cl", cl);
         node.put("method", toys == null ? "asymptotic" : "toys");
         node.put("statistic", "qtilde_mu");
@@ -101,8 +101,8 @@ final class LimitJson {
     }
 
     private static Map<String, Object> commonLabels(List<ModelLimit> outcomes) {
-        Map<String, Object> common = new LinkedHashMap<>(outcomes.get(0).model().compiled().labels);
-        for (ModelLimit o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels.get(e.getKey())));
+        Map<String, Object> common = new LinkedHashMap<>(outcomes.get(0).model().compiled().labels());
+        for (ModelLimit o : outcomes) common.entrySet().removeIf(e -> !e.getValue().equals(o.model().compiled().labels().get(e.getKey())));
         return common;
     }
 

@@ -38,9 +38,9 @@ final class ModelLabels {
     /** --label, or the first numeric label every model has (null for a single model without one). */
     static String key(List<ModelInput.Loaded> loaded, String label) {
         if (label != null) return label;
-        for (String k : loaded.get(0).compiled().labels.keySet()) {
+        for (String k : loaded.get(0).compiled().labels().keySet()) {
             boolean all = true;
-            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels.get(k) instanceof Number;
+            for (ModelInput.Loaded l : loaded) all &= l.compiled().labels().get(k) instanceof Number;
             if (all) return k;
         }
         if (loaded.size() > 1) {
@@ -52,7 +52,7 @@ final class ModelLabels {
     /** The model's value of label {@code key} (NaN for no key). */
     static double x(ModelInput.Loaded l, String key) {
         if (key == null) return Double.NaN;
-        Object v = l.compiled().labels.get(key);
+        Object v = l.compiled().labels().get(key);
         if (v instanceof Number n) return n.doubleValue();
         throw new InputException(String.format(Locale.ROOT, "--label %s: %s has no numeric label '%s' (labels.%s)",
                 key, l.file(), key, key));

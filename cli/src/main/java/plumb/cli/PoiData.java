@@ -18,7 +18,7 @@ record PoiData(DataRequest.PoiTestData sets, int[] held, double[] heldValues, Fi
      * @param defaultAsimovPoi POI of --data asimov when --asimov-poi is not given
      */
     static PoiData resolve(Path file, CompiledModel m, FitOptions o, double expectedPoi, double defaultAsimovPoi) {
-        if (m.poi < 0) throw new InputException(file + ": the model names no parameter of interest (poi)");
+        if (m.poi() < 0) throw new InputException(file + ": the model names no parameter of interest (poi)");
         var held = o.heldByName(m);
         FitSettings settings = o.settings();
         try {

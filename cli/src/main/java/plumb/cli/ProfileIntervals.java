@@ -29,11 +29,11 @@ final class ProfileIntervals {
     /** The POI (when the model has one) and the named parameters, in that order, without repeats. */
     static int[] resolve(CompiledModel m, FitOptions.Prepared p, List<String> names) {
         Set<Integer> out = new LinkedHashSet<>();
-        if (m.poi >= 0) out.add(m.poi);
+        if (m.poi() >= 0) out.add(m.poi());
         for (String n : names) {
             int k = m.indexOf(n);
             if (k < 0) throw new InputException("--intervals " + n + ": the model has no parameter '" + n + "'");
-            boolean held = m.fixed[k];
+            boolean held = m.fixed(k);
             for (int h : p.held()) held |= h == k;
             if (held) throw new InputException("--intervals " + n + ": the parameter is held; it has no interval");
             out.add(k);
@@ -63,7 +63,7 @@ final class ProfileIntervals {
         if (!best.converged()) return Map.of();
         Set<Integer> params = new LinkedHashSet<>();
         for (int k : asked) params.add(k);
-        for (int k = 0; k < m.nAll; k++) if (best.atKink()[k]) params.add(k);
+        for (int k = 0; k < m.nAll(); k++) if (best.atKink()[k]) params.add(k);
         if (params.isEmpty()) return Map.of();
         return compute(m, p, best, params.stream().mapToInt(Integer::intValue).toArray(), threads);
     }
@@ -86,7 +86,7 @@ final class ProfileIntervals {
         out.println("  68% profile-likelihood intervals (2ΔNLL = 1):");
         for (Map.Entry<Integer, double[]> e : profile.entrySet()) {
             double[] d = e.getValue();
-            out.printf(Locale.ROOT, "  %-28s %12s  %s / %s%n", m.parameterNames[e.getKey()], Numbers.plain(r.values()[e.getKey()]),
+            out.printf(Locale.ROOT, "  %-28s %12s  %s / %s%n", m.parameterNames(e.getKey()), Numbers.plain(r.values()[e.getKey()]),
                     Double.isFinite(d[0]) ? Numbers.plain(d[0]) : Table.MISSING,
                     Double.isFinite(d[1]) ? "+" + Numbers.plain(d[1]) : Table.MISSING);
         }

@@ -84,7 +84,7 @@ final class ProjectCommand implements Callable<Integer> {
      */
     static Projection.Result compute(ModelInput.Loaded l, FitOptions fit, double[] lumis, double cl) {
         CompiledModel m = l.compiled();
-        if (m.poi < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
+        if (m.poi() < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
         if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
         try {
             return Projection.compute(WhatIf.problem(m, fit), WhatIf.postfit(fit), cl, lumis, fit.threadCount(), null);
@@ -122,7 +122,7 @@ final class ProjectCommand implements Callable<Integer> {
 
     /** The projection file of docs/cli-contract.md. */
     static ObjectNode toJson(CompiledModel m, Projection.Result r) {
-        ObjectNode root = Json.result(m.labels, "asimov");
+        ObjectNode root = Json.result(m.labels(), "asimov");
         root.put("poi", r.poi());
         root.put("cl", r.cl());
         Json.array(root, "lumi", r.lumis());

@@ -140,7 +140,7 @@ final class ReportJob {
         requireOptions(m, fit, toys);
         int threads = fit.threadCount();
         FitOptions.Prepared p = fit.prepare(m, 1.0);
-        boolean hasPoi = m.poi >= 0;
+        boolean hasPoi = m.poi() >= 0;
 
         List<String> checkWarnings = CheckCommand.warnings(main);
         attach("check", CheckCommand.toJson(m, checkWarnings));   // a summary of the model: no computation
@@ -153,7 +153,7 @@ final class ReportJob {
         warnings.addAll(FitCommand.minimaWarnings(m, best));
         warnings.addAll(FitCommand.checkWarnings(m, best));
         if (!best.converged()) nonConverged.add("best fit (" + best.status() + ")");
-        ReportInput in = ReportInput.of(new RunSummary(m.name, null, null, null, null, null, null, 0, null, null, null))
+        ReportInput in = ReportInput.of(new RunSummary(m.name(), null, null, null, null, null, null, 0, null, null, null))
                 .withFit(ReportAssembler.fit(m, best)).withCutFlow(cutFlow);
 
         if (hasPoi) {
@@ -193,25 +193,25 @@ final class ReportJob {
 
         ScanCommand.ScanProfile scan = section("scan", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
-            if (best.held()[m.poi]) throw new ComputationException("the POI is held, it cannot be scanned");
+            if (best.held()[m.poi()]) throw new ComputationException("the POI is held, it cannot be scanned");
             if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no scan");
             // plumb scan MODEL: the POI over the default range, re-based to the lowest -ln L found
             ProfileScan engine = new ProfileScan(p.problem(), best);
-            double[] range = ProfileScan.defaultRange(m, best, m.poi);
-            return new ScanCommand.ScanProfile(ProfileScan.rebased(engine.points(m.poi, range[0], range[1], SCAN_POINTS, threads, null)),
-                    engine.intervals(m.poi, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads));
+            double[] range = ProfileScan.defaultRange(m, best, m.poi());
+            return new ScanCommand.ScanProfile(ProfileScan.rebased(engine.points(m.poi(), range[0], range[1], SCAN_POINTS, threads, null)),
+                    engine.intervals(m.poi(), new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads));
         });
         if (scan != null) {
-            attach("scan", ScanJson.of(m, p, m.poi, best, scan.points(), scan.intervals()));
+            attach("scan", ScanJson.of(m, p, m.poi(), best, scan.points(), scan.intervals()));
             for (ProfileScan.Point x : scan.points()) {
                 if (Double.isNaN(x.nllAboveMin())) nonConverged.add(String.format(Locale.ROOT, "scan point %s = %s (%s)",
-                        m.parameterNames[m.poi], Numbers.plain(x.value()), x.status()));
+                        m.parameterNames(m.poi()), Numbers.plain(x.value()), x.status()));
             }
             for (ProfileScan.Interval iv : scan.intervals()) {
                 if (iv.failure() != null) nonConverged.add(String.format(Locale.ROOT, "scan: an end of the interval at 2ΔNLL = %s (%s)",
                         Numbers.plain(iv.level()), iv.failure()));
             }
-            in = in.withScan(ReportAssembler.scan(m.parameterNames[m.poi], best.values()[m.poi], scan.points(), scan.intervals()));
+            in = in.withScan(ReportAssembler.scan(m.parameterNames(m.poi()), best.values()[m.poi()], scan.points(), scan.intervals()));
         }
 
         DiscoveryCommand.DiscoveryTests discovery = section("discovery", () -> {
@@ -244,9 +244,9 @@ final class ReportJob {
 
         in = injection(in, main, p, hasPoi);
 
-        RunSummary summary = new RunSummary(m.name, main.model().description(), main.file().toString(), sha256(main.content()),
-                p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames[m.poi] + " = " + Numbers.plain(p.asimovPoi()) + ")",
-                fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels, warnings, nonConverged, failures);
+        RunSummary summary = new RunSummary(m.name(), main.model().description(), main.file().toString(), sha256(main.content()),
+                p.asimovPoi() == null ? p.kind() + blindedNote(m) : p.kind() + " (" + m.parameterNames(m.poi()) + " = " + Numbers.plain(p.asimovPoi()) + ")",
+                fit.seed, Main.VERSION, (System.nanoTime() - t0) * 1e-9, m.labels(), warnings, nonConverged, failures);
         in = in.withSummary(summary).withAttachments(attachments);
         if (templates) in = in.withTemplates(plumb.engine.tooling.Templates.of(main.model()));
         return in;
@@ -257,8 +257,8 @@ final class ReportJob {
      * which would leave the impacts, the scan, the significance and the limits without meaning.
      */
     static void requireOptions(CompiledModel m, FitOptions fit, int toys) {
-        if (m.poi >= 0 && fit.fixes(m).containsKey(m.poi)) {
-            throw new InputException("--fix: the POI " + m.parameterNames[m.poi]
+        if (m.poi() >= 0 && fit.fixes(m).containsKey(m.poi())) {
+            throw new InputException("--fix: the POI " + m.parameterNames(m.poi())
                     + " cannot be held; the report's impacts, scan, significance and limits are about it");
         }
         fit.threadCount();
@@ -301,7 +301,7 @@ final class ReportJob {
         List<LimitBands.Point> points = new ArrayList<>();
         for (ModelLimit o : outcomes) points.add(ReportAssembler.limitPoint(o.x(), o.result()));
         CompiledModel m = outcomes.get(0).model().compiled();
-        return in.withLimits(new Results.Limits(m.parameterNames[m.poi], "asymptotic, q̃μ", LIMIT_CL, key, points));
+        return in.withLimits(new Results.Limits(m.parameterNames(m.poi()), "asymptotic, q̃μ", LIMIT_CL, key, points));
     }
 
     /** Rays of the report's contour: enough for a smooth curve, half the command's default for speed. */
@@ -338,13 +338,13 @@ final class ReportJob {
         }
         int partner = mostCorrelated(m, best);
         if (partner >= 0 && best.converged()) {
-            var c = section("planning", () -> ContourCommand.compute(main, fit, p, m.parameterNames[m.poi],
-                    m.parameterNames[partner], CONTOUR_RAYS));
+            var c = section("planning", () -> ContourCommand.compute(main, fit, p, m.parameterNames(m.poi()),
+                    m.parameterNames(partner), CONTOUR_RAYS));
             if (c != null) {
                 attach("contour", ContourCommand.toJson(m, p.kind(), c));
                 parts.add(new Results.PlanningPart("Two-parameter regions", String.format(Locale.ROOT,
-                        "%s against %s, the parameter most correlated with it (ρ = %s).", m.parameterNames[m.poi],
-                        m.parameterNames[partner], Numbers.fixed(c.correlation(), 2)), null, "contour",
+                        "%s against %s, the parameter most correlated with it (ρ = %s).", m.parameterNames(m.poi()),
+                        m.parameterNames(partner), Numbers.fixed(c.correlation(), 2)), null, "contour",
                         () -> plumb.cli.plot.ContourFigure.of(c), "68 % and 95 % profile-likelihood regions."));
             }
         }
@@ -365,9 +365,9 @@ final class ReportJob {
     private static int mostCorrelated(CompiledModel m, FitResult best) {
         int pick = -1;
         double most = -1;
-        for (int i = 0; i < m.nParams; i++) {
-            if (i == m.poi || best.held()[i]) continue;
-            double r = Math.abs(best.correlation(m.poi, i, m.nParams));
+        for (int i = 0; i < m.nParams(); i++) {
+            if (i == m.poi() || best.held()[i]) continue;
+            double r = Math.abs(best.correlation(m.poi(), i, m.nParams()));
             if (r > most) {
                 most = r;
                 pick = i;
@@ -389,12 +389,12 @@ final class ReportJob {
         CompiledModel m = main.compiled();
         Injection inj = section("injection", () -> {
             if (!hasPoi) throw new ComputationException("the model names no parameter of interest (poi)");
-            if (p.problem().holds(m.parameterNames[m.poi])) {
-                throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held in an injection");
+            if (p.problem().holds(m.parameterNames(m.poi()))) {
+                throw new InputException("--fix: the POI " + m.parameterNames(m.poi()) + " cannot be held in an injection");
             }
-            if (m.fixed[m.poi]) throw new InputException(main.file() + ": the POI " + m.parameterNames[m.poi] + " is fixed in the model");
+            if (m.fixed(m.poi())) throw new InputException(main.file() + ": the POI " + m.parameterNames(m.poi()) + " is fixed in the model");
             List<Double> mu = new ArrayList<>();
-            for (double x : INJECTED) if (x >= m.lower[m.poi] && x <= m.upper[m.poi]) mu.add(x);
+            for (double x : INJECTED) if (x >= m.lower(m.poi()) && x <= m.upper(m.poi())) mu.add(x);
             if (mu.isEmpty()) throw new ComputationException("none of the injected values 1, 2, 3 is inside the POI's range");
             InjectionToys engine = new InjectionToys(p.problem());
             try {
@@ -413,14 +413,14 @@ final class ReportJob {
             }
             List<String> fixed = new ArrayList<>();
             p.problem().held().forEach((name, v) -> fixed.add(name + "=" + v));
-            ObjectNode run = InjectionToyBatch.runIdentity(m.name, main.sha256(), m.parameterNames[m.poi], mu, "nominal",
+            ObjectNode run = InjectionToyBatch.runIdentity(m.name(), main.sha256(), m.parameterNames(m.poi()), mu, "nominal",
                     true, fit.seed, fixed, p.settings());
-            return new Injection(new InjectionToyBatch(run, m.labels, study.nuisanceNames(), 0, toys, fits), closures);
+            return new Injection(new InjectionToyBatch(run, m.labels(), study.nuisanceNames(), 0, toys, fits), closures);
         });
         if (inj == null) return in;
         List<InjectionSummary> summaries = inj.toys().summaries();
         attach("inject", InjectionJson.of(inj.toys(), m, inj.closures(), summaries));
-        String poi = m.parameterNames[m.poi];
+        String poi = m.parameterNames(m.poi());
         for (AsimovClosure c : inj.closures()) {
             if (!c.fit().converged()) {
                 nonConverged.add(String.format(Locale.ROOT, "Asimov closure fit at %s = %s (%s)", poi, Numbers.plain(c.injected()),
@@ -428,7 +428,7 @@ final class ReportJob {
             } else if (!c.passed()) {
                 failures.add(new RunSummary.Failure("injection", String.format(Locale.ROOT,
                         "the Asimov closure check at %s = %s failed: %s is %.2e from its generating value", poi,
-                        Numbers.plain(c.injected()), m.parameterNames[c.worstParameter()], c.maxDeviation())));
+                        Numbers.plain(c.injected()), m.parameterNames(c.worstParameter()), c.maxDeviation())));
             }
         }
         for (InjectionSummary s : summaries) {
@@ -477,7 +477,7 @@ final class ReportJob {
     /** For a fit to observed data: which channels are blinded and so left out of it. */
     private static String blindedNote(plumb.engine.compile.CompiledModel m) {
         List<String> blinded = new java.util.ArrayList<>();
-        for (int c = 0; c < m.nChannels; c++) if (m.observed[c] == null) blinded.add(m.channelNames[c]);
+        for (int c = 0; c < m.nChannels(); c++) if (m.observed(c) == null) blinded.add(m.channelNames(c));
         return blinded.isEmpty() ? "" : " (blinded, left out of the fit: " + String.join(", ", blinded) + ")";
     }
 }

@@ -51,12 +51,12 @@ final class ScanCommand implements Callable<Integer> {
         int k = resolve(m, parameter);
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         for (int h : p.held()) {
-            if (h == k) throw new InputException("--parameter " + m.parameterNames[k] + " is held by --fix; it cannot be scanned");
+            if (h == k) throw new InputException("--parameter " + m.parameterNames(k) + " is held by --fix; it cannot be scanned");
         }
-        if (m.fixed[k]) throw new InputException("--parameter " + m.parameterNames[k] + " is fixed in the model; it cannot be scanned");
-        if (lohi != null && (lohi[0] < m.lower[k] || lohi[1] > m.upper[k])) {
+        if (m.fixed(k)) throw new InputException("--parameter " + m.parameterNames(k) + " is fixed in the model; it cannot be scanned");
+        if (lohi != null && (lohi[0] < m.lower(k) || lohi[1] > m.upper(k))) {
             throw new InputException(String.format(Locale.ROOT, "--range %s reaches outside the range [%s, %s] of %s",
-                    range, m.lower[k], m.upper[k], m.parameterNames[k]));
+                    range, m.lower(k), m.upper(k), m.parameterNames(k)));
         }
         FitResult best = new Fitter(m, p.data(), p.settings(), p.held(), p.heldValues()).fit();
         ScanProfile c = compute(m, p, k, best, lohi, points, fit.threadCount());
@@ -95,7 +95,7 @@ final class ScanCommand implements Callable<Integer> {
         if (lohi == null) lohi = ProfileScan.defaultRange(m, best, k);
         ProfileScan scan = new ProfileScan(m, p.data(), p.settings(), p.held(), p.heldValues(), best);
         List<ProfileScan.Point> pts;
-        try (Progress bar = Progress.start("scan " + m.parameterNames[k], points)) {
+        try (Progress bar = Progress.start("scan " + m.parameterNames(k), points)) {
             pts = ProfileScan.rebased(scan.points(k, lohi[0], lohi[1], points, threads, bar.callback()));
         }
         List<ProfileScan.Interval> intervals = scan.intervals(k, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, threads);
@@ -104,8 +104,8 @@ final class ScanCommand implements Callable<Integer> {
 
     static int resolve(CompiledModel m, String name) {
         if (name == null) {
-            if (m.poi < 0) throw new InputException("--parameter: the model names no POI; give a parameter name");
-            return m.poi;
+            if (m.poi() < 0) throw new InputException("--parameter: the model names no POI; give a parameter name");
+            return m.poi();
         }
         int k = m.indexOf(name);
         if (k < 0) throw new InputException("--parameter " + name + ": the model has no parameter '" + name + "'");
@@ -128,7 +128,7 @@ final class ScanCommand implements Callable<Integer> {
 
     private void printTable(PrintWriter out, CompiledModel m, int k, FitResult best, List<ProfileScan.Point> pts,
                             List<ProfileScan.Interval> intervals) {
-        String name = m.parameterNames[k];
+        String name = m.parameterNames(k);
         out.printf(Locale.ROOT, "Profile likelihood scan of %s: best fit %s%n", name,
                 Table.measurement(best.values()[k], best.errors()[k]));
         Table.Builder t = Table.builder(null, name, "2ΔNLL", "");

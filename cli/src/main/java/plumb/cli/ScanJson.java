@@ -16,8 +16,8 @@ final class ScanJson {
     /** The scan result file of docs/cli-contract.md; the points re-based (nllAboveMin from the lowest −ln L found). */
     static ObjectNode of(CompiledModel m, FitOptions.Prepared p, int k, FitResult best,
                              List<ProfileScan.Point> pts, List<ProfileScan.Interval> intervals) {
-        ObjectNode root = Json.result(m.labels, p.kind());
-        root.put("parameter", m.parameterNames[k]);
+        ObjectNode root = Json.result(m.labels(), p.kind());
+        root.put("parameter", m.parameterNames(k));
         ArrayNode a = root.putArray("points");
         for (ProfileScan.Point x : pts) {
             ObjectNode o = a.addObject();

@@ -100,7 +100,7 @@ final class SensitivityCommand implements Callable<Integer> {
      */
     static Sensitivity.Result compute(ModelInput.Loaded l, FitOptions fit, double[] scales, int exactTop, double cl) {
         CompiledModel m = l.compiled();
-        if (m.poi < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
+        if (m.poi() < 0) throw new InputException(l.file() + ": the model names no parameter of interest (poi)");
         if (exactTop < 0) throw new InputException("--exact-top must be at least 0, got " + exactTop);
         if (!(cl > 0 && cl < 1)) throw new InputException("--cl must lie between 0 and 1, got " + cl);
         Problem p = WhatIf.problem(m, fit);
@@ -118,7 +118,7 @@ final class SensitivityCommand implements Callable<Integer> {
                         + "  as it is: expected %s CL limit on %s = %s, expected significance Z_A = %s sigma "
                         + "(sigma_%s = %s at mu = 0, %s at mu = 1, Asimov Fisher information)%n"
                         + "  fast path %s s; %s%n%n",
-                m.name, file, pct(r.cl()), r.poi(), Table.number(r.limit(), 4), Numbers.fixed(r.z(), 3), r.poi(),
+                m.name(), file, pct(r.cl()), r.poi(), Table.number(r.limit(), 4), Numbers.fixed(r.z(), 3), r.poi(),
                 Table.number(r.sigma0(), 4), Table.number(r.sigma1(), 4), Numbers.fixed(r.fastSeconds(), 4),
                 r.exactTop() > 0 ? String.format(Locale.ROOT, "exact path for the top %d, %s s", r.exactTop(),
                         Numbers.fixed(r.exactSeconds(), 2)) : "no exact recomputation (--exact-top N)");
@@ -171,7 +171,7 @@ final class SensitivityCommand implements Callable<Integer> {
 
     /** The sensitivity file of docs/cli-contract.md. */
     static ObjectNode toJson(CompiledModel m, Sensitivity.Result r) {
-        ObjectNode root = Json.result(m.labels, "asimov");
+        ObjectNode root = Json.result(m.labels(), "asimov");
         root.put("poi", r.poi());
         root.put("cl", r.cl());
         Json.array(root, "scales", r.scales());

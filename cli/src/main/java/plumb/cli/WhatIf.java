@@ -54,11 +54,11 @@ final class WhatIf {
      */
     static Problem problem(CompiledModel m, FitOptions fit) {
         Map<Integer, Double> fixes = fit.fixes(m);
-        if (m.poi >= 0 && fixes.containsKey(m.poi)) throw new InputException("--fix: the POI " + m.parameterNames[m.poi] + " cannot be held");
+        if (m.poi() >= 0 && fixes.containsKey(m.poi())) throw new InputException("--fix: the POI " + m.parameterNames(m.poi()) + " cannot be held");
         Map<String, Double> held = new java.util.LinkedHashMap<>();
-        fixes.forEach((i, v) -> held.put(m.parameterNames[i], v));
+        fixes.forEach((i, v) -> held.put(m.parameterNames(i), v));
         DataSet data = DataSet.observed(m);
-        if (!data.anyChannel()) data = plumb.engine.inference.DataSets.asimov(m, m.nominal);
+        if (!data.anyChannel()) data = plumb.engine.inference.DataSets.asimov(m, m.nominal());
         return Problem.of(m, data, fit.settings(), held);
     }
 

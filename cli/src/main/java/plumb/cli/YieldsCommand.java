@@ -74,7 +74,7 @@ final class YieldsCommand implements Callable<Integer> {
         if (!best.converged()) throw new ComputationException("the best fit did not converge (" + best.status() + "); no post-fit yields");
         PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         if (cov == null) throw new ComputationException("the post-fit covariance is not positive definite; no post-fit errors");
-        double[] prefitValues = m.nominal.clone();
+        double[] prefitValues = m.nominal().clone();
         for (int i = 0; i < p.held().length; i++) prefitValues[p.held()[i]] = p.heldValues()[i];
         return Yields.compute(m, p.data(), prefitValues, best.held(), best, cov);
     }
@@ -134,7 +134,7 @@ final class YieldsCommand implements Callable<Integer> {
     }
 
     private static String binLabel(CompiledModel m, int c, int b) {
-        double[] e = m.edges[c];
+        double[] e = m.edges(c);
         return e == null ? Integer.toString(b) : Numbers.plain(e[b]) + "–" + Numbers.plain(e[b + 1]);
     }
 }

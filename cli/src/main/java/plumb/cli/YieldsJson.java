@@ -14,7 +14,7 @@ final class YieldsJson {
 
     /** The yields result file of docs/cli-contract.md, with channel sums added. */
     static ObjectNode of(CompiledModel m, FitOptions.Prepared p, List<Yields.ChannelYields> yields) {
-        ObjectNode root = Json.result(m.labels, p.kind());
+        ObjectNode root = Json.result(m.labels(), p.kind());
         ArrayNode channels = root.putArray("channels");
         for (Yields.ChannelYields c : yields) {
             ObjectNode o = channels.addObject();

@@ -40,12 +40,12 @@ class ClosedFormMcStatTest {
         assertTrue(closed.converged() && explicit.converged(), closed.status() + " " + explicit.status());
         // both stop at Newton decrement < 1e-8: the minima agree to well below 1e-8
         assertEquals(explicit.nll(), closed.nll(), 1e-8);
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             double err = explicit.errors()[i];
             // values: each fit is within 1e-4 of an error of the true minimum
-            assertEquals(explicit.values()[i], closed.values()[i], 2e-4 * err, m.parameterNames[i]);
+            assertEquals(explicit.values()[i], closed.values()[i], 2e-4 * err, m.parameterNames(i));
             // errors: Schur complement / block inverse against the full inverse Hessian, at points 1e-4 σ apart
-            assertEquals(err, closed.errors()[i], 1e-3 * err, m.parameterNames[i]);
+            assertEquals(err, closed.errors()[i], 1e-3 * err, m.parameterNames(i));
         }
     }
 }

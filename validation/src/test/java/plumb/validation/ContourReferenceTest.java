@@ -48,7 +48,7 @@ class ContourReferenceTest {
         CompiledModel m = ModelCompiler.compile(LinearModels.channel(s, b, effects, n));
         Contour.Result c = Contour.compute(Problem.observed(m), "mu", "theta1", Contour.DEFAULT_CLS, 32, 2, null);
 
-        int p = m.nParams;
+        int p = m.nParams();
         RealMatrix f = new Array2DRowRealMatrix(p, p);
         for (int a = 0; a < p; a++) {
             for (int d = 0; d < p; d++) {

@@ -27,7 +27,7 @@ class CountingReferenceTest {
     /** q0 = 2(−ln L(μ = 0) − min −ln L), from two fits. */
     private static double q0(CompiledModel m, DataSet d) {
         FitResult free = fit(m, d, -1, 0);
-        FitResult zero = fit(m, d, m.poi, 0);
+        FitResult zero = fit(m, d, m.poi(), 0);
         return 2 * (zero.nll() - free.nll());
     }
 
@@ -42,9 +42,9 @@ class CountingReferenceTest {
         FitResult r = fit(m, DataSet.observed(m), -1, 0);
         double sigma = Math.sqrt(n) / s;
         // tolerance: convergence at Newton decrement gᵀH⁻¹g < 1e-8 leaves |μ − μ̂| ≤ √(1e-8)·σ = 1e-4 σ
-        assertEquals((n - b) / s, r.values()[m.poi], 1e-4 * sigma);
+        assertEquals((n - b) / s, r.values()[m.poi()], 1e-4 * sigma);
         // the error is the Hessian's at the point reached: off by O(1e-4) relative at most for a Poisson bin
-        assertEquals(sigma, r.errors()[m.poi], 2e-4 * sigma);
+        assertEquals(sigma, r.errors()[m.poi()], 2e-4 * sigma);
     }
 
     /**

@@ -25,7 +25,7 @@ class GoodnessOfFitReferenceTest {
     void singleBinWithPoiHeld(double s, double b, double n, double mu) {
         CompiledModel m = ModelCompiler.compile(CountingModels.knownBackground(s, b, n, 0, 100));
         GoodnessOfFit.Result r = GoodnessOfFit.compute(m, DataSet.observed(m), FitSettings.defaults(),
-                new int[] {m.poi}, new double[] {mu});
+                new int[] {m.poi()}, new double[] {mu});
         double nu = mu * s + b;
         double expected = n > 0 ? 2 * (nu - n + n * Math.log(n / nu)) : 2 * nu;
         assertEquals(expected, r.statistic(), 1e-12 * Math.max(1, expected));

@@ -75,17 +75,17 @@ class ImpactsReferenceTest {
 
         for (int i = 0; i < p; i++) {
             double sigma = Math.sqrt(cov.getEntry(i, i));
-            assertEquals(beta.getEntry(i), best.values()[i], 1e-3 * sigma, m.parameterNames[i]);
+            assertEquals(beta.getEntry(i), best.values()[i], 1e-3 * sigma, m.parameterNames(i));
             for (int j = 0; j < p; j++) {
                 double scale = Math.sqrt(cov.getEntry(i, i) * cov.getEntry(j, j));
-                assertEquals(cov.getEntry(i, j), best.covariance()[i * m.nParams + j], 1e-3 * scale);
+                assertEquals(cov.getEntry(i, j), best.covariance()[i * m.nParams() + j], 1e-3 * scale);
             }
         }
 
         Impacts impacts = new Impacts(m, data, FitSettings.defaults(), new int[0], new double[0], best, false);
         List<Impacts.Entry> ranking = impacts.rank(-1, 2, null);
         assertEquals(3, ranking.size());
-        int mu = m.poi;
+        int mu = m.poi();
         double sigmaMu = Math.sqrt(cov.getEntry(mu, mu));
         for (Impacts.Entry e : ranking) {
             int k = e.parameter();

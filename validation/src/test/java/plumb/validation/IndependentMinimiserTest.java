@@ -40,9 +40,9 @@ class IndependentMinimiserTest {
         FitResult bobyqa = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE)).fit();
         assertTrue(newton.converged(), newton.status().toString());
         assertEquals(bobyqa.nll(), newton.nll(), 1e-6);
-        for (int i = 0; i < m.nParams; i++) {
+        for (int i = 0; i < m.nParams(); i++) {
             assertEquals(bobyqa.values()[i], newton.values()[i], 1e-4 * Math.max(1, Math.abs(newton.values()[i])),
-                    m.parameterNames[i]);
+                    m.parameterNames(i));
         }
     }
 }

@@ -45,7 +45,7 @@ class InjectionStudyTest {
         double[] point = toys.generatingPoint(mu, false).values();
         int[] pulled = toys.pulledParameters();
         String[] names = new String[pulled.length];
-        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames[pulled[k]];
+        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames(pulled[k]);
         return InjectionSummary.of(mu, toys.run(point, seed, true, 0, TOYS, THREADS, null), names);
     }
 
@@ -103,9 +103,9 @@ class InjectionStudyTest {
         for (boolean postfit : new boolean[] {false, true}) {
             AsimovClosure c = toys.closure(toys.generatingPoint(mu, postfit).values());
             assertTrue(c.fit().converged(), c.fit().status().toString());
-            for (int i = 0; i < m.nAll; i++) {
+            for (int i = 0; i < m.nAll(); i++) {
                 assertEquals(c.generating()[i], c.fit().values()[i], InjectionToys.CLOSURE_TOLERANCE,
-                        name + " postfit=" + postfit + " " + m.parameterNames[i]);
+                        name + " postfit=" + postfit + " " + m.parameterNames(i));
             }
             assertTrue(c.passed());
         }

@@ -52,44 +52,44 @@ class PostfitCovarianceTest {
         PostfitCovariance block = PostfitCovariance.of(fitter.likelihood(), best);
         assertNotNull(dense);
         assertNotNull(block);
-        int n = m.nAll;
-        assertTrue(m.nGamma >= 100, "the comparison covers many γ");
+        int n = m.nAll();
+        assertTrue(m.nGamma() >= 100, "the comparison covers many γ");
         for (int i = 0; i < n; i++) {
             for (int j = 0; j < n; j++) {
                 double scale = Math.sqrt(Math.abs(dense[i * n + i] * dense[j * n + j]));
                 assertEquals(dense[i * n + j], block.covariance(i, j), 1e-10 * scale + 1e-300,
-                        m.parameterNames[i] + "," + m.parameterNames[j]);
+                        m.parameterNames(i) + "," + m.parameterNames(j));
             }
         }
         if (variant == 1) {
             assertEquals(0, block.variance(held[1]));
-            assertEquals(0, block.covariance(m.poi, held[0]));
+            assertEquals(0, block.covariance(m.poi(), held[0]));
         }
         // conditional variances of the POI: the model's groups, all γ, all constrained, a mixed set
         List<int[]> sets = new ArrayList<>();
-        for (int[] g : m.groupMembers) sets.add(withoutHeld(g, best, m.poi));
+        for (int[] g : m.groupMembers()) sets.add(withoutHeld(g, best, m.poi()));
         List<Integer> gammas = new ArrayList<>(), constrained = new ArrayList<>(), mixed = new ArrayList<>();
         for (int i = 0; i < n; i++) {
-            if (i == m.poi || best.held()[i] || !m.constrained(i)) continue;
+            if (i == m.poi() || best.held()[i] || !m.constrained(i)) continue;
             constrained.add(i);
-            if (m.kind[i] == ParameterKind.MC_STATISTICS) gammas.add(i);
+            if (m.kind(i) == ParameterKind.MC_STATISTICS) gammas.add(i);
             if (i % 3 == 0) mixed.add(i);
         }
         sets.add(gammas.stream().mapToInt(Integer::intValue).toArray());
         sets.add(constrained.stream().mapToInt(Integer::intValue).toArray());
         sets.add(mixed.stream().mapToInt(Integer::intValue).toArray());
-        double total = dense[m.poi * n + m.poi];
+        double total = dense[m.poi() * n + m.poi()];
         for (int[] set : sets) {
-            double expected = Covariances.conditionalVariance(dense, n, m.poi, set);
-            double got = block.conditionalVariance(m.poi, set);
+            double expected = Covariances.conditionalVariance(dense, n, m.poi(), set);
+            double got = block.conditionalVariance(m.poi(), set);
             assertTrue(expected > 0 && expected < total, "a real reduction: " + expected + " of " + total);
             assertEquals(expected, got, 1e-10 * total, set.length + " parameters held");
         }
     }
 
     private static int firstOfKind(CompiledModel m, ParameterKind kind, int skip) {
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.kind[i] == kind && !m.fixed[i] && skip-- == 0) return i;
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.kind(i) == kind && !m.fixed(i) && skip-- == 0) return i;
         }
         throw new AssertionError("no parameter of kind " + kind);
     }

@@ -51,14 +51,14 @@ class ProfileConsistencyTest {
         FitResult best = fitter.fit();
         assertTrue(best.converged(), best.status().toString());
         ProfileScan scan = new ProfileScan(m, data, s, NONE, NO_VALUES, best);
-        for (int k : new int[] {m.poi, mostPulled(m, best)}) {
+        for (int k : new int[] {m.poi(), mostPulled(m, best)}) {
             double v = best.values()[k], e = best.errors()[k];
             List<ProfileScan.Point> points = scan.points(k, v - 3 * e, v + 3 * e, 9, 2, null);
             for (ProfileScan.Point p : points) {
                 FitResult fresh = fitter.fit(fitter.nominalStart(), k, p.value());
-                assertTrue(fresh.converged(), m.parameterNames[k] + " = " + p.value() + ": " + fresh.status());
+                assertTrue(fresh.converged(), m.parameterNames(k) + " = " + p.value() + ": " + fresh.status());
                 // 1e-6 in −ln L: the fits themselves settle to ~1e-9
-                assertEquals(fresh.nll(), p.nll(), 1e-6, name + ": " + m.parameterNames[k] + " = " + p.value());
+                assertEquals(fresh.nll(), p.nll(), 1e-6, name + ": " + m.parameterNames(k) + " = " + p.value());
             }
         }
     }
@@ -66,9 +66,9 @@ class ProfileConsistencyTest {
     private static int mostPulled(CompiledModel m, FitResult best) {
         int out = -1;
         double largest = -1;
-        for (int i = 0; i < m.nParams; i++) {
+        for (int i = 0; i < m.nParams(); i++) {
             if (!m.constrained(i) || best.held()[i]) continue;
-            double pull = Math.abs(best.values()[i] - m.nominal[i]) / m.prefitWidth[i];
+            double pull = Math.abs(best.values()[i] - m.nominal(i)) / m.prefitWidth(i);
             if (pull > largest) {
                 largest = pull;
                 out = i;

@@ -42,10 +42,10 @@ class ProfileIntervalReferenceTest {
         double q95 = new ChiSquaredDistribution(1).inverseCumulativeProbability(0.95);
         assertEquals(q95, ProfileScan.LEVEL_95, 1e-12);
         List<ProfileScan.Interval> iv = new ProfileScan(m, data, FitSettings.defaults(), new int[0], new double[0], best)
-                .intervals(m.poi, new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, 2);
+                .intervals(m.poi(), new double[] {ProfileScan.LEVEL_68, ProfileScan.LEVEL_95}, 2);
         for (ProfileScan.Interval i : iv) {
             assertNull(i.failure());
-            assertTrue(i.low() < best.values()[m.poi] && best.values()[m.poi] < i.high());
+            assertTrue(i.low() < best.values()[m.poi()] && best.values()[m.poi()] < i.high());
             assertEquals(i.level(), twiceDeltaNll(s, b, n, i.low()), 1e-6);
             assertEquals(i.level(), twiceDeltaNll(s, b, n, i.high()), 1e-6);
         }
@@ -73,17 +73,17 @@ class ProfileIntervalReferenceTest {
         FitResult best = new Fitter(m, data, FitSettings.defaults()).fit();
         assertTrue(best.converged());
         ProfileScan scan = new ProfileScan(m, data, FitSettings.defaults(), new int[0], new double[0], best);
-        for (int k : new int[] {m.poi, m.indexOf("theta1")}) {
+        for (int k : new int[] {m.poi(), m.indexOf("theta1")}) {
             ProfileScan.Interval iv = scan.intervals(k, new double[] {ProfileScan.LEVEL_68}, 2).get(0);
             double v = best.values()[k], e = best.errors()[k];
-            assertEquals(v - e, iv.low(), 1e-3 * e, m.parameterNames[k]);
-            assertEquals(v + e, iv.high(), 1e-3 * e, m.parameterNames[k]);
+            assertEquals(v - e, iv.low(), 1e-3 * e, m.parameterNames(k));
+            assertEquals(v + e, iv.high(), 1e-3 * e, m.parameterNames(k));
         }
         // and the scan points follow the parabola ((x − v)/σ)² / 2
-        List<ProfileScan.Point> pts = scan.points(m.poi, best.values()[m.poi] - 2 * best.errors()[m.poi],
-                best.values()[m.poi] + 2 * best.errors()[m.poi], 5, 2, null);
+        List<ProfileScan.Point> pts = scan.points(m.poi(), best.values()[m.poi()] - 2 * best.errors()[m.poi()],
+                best.values()[m.poi()] + 2 * best.errors()[m.poi()], 5, 2, null);
         for (ProfileScan.Point p : pts) {
-            double z = (p.value() - best.values()[m.poi]) / best.errors()[m.poi];
+            double z = (p.value() - best.values()[m.poi()]) / best.errors()[m.poi()];
             assertEquals(0.5 * z * z, p.nllAboveMin(), 2e-3);
         }
     }

@@ -25,11 +25,11 @@ class ProfiledHessianTest {
     void equalsTheDenseSchurComplement(long seed) {
         CompiledModel m = ModelCompiler.compile(SyntheticModels.generate(4, 12, 5, 20, seed));
         BinnedNll nll = new BinnedNll(m, DataSet.observed(m));
-        int n = m.nParams, all = m.nAll;
+        int n = m.nParams(), all = m.nAll();
         Random r = new Random(seed);
-        double[] x = m.nominal.clone();
+        double[] x = m.nominal();
         for (int i = 0; i < n; i++) {
-            if (!m.fixed[i]) x[i] = Math.max(m.lower[i], Math.min(m.upper[i], x[i] + 0.3 * (r.nextDouble() - 0.5)));
+            if (!m.fixed(i)) x[i] = Math.max(m.lower(i), Math.min(m.upper(i), x[i] + 0.3 * (r.nextDouble() - 0.5)));
         }
         double[] g = new double[n], h = new double[n * n];
         nll.valueGradientHessian(x, g, h);
@@ -45,7 +45,7 @@ class ProfiledHessianTest {
                     double d = full[k * all + k];
                     if (d > 0) schur -= full[i * all + k] * full[k * all + j] / d;
                 }
-                assertEquals(schur, h[i * n + j], 1e-10 * scale, m.parameterNames[i] + "," + m.parameterNames[j]);
+                assertEquals(schur, h[i * n + j], 1e-10 * scale, m.parameterNames(i) + "," + m.parameterNames(j));
             }
         }
         for (int k = n; k < all; k++) if (full[k * all + k] > 0) interior++;

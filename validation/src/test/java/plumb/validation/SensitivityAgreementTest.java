@@ -43,7 +43,7 @@ class SensitivityAgreementTest {
         assertTrue(exact.size() >= 10);
         for (Sensitivity.Target t : exact) {
             for (Sensitivity.Variant v : t.variants()) {
-                String what = m.name + " " + t.name() + " at " + v.scale();
+                String what = m.name() + " " + t.name() + " at " + v.scale();
                 assertNull(v.exactError(), what);
                 assertEquals(v.exactLimit(), v.fastLimit(), 0.02 * v.exactLimit(), what);
                 assertEquals(v.exactZ(), v.fastZ(), 0.02 * v.exactZ(), what);

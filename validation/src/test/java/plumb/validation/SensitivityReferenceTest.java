@@ -70,7 +70,7 @@ class SensitivityReferenceTest {
             List<String> names = new ArrayList<>();
             boolean gammas = false;
             for (int i : t.members()) {
-                if (i < m.nParams) names.add(m.parameterNames[i]);
+                if (i < m.nParams()) names.add(m.parameterNames(i));
                 else gammas = true;
             }
             for (Sensitivity.Variant v : t.variants()) {
@@ -103,12 +103,12 @@ class SensitivityReferenceTest {
      */
     private static double closedFormVariance(CompiledModel m, double[] s, double[] b, double[][] effects, double mu,
                                              List<String> names, double k, boolean gammas) {
-        int n = m.nParams + BINS;
+        int n = m.nParams() + BINS;
         double[][] x = new double[BINS][n];
         for (int i = 0; i < BINS; i++) {
             x[i][m.indexOf("mu")] = s[i];
             for (int e = 0; e < effects.length; e++) x[i][m.indexOf("theta" + e)] = effects[e][i];
-            x[i][m.nParams + i] = b[i];                        // ∂ν/∂γ_i at γ = 1, θ = 0
+            x[i][m.nParams() + i] = b[i];                        // ∂ν/∂γ_i at γ = 1, θ = 0
         }
         double[] prior = new double[n];
         boolean[] removed = new boolean[n];
@@ -118,8 +118,8 @@ class SensitivityReferenceTest {
             removed[j] = names.contains("theta" + e) && k == 0;
         }
         for (int i = 0; i < BINS; i++) {
-            prior[m.nParams + i] = gammas ? scaled(1 / (DELTA * DELTA), k) : 1 / (DELTA * DELTA);
-            removed[m.nParams + i] = gammas && k == 0;
+            prior[m.nParams() + i] = gammas ? scaled(1 / (DELTA * DELTA), k) : 1 / (DELTA * DELTA);
+            removed[m.nParams() + i] = gammas && k == 0;
         }
         List<Integer> keep = new ArrayList<>();
         for (int j = 0; j < n; j++) if (!removed[j]) keep.add(j);

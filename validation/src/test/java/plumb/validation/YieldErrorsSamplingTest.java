@@ -86,18 +86,18 @@ class YieldErrorsSamplingTest {
         PostfitCovariance cov = PostfitCovariance.of(fitter.likelihood(), best);
         assertNotNull(cov);
         double[] dense = Covariances.full(fitter.likelihood(), best);   // drawn from below
-        List<Yields.ChannelYields> yields = Yields.compute(m, data, m.nominal, best.held(), best, cov);
+        List<Yields.ChannelYields> yields = Yields.compute(m, data, m.nominal(), best.held(), best, cov);
 
-        int n = m.nAll;
+        int n = m.nAll();
         RealMatrix c = new Array2DRowRealMatrix(n, n);
         for (int i = 0; i < n; i++) for (int j = 0; j < n; j++) c.setEntry(i, j, dense[i * n + j]);
         RealMatrix l = new CholeskyDecomposition(c, 1e-12, 1e-14).getL();
         UniformRandomProvider rng = RandomSource.SPLIT_MIX_64.create(20240601L);
         ZigguratSampler.NormalizedGaussian gauss = ZigguratSampler.NormalizedGaussian.of(rng);
         BinnedNll nll = new BinnedNll(m, data, true);
-        int entries = m.nominalYield.length;
-        double[] sum = new double[m.nBins], sumSq = new double[m.nBins];
-        double[] channelSum = new double[m.nChannels], channelSumSq = new double[m.nChannels];
+        int entries = m.nominalYield().length;
+        double[] sum = new double[m.nBins()], sumSq = new double[m.nBins()];
+        double[] channelSum = new double[m.nChannels()], channelSumSq = new double[m.nChannels()];
         double[] z = new double[n], x = new double[n], nu = new double[entries];
         for (int d = 0; d < DRAWS; d++) {
             for (int i = 0; i < n; i++) z[i] = gauss.sample();
@@ -107,12 +107,12 @@ class YieldErrorsSamplingTest {
                 x[i] = v;
             }
             nll.expectedEntries(x, nu);
-            for (int ch = 0; ch < m.nChannels; ch++) {
+            for (int ch = 0; ch < m.nChannels(); ch++) {
                 double total = 0;
-                for (int b = m.channelBinStart[ch]; b < m.channelBinStart[ch + 1]; b++) {
+                for (int b = m.channelBinStart(ch); b < m.channelBinStart(ch + 1); b++) {
                     double y = 0;
-                    for (int s = 0; s < m.nSamples; s++) {
-                        if (m.sampleChannel[s] == ch) y += nu[m.sampleEntryStart[s] + b - m.channelBinStart[ch]];
+                    for (int s = 0; s < m.nSamples(); s++) {
+                        if (m.sampleChannel(s) == ch) y += nu[m.sampleEntryStart(s) + b - m.channelBinStart(ch)];
                     }
                     sum[b] += y;
                     sumSq[b] += y * y;
@@ -122,10 +122,10 @@ class YieldErrorsSamplingTest {
                 channelSumSq[ch] += total * total;
             }
         }
-        for (int ch = 0; ch < m.nChannels; ch++) {
+        for (int ch = 0; ch < m.nChannels(); ch++) {
             Yields.Band post = yields.get(ch).totalPostfit();
             for (int b = 0; b < m.bins(ch); b++) {
-                int g = m.channelBinStart[ch] + b;
+                int g = m.channelBinStart(ch) + b;
                 double mean = sum[g] / DRAWS;
                 double sd = Math.sqrt(sumSq[g] / DRAWS - mean * mean);
                 assertEquals(sd, post.errors()[b], 0.01 * sd, "channel " + ch + " bin " + b);

@@ -38,14 +38,14 @@ class YieldsBlockFormTest {
         double[] dense = Covariances.full(fitter.likelihood(), best);
         PostfitCovariance block = PostfitCovariance.of(fitter.likelihood(), best);
         assertNotNull(dense);
-        List<Yields.ChannelYields> yields = Yields.compute(m, data, m.nominal, best.held(), best, block);
-        int n = m.nAll;
+        List<Yields.ChannelYields> yields = Yields.compute(m, data, m.nominal(), best.held(), best, block);
+        int n = m.nAll();
         double[] prefit = new double[n * n];
-        for (int i = 0; i < n; i++) if (m.constrained(i)) prefit[i * n + i] = m.prefitWidth[i] * m.prefitWidth[i];
+        for (int i = 0; i < n; i++) if (m.constrained(i)) prefit[i * n + i] = m.prefitWidth(i) * m.prefitWidth(i);
         double[][] postRows = rows(m, data, best.values());
-        double[][] preRows = rows(m, data, m.nominal);
+        double[][] preRows = rows(m, data, m.nominal());
         int checked = 0;
-        for (int c = 0; c < m.nChannels; c++) {
+        for (int c = 0; c < m.nChannels(); c++) {
             Yields.ChannelYields cy = yields.get(c);
             int k = 0;
             int[] all = samplesOf(m, c);
@@ -64,14 +64,14 @@ class YieldsBlockFormTest {
     void analyticDerivativesMatchCentralDifferences() {
         CompiledModel m = ModelCompiler.compile(SyntheticModels.medium(2));
         DataSet data = DataSet.observed(m);
-        double[] x = m.nominal.clone();
-        for (int i = 0; i < m.nParams; i++) if (!m.fixed[i]) x[i] = Math.min(m.upper[i], x[i] + 0.1 + 0.01 * (i % 7));
+        double[] x = m.nominal().clone();
+        for (int i = 0; i < m.nParams(); i++) if (!m.fixed(i)) x[i] = Math.min(m.upper(i), x[i] + 0.1 + 0.01 * (i % 7));
         double[][] rows = rows(m, data, x);
         BinnedNll nll = new BinnedNll(m, data, true);
-        int entries = m.nominalYield.length;
+        int entries = m.nominalYield().length;
         double[] up = new double[entries], down = new double[entries];
         double h = 1e-5;
-        for (int i = 0; i < m.nParams; i++) {
+        for (int i = 0; i < m.nParams(); i++) {
             double v = x[i];
             x[i] = v + h;
             nll.expectedEntries(x, up);
@@ -80,19 +80,19 @@ class YieldsBlockFormTest {
             x[i] = v;
             for (int e = 0; e < entries; e++) {
                 double fd = (up[e] - down[e]) / (2 * h);
-                assertEquals(fd, rows[e][i], 1e-6 * (1 + Math.abs(fd)), m.parameterNames[i] + " entry " + e);
+                assertEquals(fd, rows[e][i], 1e-6 * (1 + Math.abs(fd)), m.parameterNames(i) + " entry " + e);
             }
         }
     }
 
     /** Σ_b over the band's bins and the sum: errors from the dense propagation. */
     private static int compare(Yields.Band band, double[][] rows, double[] cov, CompiledModel m, int c, int[] samples) {
-        int n = m.nAll, nb = m.bins(c);
+        int n = m.nAll(), nb = m.bins(c);
         double[] sumRow = new double[n];
         for (int b = 0; b < nb; b++) {
             double[] v = new double[n];
             for (int s : samples) {
-                double[] r = rows[m.sampleEntryStart[s] + b];
+                double[] r = rows[m.sampleEntryStart(s) + b];
                 for (int i = 0; i < n; i++) v[i] += r[i];
             }
             for (int i = 0; i < n; i++) sumRow[i] += v[i];
@@ -109,32 +109,32 @@ class YieldsBlockFormTest {
         BinnedNll nll = new BinnedNll(m, data, true);
         nll.value(x.clone());
         int maxL = 0;
-        for (int[] p : m.channelParams) maxL = Math.max(maxL, p.length);
-        double[][] out = new double[m.nominalYield.length][];
-        for (int s = 0; s < m.nSamples; s++) {
-            int c = m.sampleChannel[s], b0 = m.channelBinStart[c], nb = m.bins(c);
-            int[] local = m.channelParams[c];
-            int nShape = m.sampleShapeStart[s + 1] - m.sampleShapeStart[s];
+        for (int[] p : m.channelParams()) maxL = Math.max(maxL, p.length);
+        double[][] out = new double[m.nominalYield().length][];
+        for (int s = 0; s < m.nSamples(); s++) {
+            int c = m.sampleChannel(s), b0 = m.channelBinStart(c), nb = m.bins(c);
+            int[] local = m.channelParams(c);
+            int nShape = m.sampleShapeStart(s + 1) - m.sampleShapeStart(s);
             double[] dir = new double[maxL], along = new double[nb], shape = new double[nShape * nb];
             double[] gf = new double[nb], byGamma = new double[nb];
             nll.sampleDerivatives(s, dir, along, shape, gf, byGamma);
             for (int b = 0; b < nb; b++) {
-                double[] r = new double[m.nAll];
+                double[] r = new double[m.nAll()];
                 for (int i = 0; i < local.length; i++) r[local[i]] += gf[b] * along[b] * dir[i];
                 for (int j = 0; j < nShape; j++) {
-                    int p = m.shapeParam[m.sampleShapeStart[s] + j];
+                    int p = m.shapeParam(m.sampleShapeStart(s) + j);
                     r[p] += gf[b] * shape[j * nb + b];
                 }
-                int g = m.binGamma[b0 + b];
-                if (g >= 0) r[m.nParams + g] += byGamma[b];
-                out[m.sampleEntryStart[s] + b] = r;
+                int g = m.binGamma(b0 + b);
+                if (g >= 0) r[m.nParams() + g] += byGamma[b];
+                out[m.sampleEntryStart(s) + b] = r;
             }
         }
         return out;
     }
 
     private static int[] samplesOf(CompiledModel m, int c) {
-        return java.util.stream.IntStream.range(0, m.nSamples).filter(s -> m.sampleChannel[s] == c).toArray();
+        return java.util.stream.IntStream.range(0, m.nSamples()).filter(s -> m.sampleChannel(s) == c).toArray();
     }
 
     private static double quadratic(double[] a, double[] v, int n) {

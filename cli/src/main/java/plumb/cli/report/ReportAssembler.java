@@ -37,25 +37,25 @@ public final class ReportAssembler {
      */
     public static FitSection fit(CompiledModel m, FitResult r) {
         List<FitSection.Parameter> params = new ArrayList<>();
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.kind[i] == ParameterKind.MC_STATISTICS || m.kind[i] == ParameterKind.BIN_FACTOR) continue;
-            params.add(new FitSection.Parameter(m.parameterNames[i], r.values()[i], r.errors()[i],
-                    m.nominal[i], m.prefitWidth[i], Pulls.pull(m, r, i), Pulls.constraint(m, r, i)));
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.kind(i) == ParameterKind.MC_STATISTICS || m.kind(i) == ParameterKind.BIN_FACTOR) continue;
+            params.add(new FitSection.Parameter(m.parameterNames(i), r.values()[i], r.errors()[i],
+                    m.nominal(i), m.prefitWidth(i), Pulls.pull(m, r, i), Pulls.constraint(m, r, i)));
         }
         CorrelationMatrix correlation = null;
         if (r.covariance() != null) {
             List<Integer> free = new ArrayList<>();
-            for (int i = 0; i < m.nParams; i++) if (!r.held()[i]) free.add(i);
+            for (int i = 0; i < m.nParams(); i++) if (!r.held()[i]) free.add(i);
             List<String> names = new ArrayList<>();
             double[][] c = new double[free.size()][free.size()];
             for (int a = 0; a < free.size(); a++) {
-                names.add(m.parameterNames[free.get(a)]);
-                for (int b = 0; b < free.size(); b++) c[a][b] = r.correlation(free.get(a), free.get(b), m.nParams);
+                names.add(m.parameterNames(free.get(a)));
+                for (int b = 0; b < free.size(); b++) c[a][b] = r.correlation(free.get(a), free.get(b), m.nParams());
             }
             if (!names.isEmpty()) correlation = new CorrelationMatrix(null, names, c);
         }
         return new FitSection(r.converged(), r.nll(), params, correlation, r.seconds(), r.evaluations(),
-                m.poi < 0 ? null : m.parameterNames[m.poi]);
+                m.poi() < 0 ? null : m.parameterNames(m.poi()));
     }
 
     /** The impacts ranking: exact shifts where refitted, linearised ones for the rest. */
@@ -66,7 +66,7 @@ public final class ReportAssembler {
             plumb.engine.inference.Impacts.Shift post = e.refitted() ? e.postfit() : e.linearPostfit();
             out.add(new ImpactBars.Bar(e.name(), e.pull(), e.constraint(), pre.up(), pre.down(), post.up(), post.down()));
         }
-        return new ImpactBars(m.parameterNames[m.poi], best.values()[m.poi], best.errors()[m.poi], out);
+        return new ImpactBars(m.parameterNames(m.poi()), best.values()[m.poi()], best.errors()[m.poi()], out);
     }
 
     /** The grouped breakdown of the POI's uncertainty. */
@@ -92,7 +92,7 @@ public final class ReportAssembler {
                 samples.add(new ChannelYieldBands.SampleBands(s.name(), isSignal(model, ch, s.name()), band(s.prefit()),
                         s.postfit() == null ? null : band(s.postfit())));
             }
-            out.add(new ChannelYieldBands(y.name(), m.observables[c], m.edges[c], y.observed(), samples,
+            out.add(new ChannelYieldBands(y.name(), m.observables(c), m.edges(c), y.observed(), samples,
                     band(y.totalPrefit()), y.totalPostfit() == null ? null : band(y.totalPostfit())));
         }
         return out;
@@ -164,7 +164,7 @@ public final class ReportAssembler {
         List<Results.Closure> out = new ArrayList<>();
         for (AsimovClosure c : closures) {
             out.add(new Results.Closure(c.injected(), c.fit().converged(), c.passed(), c.maxDeviation(),
-                    c.worstParameter() < 0 ? null : m.parameterNames[c.worstParameter()], InjectionToys.CLOSURE_TOLERANCE));
+                    c.worstParameter() < 0 ? null : m.parameterNames(c.worstParameter()), InjectionToys.CLOSURE_TOLERANCE));
         }
         return out;
     }

@@ -84,7 +84,7 @@ public final class Plumb {
                     e.postfit().down(), e.prefit().up(), e.prefit().down(),
                     e.postfit().converged() && e.prefit().converged()));
         }
-        return new ImpactsOutcome(m.parameterNames[m.poi], best.values()[m.poi], best.errors()[m.poi], ranked);
+        return new ImpactsOutcome(m.parameterNames(m.poi()), best.values()[m.poi()], best.errors()[m.poi()], ranked);
     }
 
     /**
@@ -127,8 +127,8 @@ public final class Plumb {
     public static ScanOutcome scan(Problem p, String parameter, int points) {
         CompiledModel m = p.model();
         int k = m.indexOf(parameter);
-        if (k < 0) throw new IllegalArgumentException("model '" + m.name + "' has no parameter '" + parameter + "'");
-        if (p.holds(parameter) || m.fixed[k]) throw new IllegalArgumentException(parameter + " is held; it cannot be scanned");
+        if (k < 0) throw new IllegalArgumentException("model '" + m.name() + "' has no parameter '" + parameter + "'");
+        if (p.holds(parameter) || m.fixed(k)) throw new IllegalArgumentException(parameter + " is held; it cannot be scanned");
         FitResult best = convergedFit(p, "scan");
         ProfileScan scan = new ProfileScan(p, best);
         double[] range = ProfileScan.defaultRange(m, best, k);
@@ -153,7 +153,7 @@ public final class Plumb {
         DataSet asimovZero = asimovAt(p, 0);
         boolean observedLimit = !blindedObserved(p);
         LimitResult r = AsymptoticUpperLimit.compute(p, asimovZero, observedLimit, cl);
-        return new LimitOutcome(m.parameterNames[m.poi], cl, r.observed(), r.expected(), r.muHat());
+        return new LimitOutcome(m.parameterNames(m.poi()), cl, r.observed(), r.expected(), r.muHat());
     }
 
     /**
@@ -167,7 +167,7 @@ public final class Plumb {
         double expectedPoi = 1;
         Discovery.Significance expected = Discovery.compute(p.withData(asimovAt(p, expectedPoi)));
         Discovery.Significance observed = blindedObserved(p) ? null : Discovery.compute(p);
-        return new DiscoveryOutcome(m.parameterNames[m.poi], observed == null ? Double.NaN : observed.z(),
+        return new DiscoveryOutcome(m.parameterNames(m.poi()), observed == null ? Double.NaN : observed.z(),
                 observed == null ? Double.NaN : observed.p(), observed == null ? Double.NaN : observed.muHat(),
                 expected.z(), expectedPoi);
     }
@@ -219,15 +219,15 @@ public final class Plumb {
         ToyFit[] fits = engine.run(point, InjectionToys.injectionSeed(seed, 0), true, 0, toys, threads(), null);
         int[] pulled = engine.pulledParameters();
         String[] names = new String[pulled.length];
-        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
+        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames(pulled[k]);
         return InjectionSummary.of(injected, fits, names);
     }
 
     static FitOutcome fitOutcome(Problem p, FitResult r) {
         CompiledModel m = p.model();
-        List<FitOutcome.Estimate> list = new ArrayList<>(m.nAll);
-        for (int i = 0; i < m.nAll; i++) {
-            list.add(new FitOutcome.Estimate(m.parameterNames[i], r.values()[i], r.errors()[i], Pulls.pull(m, r, i),
+        List<FitOutcome.Estimate> list = new ArrayList<>(m.nAll());
+        for (int i = 0; i < m.nAll(); i++) {
+            list.add(new FitOutcome.Estimate(m.parameterNames(i), r.values()[i], r.errors()[i], Pulls.pull(m, r, i),
                     Pulls.constraint(m, r, i), r.held()[i]));
         }
         return new FitOutcome(r.status().name(), r.converged(), r.nll(), list, r);
@@ -242,7 +242,7 @@ public final class Plumb {
     }
 
     private static CompiledModel requirePoi(CompiledModel m) {
-        if (m.poi < 0) throw new IllegalArgumentException("model '" + m.name + "' names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("model '" + m.name() + "' names no parameter of interest");
         return m;
     }
 

@@ -7,8 +7,9 @@ import java.util.Map;
 
 /**
  * A model compiled to flat primitive arrays, read by the likelihood's hot loops. Built by
- * {@link ModelCompiler}; never modified afterwards (the arrays are public for speed and must be
- * treated as read-only).
+ * {@link ModelCompiler}; never modified afterwards. Read-only from outside: an element accessor
+ * {@code lower(i)} per array, and {@code lower()} for a copy of the whole array (the likelihood
+ * takes its copies once, when it is built).
  *
  * <p>Parameters are indexed 0 .. {@link #nAll}−1: first the {@link #nParams} model parameters in
  * order of first appearance in the file, then the {@link #nGamma} MC-statistics parameters γ in
@@ -22,37 +23,37 @@ public final class CompiledModel implements java.io.Serializable {
 
 
     // ---- model ----
-    public final String name;
+    final String name;
     /** Index of the parameter of interest, or −1 when the model names none. */
-    public final int poi;
-    public final Map<String, Object> labels;
+    final int poi;
+    final Map<String, Object> labels;
 
     // ---- parameters (length nAll unless said otherwise) ----
-    public final int nParams;
-    public final int nGamma;
-    public final int nAll;
-    public final String[] parameterNames;
-    public final ParameterKind[] kind;
+    final int nParams;
+    final int nGamma;
+    final int nAll;
+    final String[] parameterNames;
+    final ParameterKind[] kind;
     /** Nominal and initial values. */
-    public final double[] nominal;
-    public final double[] lower;
-    public final double[] upper;
-    public final boolean[] fixed;
+    final double[] nominal;
+    final double[] lower;
+    final double[] upper;
+    final boolean[] fixed;
     /** {@link ConstraintType} code per parameter. */
-    public final int[] constraintType;
+    final int[] constraintType;
     /** Gaussian: centre of the constraint (the nominal auxiliary value); Poisson: the auxiliary count m. */
-    public final double[] auxNominal;
+    final double[] auxNominal;
     /** Gaussian width w. */
-    public final double[] width;
+    final double[] width;
     /** Poisson τ. */
-    public final double[] tau;
+    final double[] tau;
     /** Gaussian width, or r of a Poisson constraint, or NaN for a free parameter. */
-    public final double[] prefitWidth;
+    final double[] prefitWidth;
     /**
      * Parameters (length nParams) with a kink at θ = 0: a {@code linear} norm or shape term, or an
      * {@code exponential} norm term with κu·κd ≠ 1. The fitter treats each side as a smooth piece.
      */
-    public final boolean[] kinked;
+    final boolean[] kinked;
     /**
      * Parameters (length nParams) with a one-sided norm or shape term: up and down on the same side
      * of nominal in some bin, under any interpolation. Such a term turns back inside the range
@@ -60,66 +61,66 @@ public final class CompiledModel implements java.io.Serializable {
      * so −ln L can have a minimum on each side; the fitter looks on the other side
      * ({@code OtherSideSearch}).
      */
-    public final boolean[] oneSided;
+    final boolean[] oneSided;
     /** Global bin of each γ (length nGamma). */
-    public final int[] gammaBin;
+    final int[] gammaBin;
     /** γ index of each global bin, or −1 (length nBins). */
-    public final int[] binGamma;
+    final int[] binGamma;
 
     // ---- channels ----
-    public final int nChannels;
-    public final int nBins;
-    public final String[] channelNames;
-    public final String[] observables;
+    final int nChannels;
+    final int nBins;
+    final String[] channelNames;
+    final String[] observables;
     /** Bin edges per channel, or null. */
-    public final double[][] edges;
+    final double[][] edges;
     /** Observed counts per channel, or null for a blinded channel. */
-    public final double[][] observed;
+    final double[][] observed;
     /** Length nChannels + 1. */
-    public final int[] channelBinStart;
+    final int[] channelBinStart;
     /** Sorted global indices (&lt; nParams) of the parameters acting on each channel. */
-    public final int[][] channelParams;
+    final int[][] channelParams;
 
     // ---- samples ----
-    public final int nSamples;
-    public final String[] sampleNames;
-    public final int[] sampleChannel;
+    final int nSamples;
+    final String[] sampleNames;
+    final int[] sampleChannel;
     /** Whether the sample takes part in the MC-statistics term. */
-    public final boolean[] sampleMcStat;
+    final boolean[] sampleMcStat;
     /** Length nSamples + 1; entries of sample s start here. */
-    public final int[] sampleEntryStart;
+    final int[] sampleEntryStart;
     /** Nominal yield per entry. */
-    public final double[] nominalYield;
+    final double[] nominalYield;
 
     // ---- multiplicative terms (norm parts and factors) ----
     /** Length nSamples + 1. */
-    public final int[] sampleMulStart;
-    public final int[] mulParam;
+    final int[] sampleMulStart;
+    final int[] mulParam;
     /** Index of the term's parameter within its channel's {@link #channelParams}. */
-    public final int[] mulLocal;
+    final int[] mulLocal;
     /** {@link NormInterpolation#COEFFS} coefficients per term. */
-    public final double[] mulCoeffs;
+    final double[] mulCoeffs;
 
     // ---- shape terms ----
     /** Length nSamples + 1. */
-    public final int[] sampleShapeStart;
-    public final int[] shapeParam;
-    public final int[] shapeLocal;
+    final int[] sampleShapeStart;
+    final int[] shapeParam;
+    final int[] shapeLocal;
     /** {@link ShapeInterpolation} mode per term. */
-    public final int[] shapeMode;
+    final int[] shapeMode;
     /** Per term, offset of its per-bin coefficients in {@link #shapeS} and {@link #shapeA}. */
-    public final int[] shapeCoeffStart;
-    public final double[] shapeS;
-    public final double[] shapeA;
+    final int[] shapeCoeffStart;
+    final double[] shapeS;
+    final double[] shapeA;
 
     // ---- bookkeeping for people ----
-    public final String[] groupNames;
+    final String[] groupNames;
     /** Parameter indices of each group. */
-    public final int[][] groupMembers;
+    final int[][] groupMembers;
     /** Variations dropped by {@code options.pruneBelow}, one line each. */
-    public final List<String> pruned;
+    final List<String> pruned;
     /** Warnings for the analyst (one-sided or over-100 % variations, ...). */
-    public final List<String> warnings;
+    final List<String> warnings;
 
     CompiledModel(Builder b) {
         name = b.name;
@@ -191,6 +192,16 @@ public final class CompiledModel implements java.io.Serializable {
         return channelBinStart[c + 1] - channelBinStart[c];
     }
 
+    /** Whether channel c is blinded (has no observed counts). */
+    public boolean blinded(int c) {
+        return observed[c] == null;
+    }
+
+    /** Whether parameter i (&lt; nParams) acts on channel c; no copy of {@code channelParams} is made. */
+    public boolean actsOn(int c, int i) {
+        return java.util.Arrays.binarySearch(channelParams[c], i) >= 0;
+    }
+
     /** Whether any channel is blinded (has no observed counts). */
     public boolean anyBlinded() {
         for (double[] o : observed) if (o == null) return true;
@@ -217,6 +228,425 @@ public final class CompiledModel implements java.io.Serializable {
             n += (long) bins * Math.max(1, terms);
         }
         return n;
+    }
+
+    // ---- read-only accessors: element access, or a copy of the whole array ----
+
+    public String name() {
+        return name;
+    }
+
+    public int poi() {
+        return poi;
+    }
+
+    public Map<String, Object> labels() {
+        return labels;
+    }
+
+    public int nParams() {
+        return nParams;
+    }
+
+    public int nGamma() {
+        return nGamma;
+    }
+
+    public int nAll() {
+        return nAll;
+    }
+
+    public String parameterNames(int i) {
+        return parameterNames[i];
+    }
+
+    /** A copy of {@code parameterNames}. */
+    public String[] parameterNames() {
+        return parameterNames.clone();
+    }
+
+    public ParameterKind kind(int i) {
+        return kind[i];
+    }
+
+    /** A copy of {@code kind}. */
+    public ParameterKind[] kind() {
+        return kind.clone();
+    }
+
+    public double nominal(int i) {
+        return nominal[i];
+    }
+
+    /** A copy of {@code nominal}. */
+    public double[] nominal() {
+        return nominal.clone();
+    }
+
+    public double lower(int i) {
+        return lower[i];
+    }
+
+    /** A copy of {@code lower}. */
+    public double[] lower() {
+        return lower.clone();
+    }
+
+    public double upper(int i) {
+        return upper[i];
+    }
+
+    /** A copy of {@code upper}. */
+    public double[] upper() {
+        return upper.clone();
+    }
+
+    public boolean fixed(int i) {
+        return fixed[i];
+    }
+
+    /** A copy of {@code fixed}. */
+    public boolean[] fixed() {
+        return fixed.clone();
+    }
+
+    public int constraintType(int i) {
+        return constraintType[i];
+    }
+
+    /** A copy of {@code constraintType}. */
+    public int[] constraintType() {
+        return constraintType.clone();
+    }
+
+    public double auxNominal(int i) {
+        return auxNominal[i];
+    }
+
+    /** A copy of {@code auxNominal}. */
+    public double[] auxNominal() {
+        return auxNominal.clone();
+    }
+
+    public double width(int i) {
+        return width[i];
+    }
+
+    /** A copy of {@code width}. */
+    public double[] width() {
+        return width.clone();
+    }
+
+    public double tau(int i) {
+        return tau[i];
+    }
+
+    /** A copy of {@code tau}. */
+    public double[] tau() {
+        return tau.clone();
+    }
+
+    public double prefitWidth(int i) {
+        return prefitWidth[i];
+    }
+
+    /** A copy of {@code prefitWidth}. */
+    public double[] prefitWidth() {
+        return prefitWidth.clone();
+    }
+
+    public boolean kinked(int i) {
+        return kinked[i];
+    }
+
+    /** A copy of {@code kinked}. */
+    public boolean[] kinked() {
+        return kinked.clone();
+    }
+
+    public boolean oneSided(int i) {
+        return oneSided[i];
+    }
+
+    /** A copy of {@code oneSided}. */
+    public boolean[] oneSided() {
+        return oneSided.clone();
+    }
+
+    public int gammaBin(int i) {
+        return gammaBin[i];
+    }
+
+    /** A copy of {@code gammaBin}. */
+    public int[] gammaBin() {
+        return gammaBin.clone();
+    }
+
+    public int binGamma(int i) {
+        return binGamma[i];
+    }
+
+    /** A copy of {@code binGamma}. */
+    public int[] binGamma() {
+        return binGamma.clone();
+    }
+
+    public int nChannels() {
+        return nChannels;
+    }
+
+    public int nBins() {
+        return nBins;
+    }
+
+    public String channelNames(int i) {
+        return channelNames[i];
+    }
+
+    /** A copy of {@code channelNames}. */
+    public String[] channelNames() {
+        return channelNames.clone();
+    }
+
+    public String observables(int i) {
+        return observables[i];
+    }
+
+    /** A copy of {@code observables}. */
+    public String[] observables() {
+        return observables.clone();
+    }
+
+    /** Row {@code i} of {@code edges} (a copy; null where the row is null). */
+    public double[] edges(int i) {
+        return edges[i] == null ? null : edges[i].clone();
+    }
+
+    /** A copy of {@code edges}, rows copied too. */
+    public double[][] edges() {
+        double[][] out = new double[edges.length][];
+        for (int i = 0; i < out.length; i++) out[i] = edges(i);
+        return out;
+    }
+
+    /** Row {@code i} of {@code observed} (a copy; null where the row is null). */
+    public double[] observed(int i) {
+        return observed[i] == null ? null : observed[i].clone();
+    }
+
+    /** A copy of {@code observed}, rows copied too. */
+    public double[][] observed() {
+        double[][] out = new double[observed.length][];
+        for (int i = 0; i < out.length; i++) out[i] = observed(i);
+        return out;
+    }
+
+    public int channelBinStart(int i) {
+        return channelBinStart[i];
+    }
+
+    /** A copy of {@code channelBinStart}. */
+    public int[] channelBinStart() {
+        return channelBinStart.clone();
+    }
+
+    /** Row {@code i} of {@code channelParams} (a copy; null where the row is null). */
+    public int[] channelParams(int i) {
+        return channelParams[i] == null ? null : channelParams[i].clone();
+    }
+
+    /** A copy of {@code channelParams}, rows copied too. */
+    public int[][] channelParams() {
+        int[][] out = new int[channelParams.length][];
+        for (int i = 0; i < out.length; i++) out[i] = channelParams(i);
+        return out;
+    }
+
+    public int nSamples() {
+        return nSamples;
+    }
+
+    public String sampleNames(int i) {
+        return sampleNames[i];
+    }
+
+    /** A copy of {@code sampleNames}. */
+    public String[] sampleNames() {
+        return sampleNames.clone();
+    }
+
+    public int sampleChannel(int i) {
+        return sampleChannel[i];
+    }
+
+    /** A copy of {@code sampleChannel}. */
+    public int[] sampleChannel() {
+        return sampleChannel.clone();
+    }
+
+    public boolean sampleMcStat(int i) {
+        return sampleMcStat[i];
+    }
+
+    /** A copy of {@code sampleMcStat}. */
+    public boolean[] sampleMcStat() {
+        return sampleMcStat.clone();
+    }
+
+    public int sampleEntryStart(int i) {
+        return sampleEntryStart[i];
+    }
+
+    /** A copy of {@code sampleEntryStart}. */
+    public int[] sampleEntryStart() {
+        return sampleEntryStart.clone();
+    }
+
+    /** Number of (sample, bin) entries: the length of {@code nominalYield}. */
+    public int nEntries() {
+        return nominalYield.length;
+    }
+
+    public double nominalYield(int i) {
+        return nominalYield[i];
+    }
+
+    /** A copy of {@code nominalYield}. */
+    public double[] nominalYield() {
+        return nominalYield.clone();
+    }
+
+    public int sampleMulStart(int i) {
+        return sampleMulStart[i];
+    }
+
+    /** A copy of {@code sampleMulStart}. */
+    public int[] sampleMulStart() {
+        return sampleMulStart.clone();
+    }
+
+    public int mulParam(int i) {
+        return mulParam[i];
+    }
+
+    /** A copy of {@code mulParam}. */
+    public int[] mulParam() {
+        return mulParam.clone();
+    }
+
+    public int mulLocal(int i) {
+        return mulLocal[i];
+    }
+
+    /** A copy of {@code mulLocal}. */
+    public int[] mulLocal() {
+        return mulLocal.clone();
+    }
+
+    public double mulCoeffs(int i) {
+        return mulCoeffs[i];
+    }
+
+    /** A copy of {@code mulCoeffs}. */
+    public double[] mulCoeffs() {
+        return mulCoeffs.clone();
+    }
+
+    public int sampleShapeStart(int i) {
+        return sampleShapeStart[i];
+    }
+
+    /** A copy of {@code sampleShapeStart}. */
+    public int[] sampleShapeStart() {
+        return sampleShapeStart.clone();
+    }
+
+    public int shapeParam(int i) {
+        return shapeParam[i];
+    }
+
+    /** A copy of {@code shapeParam}. */
+    public int[] shapeParam() {
+        return shapeParam.clone();
+    }
+
+    public int shapeLocal(int i) {
+        return shapeLocal[i];
+    }
+
+    /** A copy of {@code shapeLocal}. */
+    public int[] shapeLocal() {
+        return shapeLocal.clone();
+    }
+
+    public int shapeMode(int i) {
+        return shapeMode[i];
+    }
+
+    /** A copy of {@code shapeMode}. */
+    public int[] shapeMode() {
+        return shapeMode.clone();
+    }
+
+    public int shapeCoeffStart(int i) {
+        return shapeCoeffStart[i];
+    }
+
+    /** A copy of {@code shapeCoeffStart}. */
+    public int[] shapeCoeffStart() {
+        return shapeCoeffStart.clone();
+    }
+
+    public double shapeS(int i) {
+        return shapeS[i];
+    }
+
+    /** A copy of {@code shapeS}. */
+    public double[] shapeS() {
+        return shapeS.clone();
+    }
+
+    public double shapeA(int i) {
+        return shapeA[i];
+    }
+
+    /** A copy of {@code shapeA}. */
+    public double[] shapeA() {
+        return shapeA.clone();
+    }
+
+    /** Number of parameter groups. */
+    public int nGroups() {
+        return groupNames.length;
+    }
+
+    public String groupNames(int i) {
+        return groupNames[i];
+    }
+
+    /** A copy of {@code groupNames}. */
+    public String[] groupNames() {
+        return groupNames.clone();
+    }
+
+    /** Row {@code i} of {@code groupMembers} (a copy; null where the row is null). */
+    public int[] groupMembers(int i) {
+        return groupMembers[i] == null ? null : groupMembers[i].clone();
+    }
+
+    /** A copy of {@code groupMembers}, rows copied too. */
+    public int[][] groupMembers() {
+        int[][] out = new int[groupMembers.length][];
+        for (int i = 0; i < out.length; i++) out[i] = groupMembers(i);
+        return out;
+    }
+
+    public List<String> pruned() {
+        return pruned;
+    }
+
+    public List<String> warnings() {
+        return warnings;
     }
 
     /** A builder holding this model's arrays (shared, not copied): the start of a what-if variant. */

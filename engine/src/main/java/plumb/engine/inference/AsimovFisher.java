@@ -49,18 +49,18 @@ public final class AsimovFisher {
      */
     AsimovFisher(CompiledModel m, DataSet data, double[] values, int[] held) {
         this.m = m;
-        this.nP = m.nParams;
+        this.nP = m.nParams();
         nll = new BinnedNll(m, data, false);
-        free = new boolean[m.nAll];
-        for (int i = 0; i < m.nAll; i++) free[i] = !m.fixed[i];
+        free = new boolean[m.nAll()];
+        for (int i = 0; i < m.nAll(); i++) free[i] = !m.fixed(i);
         for (int i : held) {
             free[i] = false;
             if (i >= nP) nll.holdGamma(i - nP, values[i]);
         }
-        curvature = new double[m.nAll];
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) curvature[i] = 1 / (m.width[i] * m.width[i]);
-            else if (m.constraintType[i] == ConstraintType.POISSON) curvature[i] = data.aux()[i] / (values[i] * values[i]);
+        curvature = new double[m.nAll()];
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) curvature[i] = 1 / (m.width(i) * m.width(i));
+            else if (m.constraintType(i) == ConstraintType.POISSON) curvature[i] = data.aux()[i] / (values[i] * values[i]);
         }
         x = Arrays.copyOf(values, nP);
         double[] h = new double[nP * nP];
@@ -70,7 +70,7 @@ public final class AsimovFisher {
 
     /** Whether H is positive definite over the free parameters (else every variance is NaN). */
     boolean valid() {
-        return cov != null && m.poi >= 0 && free[m.poi];
+        return cov != null && m.poi() >= 0 && free[m.poi()];
     }
 
     boolean free(int i) {
@@ -79,7 +79,7 @@ public final class AsimovFisher {
 
     /** σ_μ² as the model is. */
     double variance() {
-        return valid() ? cov[m.poi * nP + m.poi] : Double.NaN;
+        return valid() ? cov[m.poi() * nP + m.poi()] : Double.NaN;
     }
 
     /** Δ of parameter i's curvature when its width is scaled by k; +∞ for k = 0 (held). */
@@ -90,7 +90,7 @@ public final class AsimovFisher {
     /** σ_μ² with model parameter i held (k = 0) or its pre-fit width scaled by k. */
     double variance(int i, double k) {
         if (!valid()) return Double.NaN;
-        int p = m.poi;
+        int p = m.poi();
         double cpp = cov[p * nP + p], cpi = cov[p * nP + i], cii = cov[i * nP + i];
         if (!free[i] || curvature[i] == 0) return cpp;
         if (k == 0) return cpp - cpi * cpi / cii;
@@ -101,7 +101,7 @@ public final class AsimovFisher {
     /** σ_μ² with the model parameters of {@code group} held (k = 0) or their widths scaled by k. */
     double variance(int[] group, double k) {
         if (!valid()) return Double.NaN;
-        int p = m.poi;
+        int p = m.poi();
         int[] g = Arrays.stream(group).filter(i -> i < nP && free[i] && curvature[i] > 0).toArray();
         int n = g.length;
         double cpp = cov[p * nP + p];
@@ -145,7 +145,7 @@ public final class AsimovFisher {
      */
     double varianceRebuilt(int[] params, boolean gammas, double k) {
         if (!valid()) return Double.NaN;
-        int nAll = m.nAll;
+        int nAll = m.nAll();
         if (full == null) {
             full = new double[nAll * nAll];
             nll.fullHessian(x, full);
@@ -186,7 +186,7 @@ public final class AsimovFisher {
         int k = 0, p = -1;
         for (int i = 0; i < nP; i++) {
             if (!free[i] || alsoHeld[i]) continue;
-            if (i == m.poi) p = k;
+            if (i == m.poi()) p = k;
             idx[k++] = i;
         }
         double[] sub = new double[k * k];
@@ -207,11 +207,11 @@ public final class AsimovFisher {
     double[] conditionalPoint(double[] values, double mu) {
         double[] out = values.clone();
         if (!valid()) return out;
-        int p = m.poi;
+        int p = m.poi();
         double f = (mu - values[p]) / cov[p * nP + p];
         for (int i = 0; i < nP; i++) {
             if (!free[i]) continue;
-            out[i] = Math.max(m.lower[i], Math.min(m.upper[i], values[i] + cov[i * nP + p] * f));
+            out[i] = Math.max(m.lower(i), Math.min(m.upper(i), values[i] + cov[i * nP + p] * f));
         }
         out[p] = mu;
         return out;

@@ -80,7 +80,7 @@ public final class AsymptoticUpperLimit {
         PoiProfile asimov = new PoiProfile(m, asimovZero, settings, held, heldValues, "the Asimov data set at mu = 0");
         PoiProfile observed = data == null ? null
                 : new PoiProfile(m, data, settings, held, heldValues, "the " + data.kind() + " data");
-        double lo = Math.max(0, m.lower[m.poi]), hi = m.upper[m.poi];
+        double lo = Math.max(0, m.lower(m.poi())), hi = m.upper(m.poi());
         if (!(hi > lo)) throw new InferenceException("the POI's range has no positive values to set a limit in");
         double sigma = sigmaEstimate(m, asimov, observed, lo, hi);
 
@@ -111,8 +111,8 @@ public final class AsymptoticUpperLimit {
      * POI when it has one. A probe the data hardly constrain is moved up tenfold until q_A is usable.
      */
     private static double sigmaEstimate(CompiledModel m, PoiProfile asimov, PoiProfile observed, double lo, double hi) {
-        double probe = asimov.best().errors()[m.poi];
-        if (!(probe > 0 && Double.isFinite(probe)) && observed != null) probe = observed.best().errors()[m.poi];
+        double probe = asimov.best().errors()[m.poi()];
+        if (!(probe > 0 && Double.isFinite(probe)) && observed != null) probe = observed.best().errors()[m.poi()];
         if (!(probe > 0 && Double.isFinite(probe))) probe = (hi - lo) / 20;
         probe = Math.min(hi, lo + probe);
         double qA = asimov.qTilde(probe);

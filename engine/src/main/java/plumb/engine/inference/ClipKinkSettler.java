@@ -132,7 +132,7 @@ final class ClipKinkSettler {
     private static Stationarity stationarity(BinnedNll nll, double[] x, double[] h, boolean[] held, double[] lower,
                                              double[] upper) {
         final int n = x.length;
-        final int nP = nll.model().nParams;
+        final int nP = nll.model().nParams();
         int[] entries = new int[4 * MAX_KINKS];
         int all = nll.entriesAtClip(x, ON_KINK, entries);
         if (all == 0 || all > entries.length) return null;
@@ -146,11 +146,11 @@ final class ClipKinkSettler {
         int k = 0;
         for (int j = 0; j < all; j++) {
             int s = nll.sampleOfEntry(entries[j]);
-            int bin = entries[j] - nll.model().sampleEntryStart[s];
+            int bin = entries[j] - nll.model().sampleEntryStart(s);
             double value = nll.unclippedBase(x, s, bin, tmp);
             double[] normal = Arrays.copyOf(tmp, n);
             if (!(dot(normal, normal) > 0)) continue; // touches zero without crossing: no kink
-            reach = Math.max(reach, Math.max(Math.abs(value), PROBE * (1 + nll.model().nominalYield[entries[j]]))
+            reach = Math.max(reach, Math.max(Math.abs(value), PROBE * (1 + nll.model().nominalYield(entries[j])))
                     / Math.sqrt(dot(normal, normal)));
             if (independent(normal, normals, k)) {
                 if (k == MAX_KINKS) return null;

@@ -75,7 +75,7 @@ public final class Contour {
         }
         FitResult best = new Fitter(p).fit();
         if (!best.converged()) throw new InferenceException("the best fit did not converge (" + best.status() + ")");
-        int nP = m.nParams;
+        int nP = m.nParams();
         double sx = best.errors()[ix], sy = best.errors()[iy];
         double rho = best.correlation(ix, iy, nP);
         if (!(sx > 0 && sy > 0 && Double.isFinite(sx) && Double.isFinite(sy))) {
@@ -115,8 +115,8 @@ public final class Contour {
         CompiledModel m = p.model();
         int i = m.indexOf(name);
         if (i < 0) throw new IllegalArgumentException("the model has no parameter '" + name + "'");
-        if (i >= m.nParams) throw new IllegalArgumentException(name + " is an MC-statistics parameter; a contour takes model parameters");
-        if (m.fixed[i] || p.holds(name)) throw new IllegalArgumentException(name + " is held; a contour needs two free parameters");
+        if (i >= m.nParams()) throw new IllegalArgumentException(name + " is an MC-statistics parameter; a contour takes model parameters");
+        if (m.fixed(i) || p.holds(name)) throw new IllegalArgumentException(name + " is held; a contour needs two free parameters");
         return i;
     }
 
@@ -130,8 +130,8 @@ public final class Contour {
                                  double[] levels) {
         double x0 = best.values()[ix], y0 = best.values()[iy];
         double tMax = Double.POSITIVE_INFINITY;
-        tMax = Math.min(tMax, reach(x0, d[0], m.lower[ix], m.upper[ix]));
-        tMax = Math.min(tMax, reach(y0, d[1], m.lower[iy], m.upper[iy]));
+        tMax = Math.min(tMax, reach(x0, d[0], m.lower(ix), m.upper(ix)));
+        tMax = Math.min(tMax, reach(y0, d[1], m.lower(iy), m.upper(iy)));
         Along along = new Along(fitter, best, ix, iy, d);
         double[] ts = new double[levels.length];
         boolean[] open = new boolean[levels.length];

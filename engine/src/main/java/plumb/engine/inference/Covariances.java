@@ -21,7 +21,7 @@ public final class Covariances {
      */
     public static double[] full(BinnedNll nll, FitResult best) {
         CompiledModel m = nll.model();
-        int nAll = m.nAll;
+        int nAll = m.nAll();
         // the Hessian, its reduced copy, the inverse and the result, all nAll² at most
         MemoryBudget.requireSquares(nAll, 4, "the covariance of all " + nAll + " parameters (MC statistics included)");
         double[] x = java.util.Arrays.copyOf(best.values(), nll.dimension());

@@ -86,15 +86,15 @@ public record DataRequest(boolean asimov, Double asimovPoi, boolean postfit) {
         if (!asimov) {
             DataSet observed = DataSet.observed(m);
             if (!observed.anyChannel()) {
-                throw new Refused(Reason.ALL_BLINDED, Double.NaN, "every channel of model '" + m.name
+                throw new Refused(Reason.ALL_BLINDED, Double.NaN, "every channel of model '" + m.name()
                         + "' is blinded: it has no observed data to fit; ask for the Asimov data set");
             }
             return new FitData(Problem.of(m, observed, settings, held), null, null);
         }
-        if (m.poi < 0) throw noPoi(m);
+        if (m.poi() < 0) throw noPoi(m);
         double mu = asimovPoi == null ? defaultAsimovPoi : asimovPoi;
         requireInRange(m, mu);
-        Problem nothing = Problem.of(m, DataSet.observed(m).anyChannel() ? DataSet.observed(m) : DataSets.asimov(m, m.nominal),
+        Problem nothing = Problem.of(m, DataSet.observed(m).anyChannel() ? DataSet.observed(m) : DataSets.asimov(m, m.nominal()),
                 settings, held);
         DataSets.Generated g = DataSets.asimovAt(m, mu, nothing.heldIndices(), nothing.heldValues(), postfit, settings);
         return new FitData(nothing.withData(g.data()), g.conditionalFit(), mu);
@@ -133,12 +133,12 @@ public record DataRequest(boolean asimov, Double asimovPoi, boolean postfit) {
      */
     public PoiTestData forPoiTest(CompiledModel m, Map<String, Double> held, FitSettings settings, double expectedPoi,
                                   double defaultAsimovPoi) {
-        if (m.poi < 0) throw noPoi(m);
-        if (held.containsKey(m.parameterNames[m.poi])) {
-            throw new Refused(Reason.POI_HELD, Double.NaN, "the POI " + m.parameterNames[m.poi] + " cannot be held in a POI test");
+        if (m.poi() < 0) throw noPoi(m);
+        if (held.containsKey(m.parameterNames(m.poi()))) {
+            throw new Refused(Reason.POI_HELD, Double.NaN, "the POI " + m.parameterNames(m.poi()) + " cannot be held in a POI test");
         }
         DataSet observed = DataSet.observed(m);
-        Problem base = Problem.of(m, observed.anyChannel() ? observed : DataSets.asimov(m, m.nominal), settings, held);
+        Problem base = Problem.of(m, observed.anyChannel() ? observed : DataSets.asimov(m, m.nominal()), settings, held);
         int[] h = base.heldIndices();
         double[] hv = base.heldValues();
         if (asimov) {
@@ -170,21 +170,21 @@ public record DataRequest(boolean asimov, Double asimovPoi, boolean postfit) {
         if (c != null && !c.converged()) {
             throw new InferenceException(String.format(Locale.ROOT,
                     "the fit to the observed data with %s = %s that sets the Asimov data set did not converge (%s)",
-                    m.parameterNames[m.poi], mu, c.status()));
+                    m.parameterNames(m.poi()), mu, c.status()));
         }
         return g.data();
     }
 
     /** The POI value {@code mu} inside the POI's range, else refused. */
     public static void requireInRange(CompiledModel m, double mu) {
-        if (m.poi < 0) throw noPoi(m);
-        if (!(mu >= m.lower[m.poi] && mu <= m.upper[m.poi])) {
+        if (m.poi() < 0) throw noPoi(m);
+        if (!(mu >= m.lower(m.poi()) && mu <= m.upper(m.poi()))) {
             throw new Refused(Reason.POI_OUT_OF_RANGE, mu, String.format(Locale.ROOT,
-                    "POI value %s is outside the range [%s, %s]", mu, m.lower[m.poi], m.upper[m.poi]));
+                    "POI value %s is outside the range [%s, %s]", mu, m.lower(m.poi()), m.upper(m.poi())));
         }
     }
 
     private static Refused noPoi(CompiledModel m) {
-        return new Refused(Reason.NO_POI, Double.NaN, "model '" + m.name + "' names no parameter of interest");
+        return new Refused(Reason.NO_POI, Double.NaN, "model '" + m.name() + "' names no parameter of interest");
     }
 }

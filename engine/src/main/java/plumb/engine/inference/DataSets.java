@@ -19,7 +19,7 @@ public final class DataSets {
      * value (Gaussian centre = θ, Poisson m = τγ). Cowan, Cranmer, Gross, Vitells, EPJ C 71 (2011) 1554.
      */
     public static DataSet asimov(CompiledModel m, double[] values) {
-        boolean[] all = new boolean[m.nChannels];
+        boolean[] all = new boolean[m.nChannels()];
         Arrays.fill(all, true);
         double[] counts = expectedCounts(m, values);
         double[] aux = generatingAux(m, values);
@@ -35,12 +35,12 @@ public final class DataSets {
      */
     public static Generated asimovAt(CompiledModel m, double poiValue, int[] held, double[] heldValues,
                                      boolean postfit, FitSettings settings) {
-        if (m.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
         int[] hold = Arrays.copyOf(held, held.length + 1);
         double[] holdValues = Arrays.copyOf(heldValues, heldValues.length + 1);
-        hold[held.length] = m.poi;
+        hold[held.length] = m.poi();
         holdValues[held.length] = poiValue;
-        double[] values = m.nominal.clone();
+        double[] values = m.nominal();
         for (int k = 0; k < hold.length; k++) values[hold[k]] = holdValues[k];
         FitResult conditional = null;
         DataSet observed = DataSet.observed(m);
@@ -61,17 +61,17 @@ public final class DataSets {
     /** Expected count of every bin at {@code values} (nAll, γ included). */
     public static double[] expectedCounts(CompiledModel m, double[] values) {
         BinnedNll nll = new BinnedNll(m, DataSet.observed(m), true);
-        double[] counts = new double[m.nBins];
+        double[] counts = new double[m.nBins()];
         nll.expectedBins(values, counts);
         return counts;
     }
 
     /** Auxiliary values a data set generated at {@code values} has without fluctuation. */
     public static double[] generatingAux(CompiledModel m, double[] values) {
-        double[] aux = m.auxNominal.clone();
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) aux[i] = values[i];
-            else if (m.constraintType[i] == ConstraintType.POISSON) aux[i] = m.tau[i] * values[i];
+        double[] aux = m.auxNominal();
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) aux[i] = values[i];
+            else if (m.constraintType(i) == ConstraintType.POISSON) aux[i] = m.tau(i) * values[i];
         }
         return aux;
     }

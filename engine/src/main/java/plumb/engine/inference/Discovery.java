@@ -86,8 +86,8 @@ public final class Discovery {
     static double q0(CompiledModel m, Fitter fitter, double[] start) {
         FitResult best = fitter.fit(start, -1, 0);
         if (!PoiProfile.minimumFound(best)) return Double.NaN;
-        if (best.values()[m.poi] <= 0) return 0;
-        FitResult zero = fitter.fit(best.values(), m.poi, 0);
+        if (best.values()[m.poi()] <= 0) return 0;
+        FitResult zero = fitter.fit(best.values(), m.poi(), 0);
         if (!PoiProfile.minimumFound(zero)) return Double.NaN;
         return Math.max(0, 2 * (zero.nll() - best.nll()));
     }

@@ -52,10 +52,10 @@ public record FitChecks(double smallestEigenvalue, int[] degenerate, byte[] boun
      * @param values   every parameter's value (nAll)
      */
     static FitChecks of(CompiledModel m, int dim, double[] hessian, double[] errors, boolean[] held, double[] values) {
-        byte[] bound = new byte[m.nAll];
-        for (int i = 0; i < m.nAll; i++) {
+        byte[] bound = new byte[m.nAll()];
+        for (int i = 0; i < m.nAll(); i++) {
             if (held[i]) continue;
-            double lo = m.lower[i], hi = m.upper[i], x = values[i];
+            double lo = m.lower(i), hi = m.upper(i), x = values[i];
             if (Double.isFinite(lo) && x <= lo + tolerance(lo, hi)) bound[i] = -1;
             else if (Double.isFinite(hi) && x >= hi - tolerance(lo, hi)) bound[i] = 1;
         }
@@ -101,7 +101,7 @@ public record FitChecks(double smallestEigenvalue, int[] degenerate, byte[] boun
         double max = 0;
         for (double x : v) max = Math.max(max, Math.abs(x));
         List<Integer> named = new ArrayList<>();
-        for (int a = 0; a < k; a++) if (Math.abs(v[a]) >= SHARE * max && free[a] < m.nParams) named.add(a);
+        for (int a = 0; a < k; a++) if (Math.abs(v[a]) >= SHARE * max && free[a] < m.nParams()) named.add(a);
         final double[] dir = v;
         named.sort((a, b) -> Double.compare(Math.abs(dir[b]), Math.abs(dir[a])));
         int[] degenerate = named.stream().mapToInt(a -> free[a]).toArray();

@@ -64,7 +64,7 @@ public record FitResult(MinimumStatus status, double nll, double[] values, doubl
             double[] size = new double[values.length];
             for (int i = 0; i < values.length; i++) {
                 order[i] = i;
-                double w = m.constrained(i) ? m.prefitWidth[i] : best.errors()[i];
+                double w = m.constrained(i) ? m.prefitWidth(i) : best.errors()[i];
                 double scale = w > 0 && Double.isFinite(w) ? w : 1;
                 size[i] = best.held()[i] ? 0 : Math.abs(values[i] - best.values()[i]) / scale;
             }

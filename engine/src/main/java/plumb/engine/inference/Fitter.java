@@ -45,24 +45,24 @@ public final class Fitter {
     public Fitter(CompiledModel model, DataSet data, FitSettings settings, int[] held, double[] heldValues) {
         this.m = model;
         // refused before any n×n matrix is made: one line instead of an OutOfMemoryError
-        MemoryBudget.requireFitter(settings.explicitGamma() ? model.nAll : model.nParams);
+        MemoryBudget.requireFitter(settings.explicitGamma() ? model.nAll() : model.nParams());
         this.nll = new BinnedNll(model, data, settings.explicitGamma());
         this.kinkTolerance = settings.options().fallbackTolerance();
         this.dim = nll.dimension();
         this.minimiser = minimiser(settings.minimiser(), settings.options().withRestart(false));
         this.restarting = settings.minimiser() == FitSettings.MinimiserKind.REFERENCE || !settings.options().restart()
                 ? null : minimiser(settings.minimiser(), settings.options());
-        lower = Arrays.copyOf(model.lower, dim);
-        upper = Arrays.copyOf(model.upper, dim);
-        baseHeld = Arrays.copyOf(model.fixed, dim);
-        baseStart = Arrays.copyOf(model.nominal, dim);
+        lower = Arrays.copyOf(model.lower(), dim);
+        upper = Arrays.copyOf(model.upper(), dim);
+        baseHeld = Arrays.copyOf(model.fixed(), dim);
+        baseStart = Arrays.copyOf(model.nominal(), dim);
         for (int k = 0; k < held.length; k++) {
             int i = held[k];
             if (i < dim) {
                 baseHeld[i] = true;
                 baseStart[i] = heldValues[k];
             } else {
-                nll.holdGamma(i - model.nParams, heldValues[k]);
+                nll.holdGamma(i - model.nParams(), heldValues[k]);
             }
         }
     }
@@ -224,7 +224,7 @@ public final class Fitter {
             for (double[] x : seen) known |= OtherSideSearch.same(m, r.x(), x);
             if (known) continue;
             seen.add(r.x());
-            double[] values = new double[m.nAll];
+            double[] values = new double[m.nAll()];
             nll.allValues(r.x(), values);
             out.add(new FitResult.OtherMinimum(r.value() - best.value(), values));
         }
@@ -290,7 +290,7 @@ public final class Fitter {
     }
 
     private boolean hasKinks(boolean[] held) {
-        for (int i = 0; i < m.nParams; i++) if (m.kinked[i] && !held[i]) return true;
+        for (int i = 0; i < m.nParams(); i++) if (m.kinked(i) && !held[i]) return true;
         return false;
     }
 
@@ -309,10 +309,10 @@ public final class Fitter {
         nll.valueAndGradient(x, grad);
         double[] right = grad.clone();
         System.arraycopy(x, 0, probe, 0, dim);
-        for (int i = 0; i < m.nParams; i++) if (m.kinked[i] && !held[i] && x[i] == 0) probe[i] = LEFT_OF_KINK;
+        for (int i = 0; i < m.nParams(); i++) if (m.kinked(i) && !held[i] && x[i] == 0) probe[i] = LEFT_OF_KINK;
         nll.valueAndGradient(probe, grad);
-        for (int i = 0; i < m.nParams; i++) {
-            if (!m.kinked[i] || held[i]) continue;
+        for (int i = 0; i < m.nParams(); i++) {
+            if (!m.kinked(i) || held[i]) continue;
             boolean leftSide = x[i] < 0 || (x[i] == 0 && right[i] >= 0 && grad[i] > 0);
             restrict(i, leftSide, lo, hi);
         }
@@ -327,8 +327,8 @@ public final class Fitter {
             // The one-sided slope beyond the kink of every parameter sitting on it.
             System.arraycopy(x, 0, probe, 0, dim);
             boolean any = false;
-            for (int i = 0; i < m.nParams; i++) {
-                if (!m.kinked[i] || held[i]) continue;
+            for (int i = 0; i < m.nParams(); i++) {
+                if (!m.kinked(i) || held[i]) continue;
                 if (x[i] == LEFT_OF_KINK) {
                     probe[i] = 0;
                     any = true;
@@ -341,8 +341,8 @@ public final class Fitter {
             nll.valueAndGradient(probe, grad);
             evaluations++;
             boolean moved = false;
-            for (int i = 0; i < m.nParams; i++) {
-                if (!m.kinked[i] || held[i]) continue;
+            for (int i = 0; i < m.nParams(); i++) {
+                if (!m.kinked(i) || held[i]) continue;
                 if (x[i] == LEFT_OF_KINK && grad[i] < 0 && upper[i] > 0) {
                     restrict(i, false, lo, hi);
                     x[i] = 0;
@@ -385,40 +385,40 @@ public final class Fitter {
     }
 
     private FitResult toResult(MinimumResult r, boolean[] held, long nanos, List<FitResult.OtherMinimum> others) {
-        final int nP = m.nParams;
-        double[] values = new double[m.nAll];
+        final int nP = m.nParams();
+        double[] values = new double[m.nAll()];
         nll.allValues(r.x(), values);
         double[] cov = computeErrors ? r.covariance() : null;
         MinimumStatus status = r.status();
-        double[] errors = new double[m.nAll];
+        double[] errors = new double[m.nAll()];
         double[] covTheta = null;
         if (cov != null) {
             covTheta = new double[nP * nP];
             for (int i = 0; i < nP; i++) System.arraycopy(cov, i * dim, covTheta, i * nP, nP);
             for (int i = 0; i < dim; i++) errors[i] = Math.sqrt(Math.max(cov[i * dim + i], 0));
-            if (dim == nP && m.nGamma > 0) {
-                double[] var = new double[m.nGamma];
+            if (dim == nP && m.nGamma() > 0) {
+                double[] var = new double[m.nGamma()];
                 nll.gammaVariances(r.x(), covTheta, var);
-                for (int g = 0; g < m.nGamma; g++) errors[nP + g] = Math.sqrt(var[g]);
+                for (int g = 0; g < m.nGamma(); g++) errors[nP + g] = Math.sqrt(var[g]);
             }
         } else {
             Arrays.fill(errors, Double.NaN);
         }
-        boolean[] heldAll = Arrays.copyOf(held, m.nAll);
-        for (int g = 0; g < m.nGamma && dim == nP; g++) {
-            if (m.fixed[nP + g] || nll.gammaHeld(g)) {
+        boolean[] heldAll = Arrays.copyOf(held, m.nAll());
+        for (int g = 0; g < m.nGamma() && dim == nP; g++) {
+            if (m.fixed(nP + g) || nll.gammaHeld(g)) {
                 heldAll[nP + g] = true;
                 errors[nP + g] = 0;
             }
         }
         for (int i = 0; i < dim; i++) if (held[i]) errors[i] = 0;
-        boolean[] atKink = new boolean[m.nAll];
-        for (int i = 0; i < m.nParams; i++) {
-            atKink[i] = m.kinked[i] && !held[i] && (r.x()[i] == 0 || r.x()[i] == LEFT_OF_KINK);
+        boolean[] atKink = new boolean[m.nAll()];
+        for (int i = 0; i < m.nParams(); i++) {
+            atKink[i] = m.kinked(i) && !held[i] && (r.x()[i] == 0 || r.x()[i] == LEFT_OF_KINK);
         }
         // only for fits with errors: toys and refits skip them with the covariance
         FitChecks checks = computeErrors ? FitChecks.of(m, dim, cov == null ? null : r.hessian(), errors, heldAll, values)
-                : FitChecks.none(m.nAll);
+                : FitChecks.none(m.nAll());
         return new FitResult(status, r.value(), values, errors, covTheta, heldAll, r.evaluations(), r.iterations(),
                 nanos * 1e-9, others, atKink, checks);
     }

@@ -46,13 +46,13 @@ public final class GoodnessOfFit {
         double[] nu = DataSets.expectedCounts(m, values);
         double[] n = data.counts();
         double total = 0;
-        for (int c = 0; c < m.nChannels; c++) {
+        for (int c = 0; c < m.nChannels(); c++) {
             if (!data.channelIncluded()[c]) {
                 if (channelOut != null) channelOut[c] = Double.NaN;
                 continue;
             }
             double sum = 0;
-            for (int b = m.channelBinStart[c]; b < m.channelBinStart[c + 1]; b++) {
+            for (int b = m.channelBinStart(c); b < m.channelBinStart(c + 1); b++) {
                 double v = Math.max(nu[b], BinnedNll.NU_FLOOR);     // floor of docs/model-format.md
                 sum += n[b] > 0 ? 2 * (v - n[b] + n[b] * Math.log(n[b] / v)) : 2 * v;   // n = 0: no 0·ln 0
             }
@@ -65,12 +65,12 @@ public final class GoodnessOfFit {
     private static double constraintStatistic(CompiledModel m, DataSet data, double[] values) {
         double sum = 0;
         double[] aux = data.aux();
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
-                double d = (values[i] - aux[i]) / m.width[i];
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
+                double d = (values[i] - aux[i]) / m.width(i);
                 sum += d * d;
-            } else if (m.constraintType[i] == ConstraintType.POISSON) {
-                double mu = m.tau[i] * values[i], k = aux[i];
+            } else if (m.constraintType(i) == ConstraintType.POISSON) {
+                double mu = m.tau(i) * values[i], k = aux[i];
                 sum += k > 0 ? 2 * (mu - k - k * Math.log(mu / k)) : 2 * mu;
             }
         }
@@ -80,9 +80,9 @@ public final class GoodnessOfFit {
     /** Degrees of freedom: bins fitted minus free parameters not held in {@code fit}. */
     public static int ndof(CompiledModel m, DataSet data, boolean[] held) {
         int bins = 0;
-        for (int c = 0; c < m.nChannels; c++) if (data.channelIncluded()[c]) bins += m.bins(c);
+        for (int c = 0; c < m.nChannels(); c++) if (data.channelIncluded()[c]) bins += m.bins(c);
         int free = 0;
-        for (int i = 0; i < m.nAll; i++) if (m.constraintType[i] == ConstraintType.NONE && !held[i]) free++;
+        for (int i = 0; i < m.nAll(); i++) if (m.constraintType(i) == ConstraintType.NONE && !held[i]) free++;
         return bins - free;
     }
 
@@ -102,9 +102,9 @@ public final class GoodnessOfFit {
             throw new InferenceException(String.format(Locale.ROOT, "the fit to the %s data did not converge (%s)",
                     data.kind(), fit.status()));
         }
-        double[] channels = new double[m.nChannels];
-        int[] bins = new int[m.nChannels];
-        for (int c = 0; c < m.nChannels; c++) bins[c] = data.channelIncluded()[c] ? m.bins(c) : 0;
+        double[] channels = new double[m.nChannels()];
+        int[] bins = new int[m.nChannels()];
+        for (int c = 0; c < m.nChannels(); c++) bins[c] = data.channelIncluded()[c] ? m.bins(c) : 0;
         double total = statistic(m, data, fit.values(), channels);
         double binsPart = 0;
         for (double s : channels) if (!Double.isNaN(s)) binsPart += s;

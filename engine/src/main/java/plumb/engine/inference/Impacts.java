@@ -113,7 +113,7 @@ public final class Impacts {
      */
     public Impacts(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues,
                    FitResult best, boolean includeMcStat) {
-        if (m.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
         if (!best.converged() || best.covariance() == null) {
             throw new IllegalArgumentException("impacts need a converged best fit with a covariance, got " + best.status());
         }
@@ -126,9 +126,9 @@ public final class Impacts {
         this.probe = new Fitter(m, data, settings, held, heldValues);
         this.dim = probe.dimension();
         List<Integer> c = new ArrayList<>();
-        for (int i = 0; i < m.nAll; i++) {
-            if (i == m.poi || best.held()[i] || !m.constrained(i)) continue;
-            if (m.kind[i] == ParameterKind.MC_STATISTICS && !includeMcStat) continue;
+        for (int i = 0; i < m.nAll(); i++) {
+            if (i == m.poi() || best.held()[i] || !m.constrained(i)) continue;
+            if (m.kind(i) == ParameterKind.MC_STATISTICS && !includeMcStat) continue;
             c.add(i);
         }
         this.candidates = c.stream().mapToInt(Integer::intValue).toArray();
@@ -161,7 +161,7 @@ public final class Impacts {
     }
 
     private boolean anyGamma() {
-        for (int k : candidates) if (k >= m.nParams) return true;
+        for (int k : candidates) if (k >= m.nParams()) return true;
         return false;
     }
 
@@ -177,7 +177,7 @@ public final class Impacts {
 
     /** Σ(i, j) of the post-fit covariance: the fit's own for model parameters, the full one for γ. */
     private double cov(int i, int j) {
-        if (i < m.nParams && j < m.nParams) return best.covariance()[i * m.nParams + j];
+        if (i < m.nParams() && j < m.nParams()) return best.covariance()[i * m.nParams() + j];
         PostfitCovariance f = postfitCovariance();
         return f == null ? Double.NaN : f.covariance(i, j);
     }
@@ -185,15 +185,15 @@ public final class Impacts {
     /** Linearised shifts of every candidate, sorted by size, largest first. Costs O(candidates). */
     public List<Entry> linearised() {
         List<Entry> out = new ArrayList<>(candidates.length);
-        int poi = m.poi;
+        int poi = m.poi();
         Refits refits = new Refits(m, best, dim, null);
         for (int k : candidates) {
             double vk = cov(k, k);
             double slope = vk > 0 ? cov(poi, k) / vk : Double.NaN;
-            double sigma = best.errors()[k], w = m.prefitWidth[k], v = best.values()[k];
+            double sigma = best.errors()[k], w = m.prefitWidth(k), v = best.values()[k];
             Shift post = new Shift(slope * (refits.clip(k, v + sigma) - v), slope * (refits.clip(k, v - sigma) - v), null, null);
             Shift pre = new Shift(slope * (refits.clip(k, v + w) - v), slope * (refits.clip(k, v - w) - v), null, null);
-            out.add(new Entry(k, m.parameterNames[k], pull(k), best.errors()[k] / w, null, null, post, pre));
+            out.add(new Entry(k, m.parameterNames(k), pull(k), best.errors()[k] / w, null, null, post, pre));
         }
         out.sort(Comparator.comparingDouble(Entry::size).reversed());
         return out;
@@ -215,7 +215,7 @@ public final class Impacts {
         List<Entry> lin = linearised();
         int n = exactTop < 0 ? lin.size() : Math.min(exactTop, lin.size());
         List<Entry> chosen = lin.subList(0, n);
-        int poi = m.poi;
+        int poi = m.poi();
         int[] parameters = new int[n];
         for (int e = 0; e < n; e++) parameters[e] = chosen.get(e).parameter();
         RefitWork work = new RefitWork(data, Refits.refitSettings(settings), held, heldValues, best, dim,
@@ -259,10 +259,10 @@ public final class Impacts {
         public RefitPoi run(Worker w, CompiledModel m, int t) {
             int k = parameters[t / 4];
             double v = best.values()[k];
-            double d = (t % 4) < 2 ? best.errors()[k] : m.prefitWidth[k];
+            double d = (t % 4) < 2 ? best.errors()[k] : m.prefitWidth(k);
             double target = w.refits().clip(k, (t % 2) == 0 ? v + d : v - d);
             FitResult r = w.refits().refit(w.fitter(), k, target);
-            return new RefitPoi(r.status(), r.values()[m.poi]);
+            return new RefitPoi(r.status(), r.values()[m.poi()]);
         }
     }
 
@@ -273,7 +273,7 @@ public final class Impacts {
     }
 
     private double pull(int k) {
-        return (best.values()[k] - m.nominal[k]) / m.prefitWidth[k];
+        return (best.values()[k] - m.nominal(k)) / m.prefitWidth(k);
     }
 
     /**
@@ -286,20 +286,20 @@ public final class Impacts {
      * @return the breakdown, with NaN where the covariance is not positive definite
      */
     public Breakdown breakdown() {
-        int poi = m.poi;
+        int poi = m.poi();
         PostfitCovariance f = postfitCovariance();
         // σ_μ from the full covariance: equal to the fit's error (Schur complement), and the same
         // matrix as the conditional variances below, so the quadrature sums are consistent.
         double total = f == null ? best.errors()[poi] : Math.sqrt(f.variance(poi));
         List<Contribution> out = new ArrayList<>();
-        for (int g = 0; g < m.groupNames.length; g++) {
-            out.add(contribution(m.groupNames[g], notHeld(m.groupMembers[g]), total));
+        for (int g = 0; g < m.nGroups(); g++) {
+            out.add(contribution(m.groupNames(g), notHeld(m.groupMembers(g)), total));
         }
         List<Integer> gammas = new ArrayList<>(), constrained = new ArrayList<>();
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             if (i == poi || best.held()[i] || !m.constrained(i)) continue;
             constrained.add(i);
-            if (m.kind[i] == ParameterKind.MC_STATISTICS) gammas.add(i);
+            if (m.kind(i) == ParameterKind.MC_STATISTICS) gammas.add(i);
         }
         out.add(contribution(MC_STATISTICS, toArray(gammas), total));
         Contribution all = contribution(ALL_SYSTEMATICS, toArray(constrained), total);
@@ -313,7 +313,7 @@ public final class Impacts {
         if (f == null) {
             fixed = Double.NaN;
         } else {
-            double var = f.conditionalVariance(m.poi, members);
+            double var = f.conditionalVariance(m.poi(), members);
             fixed = Math.sqrt(Math.max(var, 0));
         }
         double share = Math.sqrt(Math.max(total * total - fixed * fixed, 0));
@@ -321,7 +321,7 @@ public final class Impacts {
     }
 
     private int[] notHeld(int[] members) {
-        return Arrays.stream(members).filter(i -> i != m.poi && !best.held()[i]).toArray();
+        return Arrays.stream(members).filter(i -> i != m.poi() && !best.held()[i]).toArray();
     }
 
     private static int[] toArray(List<Integer> list) {

@@ -63,7 +63,7 @@ public final class InjectionStudy {
         CompiledModel m = toys.model();
         int[] pulled = toys.pulledParameters();
         String[] names = new String[pulled.length];
-        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames[pulled[k]];
+        for (int k = 0; k < pulled.length; k++) names[k] = m.parameterNames(pulled[k]);
         return names;
     }
 }

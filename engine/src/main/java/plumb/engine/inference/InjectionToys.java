@@ -40,19 +40,19 @@ public final class InjectionToys {
      * @throws IllegalArgumentException when the model has no POI or the POI is held or fixed
      */
     public InjectionToys(CompiledModel model, FitSettings settings, int[] held, double[] heldValues) {
-        if (model.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
-        if (model.fixed[model.poi]) throw new IllegalArgumentException("the parameter of interest is fixed in the model");
+        if (model.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (model.fixed(model.poi())) throw new IllegalArgumentException("the parameter of interest is fixed in the model");
         for (int i : held) {
-            if (i == model.poi) throw new IllegalArgumentException("the parameter of interest cannot be held");
+            if (i == model.poi()) throw new IllegalArgumentException("the parameter of interest cannot be held");
         }
         this.m = model;
         this.settings = settings;
         this.held = held.clone();
         this.heldValues = heldValues.clone();
-        int[] p = new int[model.nAll];
+        int[] p = new int[model.nAll()];
         int k = 0;
-        for (int i = 0; i < model.nAll; i++) {
-            if (model.constraintType[i] != ConstraintType.NONE && !model.fixed[i] && !isHeld(i)) p[k++] = i;
+        for (int i = 0; i < model.nAll(); i++) {
+            if (model.constraintType(i) != ConstraintType.NONE && !model.fixed(i) && !isHeld(i)) p[k++] = i;
         }
         this.pulled = Arrays.copyOf(p, k);
     }
@@ -112,8 +112,8 @@ public final class InjectionToys {
      */
     public ToyFit[] run(double[] generating, long seed, boolean fluctuateAux, long first, int count, WorkRunner runner,
                         IntConsumer progress) {
-        if (generating.length != m.nAll) {
-            throw new IllegalArgumentException("generating point has " + generating.length + " values, expected " + m.nAll);
+        if (generating.length != m.nAll()) {
+            throw new IllegalArgumentException("generating point has " + generating.length + " values, expected " + m.nAll());
         }
         if (first < 0 || count < 0) throw new IllegalArgumentException("first " + first + " and count " + count + " must be >= 0");
         Work work = new Work(settings, held, heldValues, pulled, generating.clone(), seed, first, fluctuateAux);
@@ -129,7 +129,7 @@ public final class InjectionToys {
 
         @Override
         public Worker worker(CompiledModel m) {
-            boolean[] allChannels = new boolean[m.nChannels];
+            boolean[] allChannels = new boolean[m.nChannels()];
             Arrays.fill(allChannels, true); // toys fill blinded channels too (docs/model-format.md)
             return new Worker(new Fitter(m, DataSets.asimov(m, point), settings, held, heldValues),
                     DataSets.expectedCounts(m, point), allChannels);
@@ -147,7 +147,7 @@ public final class InjectionToys {
                 int p = pulled[k];
                 pulls[k] = errors[p] > 0 ? (values[p] - point[p]) / errors[p] : Double.NaN;
             }
-            return new ToyFit(index, r.status(), values[m.poi], errors[m.poi], pulls);
+            return new ToyFit(index, r.status(), values[m.poi()], errors[m.poi()], pulls);
         }
     }
 
@@ -164,7 +164,7 @@ public final class InjectionToys {
         FitResult r = fitter.fit();
         double worst = 0;
         int worstIndex = -1;
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             if (r.held()[i]) continue;
             double d = Math.abs(r.values()[i] - generating[i]);
             if (Double.isNaN(d)) {
@@ -177,7 +177,7 @@ public final class InjectionToys {
                 worstIndex = i;
             }
         }
-        return new AsimovClosure(generating[m.poi], generating.clone(), r, worst, worstIndex,
+        return new AsimovClosure(generating[m.poi()], generating.clone(), r, worst, worstIndex,
                 r.converged() && worst <= CLOSURE_TOLERANCE);
     }
 

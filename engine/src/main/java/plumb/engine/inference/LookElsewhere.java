@@ -121,8 +121,8 @@ public final class LookElsewhere {
                             int threads, IntConsumer progress) {
         CompiledModel first = problems.get(0).model();
         for (Problem p : problems) {
-            if (p.model().nBins != first.nBins || p.model().nChannels != first.nChannels) {
-                throw new IllegalArgumentException("model '" + p.model().name + "' has other bins than '" + first.name
+            if (p.model().nBins() != first.nBins() || p.model().nChannels() != first.nChannels()) {
+                throw new IllegalArgumentException("model '" + p.model().name() + "' has other bins than '" + first.name()
                         + "': background-only toys across the scan need one binning");
             }
         }
@@ -131,7 +131,7 @@ public final class LookElsewhere {
         for (int k = 0; k < n; k++) {
             Problem p = problems.get(k);
             PoiProfile profile = new PoiProfile(p.model(), p.data(), p.settings(), p.heldIndices(), p.heldValues(),
-                    "the " + p.data().kind() + " data of model '" + p.model().name + "'");
+                    "the " + p.data().kind() + " data of model '" + p.model().name() + "'");
             start[k] = profile.at(0).values();
         }
         double[] generating = start[0];
@@ -149,7 +149,7 @@ public final class LookElsewhere {
             for (int k = 0; k < n; k++) {
                 CompiledModel mk = problems.get(k).model();
                 double[] aux = DataSets.generatingAux(mk, start[k]);
-                for (int j = 0; j < mk.nAll; j++) if (auxMap[k][j] >= 0) aux[j] = d.aux()[auxMap[k][j]];
+                for (int j = 0; j < mk.nAll(); j++) if (auxMap[k][j] >= 0) aux[j] = d.aux()[auxMap[k][j]];
                 fitters[k].setData(DataSet.of(mk, "toy", d.counts(), problems.get(k).data().channelIncluded(), aux));
                 q[k] = Discovery.q0(mk, fitters[k], start[k]);
             }
@@ -183,11 +183,11 @@ public final class LookElsewhere {
     /** For each parameter of {@code to}, the index of the parameter of the same name and constraint in {@code from}, or −1. */
     private static int[] auxMap(CompiledModel from, CompiledModel to) {
         Map<String, Integer> byName = new HashMap<>();
-        for (int i = 0; i < from.nAll; i++) byName.put(from.parameterNames[i], i);
-        int[] map = new int[to.nAll];
-        for (int j = 0; j < to.nAll; j++) {
-            Integer i = byName.get(to.parameterNames[j]);
-            map[j] = i != null && from.constraintType[i] == to.constraintType[j] ? i : -1;
+        for (int i = 0; i < from.nAll(); i++) byName.put(from.parameterNames(i), i);
+        int[] map = new int[to.nAll()];
+        for (int j = 0; j < to.nAll(); j++) {
+            Integer i = byName.get(to.parameterNames(j));
+            map[j] = i != null && from.constraintType(i) == to.constraintType(j) ? i : -1;
         }
         return map;
     }

@@ -93,7 +93,7 @@ public final class MemoryBudget {
      * batches): a record and a value per parameter.
      */
     public static long taskResultBytes(plumb.engine.compile.CompiledModel m) {
-        return 256 + 8L * m.nAll;
+        return 256 + 8L * m.nAll();
     }
 
     /**

@@ -61,10 +61,10 @@ final class OtherSideSearch {
     /** The one-sided parameters not held: the ones to move (empty for most models). */
     static int[] candidates(CompiledModel m, boolean[] held) {
         int n = 0;
-        for (int i = 0; i < m.nParams; i++) if (m.oneSided[i] && !held[i]) n++;
+        for (int i = 0; i < m.nParams(); i++) if (m.oneSided(i) && !held[i]) n++;
         int[] out = new int[n];
         n = 0;
-        for (int i = 0; i < m.nParams; i++) if (m.oneSided[i] && !held[i]) out[n++] = i;
+        for (int i = 0; i < m.nParams(); i++) if (m.oneSided(i) && !held[i]) out[n++] = i;
         return out;
     }
 
@@ -153,7 +153,7 @@ final class OtherSideSearch {
     /** Whether two points are the same minimum: every parameter within {@link #SAME_POINT} of its scale. */
     static boolean same(CompiledModel m, double[] a, double[] b) {
         for (int i = 0; i < a.length; i++) {
-            double w = m.prefitWidth[i];
+            double w = m.prefitWidth(i);
             double scale = w > 0 && Double.isFinite(w) ? w : Math.max(1, Math.abs(a[i]));
             if (Math.abs(a[i] - b[i]) > SAME_POINT * scale) return false;
         }

@@ -29,7 +29,7 @@ public final class PoiProfile {
      * @throws IllegalArgumentException when the model names no POI
      */
     public PoiProfile(CompiledModel m, DataSet data, FitSettings settings, int[] held, double[] heldValues, String what) {
-        if (m.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
         this.m = m;
         this.fitter = new Fitter(m, data, settings, held, heldValues);
         fitter.computeErrors(false);   // conditional fits: −ln L and values only
@@ -76,7 +76,7 @@ public final class PoiProfile {
 
     /** The best-fit POI value μ̂. */
     public double muHat() {
-        return best().values()[m.poi];
+        return best().values()[m.poi()];
     }
 
     /**
@@ -95,19 +95,19 @@ public final class PoiProfile {
             // Several minima possible: the neighbour's basin may not be this μ's lowest. The lowest
             // of the warm start, the best fit's values and a start from scratch, then the fitter's
             // search across one-sided terms.
-            r = fitter.fitFrom(new double[][] {start, best().values(), fitter.nominalStart()}, new int[] {m.poi},
+            r = fitter.fitFrom(new double[][] {start, best().values(), fitter.nominalStart()}, new int[] {m.poi()},
                     new double[] {mu});
         } else {
-            r = fitter.fit(start, m.poi, mu);
+            r = fitter.fit(start, m.poi(), mu);
         }
         fits++;
         if (!minimumFound(r)) {
-            r = fitter.fit(fitter.nominalStart(), m.poi, mu);
+            r = fitter.fit(fitter.nominalStart(), m.poi(), mu);
             fits++;
         }
         if (!minimumFound(r)) {
             throw new InferenceException(String.format(Locale.ROOT,
-                    "the fit to %s with %s held at %s did not converge (%s)", what, m.parameterNames[m.poi], mu,
+                    "the fit to %s with %s held at %s did not converge (%s)", what, m.parameterNames(m.poi()), mu,
                     r.status()));
         }
         conditional.put(mu, r);

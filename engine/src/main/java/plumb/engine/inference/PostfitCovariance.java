@@ -65,7 +65,7 @@ public final class PostfitCovariance implements java.io.Serializable {
     public static PostfitCovariance of(BinnedNll nll, FitResult best) {
         CompiledModel m = nll.model();
         boolean[] held = best.held().clone();
-        int nP = m.nParams, nG = m.nGamma, stride = nll.localStride();
+        int nP = m.nParams(), nG = m.nGamma(), stride = nll.localStride();
         MemoryBudget.requireSquares(nP, 4, "the post-fit covariance of " + nP + " parameters");
         double[] x = Arrays.copyOf(best.values(), nll.dimension());
         double[] a = new double[nP * nP];
@@ -73,9 +73,9 @@ public final class PostfitCovariance implements java.io.Serializable {
         double[] mixed = new double[nG * stride];
         nll.gammaBlocks(x, a, d, mixed);
         int[][] gammaParams = new int[nG][];
-        for (int c = 0; c < m.nChannels; c++) {
-            for (int b = m.channelBinStart[c]; b < m.channelBinStart[c + 1]; b++) {
-                if (m.binGamma[b] >= 0) gammaParams[m.binGamma[b]] = m.channelParams[c];
+        for (int c = 0; c < m.nChannels(); c++) {
+            for (int b = m.channelBinStart(c); b < m.channelBinStart(c + 1); b++) {
+                if (m.binGamma(b) >= 0) gammaParams[m.binGamma(b)] = m.channelParams(c);
             }
         }
         boolean[] freeGamma = new boolean[nG];
@@ -87,7 +87,7 @@ public final class PostfitCovariance implements java.io.Serializable {
         double[] s = fitCovarianceIsS(m, best, nll.explicitGamma(), freeGamma) ? best.covariance()
                 : profiledInverse(a, nP, held, d, mixed, stride, gammaParams, freeGamma);
         if (s == null) return null;
-        return new PostfitCovariance(nP, m.nAll, held, s, a, d, mixed, stride, gammaParams);
+        return new PostfitCovariance(nP, m.nAll(), held, s, a, d, mixed, stride, gammaParams);
     }
 
     /**
@@ -97,12 +97,12 @@ public final class PostfitCovariance implements java.io.Serializable {
      */
     private static boolean fitCovarianceIsS(CompiledModel m, FitResult best, boolean explicit, boolean[] freeGamma) {
         double[] cov = best.covariance();
-        if (cov == null || cov.length != m.nParams * m.nParams) return false;
+        if (cov == null || cov.length != m.nParams() * m.nParams()) return false;
         if (explicit) return true;
         for (int g = 0; g < freeGamma.length; g++) {
-            int i = m.nParams + g;
+            int i = m.nParams() + g;
             double v = best.values()[i];
-            if (freeGamma[g] && !(v > m.lower[i] && v < m.upper[i])) return false;
+            if (freeGamma[g] && !(v > m.lower(i) && v < m.upper(i))) return false;
         }
         return true;
     }

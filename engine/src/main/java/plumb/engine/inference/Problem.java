@@ -64,11 +64,11 @@ public final class Problem {
     }
 
     private static void checkData(CompiledModel m, DataSet d) {
-        if (d.counts().length != m.nBins || d.channelIncluded().length != m.nChannels || d.aux().length != m.nAll) {
+        if (d.counts().length != m.nBins() || d.channelIncluded().length != m.nChannels() || d.aux().length != m.nAll()) {
             throw new IllegalArgumentException(String.format(Locale.ROOT,
                     "the %s data set has %d bins, %d channels and %d auxiliary values; model '%s' has %d, %d and %d",
-                    d.kind(), d.counts().length, d.channelIncluded().length, d.aux().length, m.name, m.nBins,
-                    m.nChannels, m.nAll));
+                    d.kind(), d.counts().length, d.channelIncluded().length, d.aux().length, m.name(), m.nBins(),
+                    m.nChannels(), m.nAll()));
         }
         if (!d.anyChannel()) {
             throw new IllegalArgumentException("the " + d.kind() + " data set includes no channel (every channel blinded?)");
@@ -77,10 +77,10 @@ public final class Problem {
 
     private static void checkHeld(CompiledModel m, String name, Double value) {
         int i = name == null ? -1 : m.indexOf(name);
-        if (i < 0) throw new IllegalArgumentException("model '" + m.name + "' has no parameter '" + name + "' to hold");
-        if (value == null || !(value >= m.lower[i] && value <= m.upper[i])) {
+        if (i < 0) throw new IllegalArgumentException("model '" + m.name() + "' has no parameter '" + name + "' to hold");
+        if (value == null || !(value >= m.lower(i) && value <= m.upper(i))) {
             throw new IllegalArgumentException(String.format(Locale.ROOT, "%s = %s is outside the range [%s, %s] of %s",
-                    name, value, m.lower[i], m.upper[i], name));
+                    name, value, m.lower(i), m.upper(i), name));
         }
     }
 
@@ -118,7 +118,7 @@ public final class Problem {
 
     /** The parameter values a fit starts from: the model's nominal values with the held values applied (nAll). */
     public double[] startValues() {
-        double[] v = model.nominal.clone();
+        double[] v = model.nominal();
         for (int k = 0; k < heldIndices.length; k++) v[heldIndices[k]] = heldValues[k];
         return v;
     }
@@ -157,6 +157,6 @@ public final class Problem {
 
     @Override
     public String toString() {
-        return "Problem[model=" + model.name + ", data=" + data.kind() + ", held=" + held + ", settings=" + settings + "]";
+        return "Problem[model=" + model.name() + ", data=" + data.kind() + ", held=" + held + ", settings=" + settings + "]";
     }
 }

@@ -84,7 +84,7 @@ public final class ProfileScan {
     public static double[] defaultRange(CompiledModel m, FitResult best, int k) {
         double v = best.values()[k], e = best.errors()[k];
         double half = DEFAULT_HALF_WIDTH * (e > 0 && Double.isFinite(e) ? e : Math.max(1e-3, 0.1 * Math.abs(v)));
-        return new double[] {Math.max(m.lower[k], v - half), Math.min(m.upper[k], v + half)};
+        return new double[] {Math.max(m.lower(k), v - half), Math.min(m.upper(k), v + half)};
     }
 
     /** Default half-width of a scan, in post-fit errors. */
@@ -108,8 +108,8 @@ public final class ProfileScan {
     }
 
     private void checkParameter(int k) {
-        if (k < 0 || k >= m.nAll) throw new IllegalArgumentException("no parameter " + k);
-        if (best.held()[k]) throw new IllegalArgumentException(m.parameterNames[k] + " is held in the fit; it cannot be scanned");
+        if (k < 0 || k >= m.nAll()) throw new IllegalArgumentException("no parameter " + k);
+        if (best.held()[k]) throw new IllegalArgumentException(m.parameterNames(k) + " is held in the fit; it cannot be scanned");
     }
 
     /** The profiled −ln L with parameter k held at value (clipped to its range). */
@@ -156,7 +156,7 @@ public final class ProfileScan {
     private Crossing crossing(Fitter fitter, int k, double level, int side) {
         double v0 = best.values()[k];
         double sigma = best.errors()[k];
-        double bound = side < 0 ? m.lower[k] : m.upper[k];
+        double bound = side < 0 ? m.lower(k) : m.upper(k);
         if (!(sigma > 0) || !Double.isFinite(sigma)) sigma = 1e-3 * Math.max(1, Math.abs(v0));
         if (Double.isFinite(bound) && Math.abs(bound - v0) > 0) sigma = Math.min(sigma, Math.abs(bound - v0));
         MinimumStatus[] failed = new MinimumStatus[1];

@@ -73,7 +73,7 @@ public final class Projection {
     public static Result compute(Problem p, boolean postfit, double cl, double[] lumis, int threads,
                                  IntConsumer progress) {
         CompiledModel m = p.model();
-        if (m.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
         for (double l : lumis) if (!(l > 0 && Double.isFinite(l))) throw new IllegalArgumentException("luminosity factor " + l);
         long t0 = System.nanoTime();
         int[] held = p.heldIndices();
@@ -87,14 +87,14 @@ public final class Projection {
             Scenario s = scenarios[task % scenarios.length];
             return point(m, asimov, p.settings(), held, heldValues, cl, lumi, s, fits, task);
         }, progress);
-        return new Result(m.parameterNames[m.poi], cl, lumis.clone(), points, Arrays.stream(fits).sum(),
+        return new Result(m.parameterNames(m.poi()), cl, lumis.clone(), points, Arrays.stream(fits).sum(),
                 (System.nanoTime() - t0) * 1e-9);
     }
 
     private static Point point(CompiledModel m, Sensitivity.AsimovPair asimov, FitSettings settings, int[] held,
                                double[] heldValues, double cl, double lumi, Scenario s, int[] fits, int task) {
         CompiledModel scaled = ModelVariants.yieldsScaled(m, lumi);
-        int[] gammas = java.util.stream.IntStream.range(m.nParams, m.nAll).toArray();
+        int[] gammas = java.util.stream.IntStream.range(m.nParams(), m.nAll()).toArray();
         if (s == Scenario.MC_SCALED && gammas.length > 0) {
             scaled = ModelVariants.constraintsScaled(scaled, gammas, 1 / Math.sqrt(lumi));
         }
@@ -103,8 +103,8 @@ public final class Projection {
             int[] h0 = held, h1 = held;
             double[] v0 = heldValues, v1 = heldValues;
             if (s == Scenario.STAT_ONLY) {
-                int[] constrained = java.util.stream.IntStream.range(0, m.nAll)
-                        .filter(i -> i != m.poi && m.constrained(i) && !contains(held, i)).toArray();
+                int[] constrained = java.util.stream.IntStream.range(0, m.nAll())
+                        .filter(i -> i != m.poi() && m.constrained(i) && !contains(held, i)).toArray();
                 h0 = h1 = concat(held, constrained);
                 v0 = concat(heldValues, pick(asimov.zero().values(), constrained));
                 v1 = concat(heldValues, pick(asimov.one().values(), constrained));

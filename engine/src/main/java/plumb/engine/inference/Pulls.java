@@ -14,11 +14,11 @@ public final class Pulls {
 
     /** (value − pre-fit value)/pre-fit width of parameter i. */
     public static double pull(CompiledModel m, FitResult r, int i) {
-        return (r.values()[i] - m.nominal[i]) / m.prefitWidth[i];
+        return (r.values()[i] - m.nominal(i)) / m.prefitWidth(i);
     }
 
     /** Post-fit error / pre-fit width of parameter i. */
     public static double constraint(CompiledModel m, FitResult r, int i) {
-        return r.errors()[i] / m.prefitWidth[i];
+        return r.errors()[i] / m.prefitWidth(i);
     }
 }

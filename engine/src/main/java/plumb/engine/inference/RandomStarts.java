@@ -31,10 +31,10 @@ public final class RandomStarts {
             SplittableRandom rng = new SplittableRandom(seed * 0x9E3779B97F4A7C15L + s);
             double[] x = nominal.clone();
             for (int i = 0; i < x.length; i++) {
-                double w = m.prefitWidth[i];
+                double w = m.prefitWidth(i);
                 if (held[i] || !m.constrained(i) || !(w > 0) || !Double.isFinite(w)) continue;
                 double v = nominal[i] + WIDTHS * w * (2 * rng.nextDouble() - 1);
-                x[i] = Math.max(m.lower[i], Math.min(m.upper[i], v));
+                x[i] = Math.max(m.lower(i), Math.min(m.upper(i), v));
             }
             out[s] = x;
         }

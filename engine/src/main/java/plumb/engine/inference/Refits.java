@@ -42,14 +42,14 @@ final class Refits {
 
     /** The value clipped to the parameter's range (docs/cli-contract.md). */
     double clip(int k, double value) {
-        return Math.max(m.lower[k], Math.min(m.upper[k], value));
+        return Math.max(m.lower(k), Math.min(m.upper(k), value));
     }
 
     /** The warm start of a refit with parameter k at {@code value} (length dim). */
     double[] start(int k, double value) {
         double[] x = Arrays.copyOf(best.values(), dim);
         double delta = value - best.values()[k];
-        final int nP = m.nParams;
+        final int nP = m.nParams();
         double[] cov = best.covariance();
         if (k < nP && cov != null && cov[k * nP + k] > 0) {
             double f = delta / cov[k * nP + k];
@@ -60,7 +60,7 @@ final class Refits {
         }
         for (int i = 0; i < dim; i++) {
             if (best.held()[i]) x[i] = best.values()[i];
-            else x[i] = Math.max(m.lower[i], Math.min(m.upper[i], x[i]));
+            else x[i] = Math.max(m.lower(i), Math.min(m.upper(i), x[i]));
         }
         if (k < dim) x[k] = value;
         return x;
@@ -105,7 +105,7 @@ final class Refits {
 
     private FitResult refitFrom(Fitter fitter, int k, double value, double[]... starts) {
         if (k < dim) return fitter.fitFrom(starts, new int[] {k}, new double[] {value});
-        int g = k - m.nParams;
+        int g = k - m.nParams();
         fitter.likelihood().holdGamma(g, value);
         try {
             return fitter.fitFrom(starts, new int[0], new double[0]);

@@ -138,7 +138,7 @@ public final class Sensitivity {
         private static double[] conditional(CompiledModel m, DataSets.Generated g, int[] held, double[] heldValues,
                                             double mu, FitSettings settings) {
             Fitter f = Fitter.valuesOnly(m, g.data(), settings, held, heldValues);
-            FitResult r = f.fit(java.util.Arrays.copyOf(g.values(), f.dimension()), m.poi, mu);
+            FitResult r = f.fit(java.util.Arrays.copyOf(g.values(), f.dimension()), m.poi(), mu);
             if (!PoiProfile.minimumFound(r)) {
                 throw new InferenceException("the fit to the Asimov data set with the POI held at " + mu
                         + " did not converge (" + r.status() + ")");
@@ -180,24 +180,24 @@ public final class Sensitivity {
         double base1 = effective(f1.variance(), f.oneAtMid().variance());
         double[] ks = withRemoval(scales);
         List<Target> out = new ArrayList<>();
-        for (int i = 0; i < m.nParams; i++) {
-            if (i == m.poi || !f1.free(i) || !m.constrained(i)) continue;
+        for (int i = 0; i < m.nParams(); i++) {
+            if (i == m.poi() || !f1.free(i) || !m.constrained(i)) continue;
             final int p = i;
             List<Variant> vs = new ArrayList<>();
             for (double k : ks) vs.add(fastVariant(k, f, a -> a.variance(p, k), limit, z, base0, base1));
-            out.add(new Target(m.parameterNames[i], false, new int[] {i}, vs));
+            out.add(new Target(m.parameterNames(i), false, new int[] {i}, vs));
         }
-        for (int g = 0; g < m.groupNames.length; g++) {
-            int[] members = Arrays.stream(m.groupMembers[g]).filter(i -> i != m.poi && f1.free(i) && m.constrained(i))
+        for (int g = 0; g < m.nGroups(); g++) {
+            int[] members = Arrays.stream(m.groupMembers(g)).filter(i -> i != m.poi() && f1.free(i) && m.constrained(i))
                     .toArray();
             if (members.length == 0) continue;
             List<Variant> vs = new ArrayList<>();
             for (double k : ks) vs.add(fastVariant(k, f, a -> a.variance(members, k), limit, z, base0, base1));
-            out.add(new Target(m.groupNames[g], true, members, vs));
+            out.add(new Target(m.groupNames(g), true, members, vs));
         }
-        int[] gammas = java.util.stream.IntStream.range(m.nParams, m.nAll).filter(f1::free).toArray();
-        int[] constrained = java.util.stream.IntStream.range(0, m.nParams)
-                .filter(i -> i != m.poi && f1.free(i) && m.constrained(i)).toArray();
+        int[] gammas = java.util.stream.IntStream.range(m.nParams(), m.nAll()).filter(f1::free).toArray();
+        int[] constrained = java.util.stream.IntStream.range(0, m.nParams())
+                .filter(i -> i != m.poi() && f1.free(i) && m.constrained(i)).toArray();
         if (gammas.length > 0) {
             List<Variant> vs = new ArrayList<>();
             for (double k : ks) vs.add(fastVariant(k, f, a -> a.varianceRebuilt(new int[0], true, k), limit, z, base0, base1));
@@ -227,7 +227,7 @@ public final class Sensitivity {
      */
     public static Result compute(Request r, IntConsumer progress) {
         CompiledModel m = r.model();
-        if (m.poi < 0) throw new IllegalArgumentException("the model names no parameter of interest");
+        if (m.poi() < 0) throw new IllegalArgumentException("the model names no parameter of interest");
         for (double k : r.scales()) {
             if (!(k > 0 && Double.isFinite(k))) throw new IllegalArgumentException("width factor " + k + " is not positive");
         }
@@ -271,7 +271,7 @@ public final class Sensitivity {
             }
             (t.group() ? doneGroups : doneParams).add(out);
         }
-        return new Result(m.parameterNames[m.poi], r.cl(), r.scales().clone(), base.limit, base.z, sigma0, sigma1,
+        return new Result(m.parameterNames(m.poi()), r.cl(), r.scales().clone(), base.limit, base.z, sigma0, sigma1,
                 doneParams, doneGroups, r.exactTop(), fits, fastSeconds, (System.nanoTime() - t1) * 1e-9);
     }
 
@@ -293,7 +293,7 @@ public final class Sensitivity {
             LimitResult limit = AsymptoticUpperLimit.compute(mk, null, a0, r.settings(), held0, values0, r.cl());
             Fitter fitter = new Fitter(mk, a1, r.settings(), held0, values1);
             FitResult fit = fitter.fit();
-            double sigma = fit.converged() ? fit.errors()[m.poi] : Double.NaN;
+            double sigma = fit.converged() ? fit.errors()[m.poi()] : Double.NaN;
             return new Exact(limit.expected().median(), d.z(), sigma, d.fits() + limit.fits() + 1, null);
         } catch (InferenceException e) {
             return new Exact(Double.NaN, Double.NaN, Double.NaN, 0, e.getMessage());

@@ -214,16 +214,16 @@ public final class ToyLimits {
 
     /** q̃μ of the fitter's data given its best fit; NaN when a fit fails. Adds the fits made to {@code fits[0]}. */
     private static double qTilde(CompiledModel m, Fitter fitter, FitResult best, double mu, int[] fits) {
-        double muHat = best.values()[m.poi];
+        double muHat = best.values()[m.poi()];
         if (muHat > mu) return 0;
         double denominator = best.nll();
         if (muHat < 0) {   // only with a POI range below 0: the q̃μ denominator is L(0, θ̂̂(0))
-            FitResult zero = fitter.fit(best.values(), m.poi, 0);
+            FitResult zero = fitter.fit(best.values(), m.poi(), 0);
             fits[0]++;
             if (!PoiProfile.minimumFound(zero)) return Double.NaN;
             denominator = zero.nll();
         }
-        FitResult at = fitter.fit(best.values(), m.poi, mu);
+        FitResult at = fitter.fit(best.values(), m.poi(), mu);
         fits[0]++;
         return PoiProfile.minimumFound(at) ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
     }
@@ -254,7 +254,7 @@ public final class ToyLimits {
             if (r.data() != null) {
                 channels = r.data().channelIncluded().clone();
             } else {
-                channels = new boolean[m.nChannels];
+                channels = new boolean[m.nChannels()];
                 Arrays.fill(channels, true);
             }
             observed = r.data() == null ? null : new PoiProfile(m, r.data(), r.settings(), r.held(), r.heldValues(),
@@ -262,8 +262,8 @@ public final class ToyLimits {
             generation = r.generationData() == null ? null : r.generationData() == r.data() ? observed
                     : new PoiProfile(m, r.generationData(), r.settings(), r.held(), r.heldValues(),
                     "the " + r.generationData().kind() + " data");
-            lo = Math.max(0, m.lower[m.poi]);
-            hi = m.upper[m.poi];
+            lo = Math.max(0, m.lower(m.poi()));
+            hi = m.upper(m.poi());
             alpha = 1 - r.cl();
         }
 
@@ -333,9 +333,9 @@ public final class ToyLimits {
         /** θ̂̂(μ) of the generation data, or the nominal values with the POI and held values set. */
         double[] generatingPoint(double mu) {
             if (generation != null) return generation.at(mu).values();
-            double[] v = m.nominal.clone();
+            double[] v = m.nominal();
             for (int k = 0; k < r.held().length; k++) v[r.held()[k]] = r.heldValues()[k];
-            v[m.poi] = mu;
+            v[m.poi()] = mu;
             return v;
         }
 

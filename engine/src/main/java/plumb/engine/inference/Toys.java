@@ -43,14 +43,14 @@ public final class Toys {
     public static DataSet generate(CompiledModel m, double[] expected, double[] values, boolean[] channels,
                                    long seed, long index, boolean fluctuateAux) {
         UniformRandomProvider rng = random(seed, index);
-        double[] counts = new double[m.nBins];
-        for (int b = 0; b < m.nBins; b++) counts[b] = poisson(rng, expected[b]);
+        double[] counts = new double[m.nBins()];
+        for (int b = 0; b < m.nBins(); b++) counts[b] = poisson(rng, expected[b]);
         double[] aux = DataSets.generatingAux(m, values);
         if (fluctuateAux) {
             ZigguratSampler.NormalizedGaussian gauss = ZigguratSampler.NormalizedGaussian.of(rng);
-            for (int i = 0; i < m.nAll; i++) {
-                if (m.constraintType[i] == ConstraintType.GAUSSIAN) aux[i] = values[i] + m.width[i] * gauss.sample();
-                else if (m.constraintType[i] == ConstraintType.POISSON) aux[i] = poisson(rng, m.tau[i] * values[i]);
+            for (int i = 0; i < m.nAll(); i++) {
+                if (m.constraintType(i) == ConstraintType.GAUSSIAN) aux[i] = values[i] + m.width(i) * gauss.sample();
+                else if (m.constraintType(i) == ConstraintType.POISSON) aux[i] = poisson(rng, m.tau(i) * values[i]);
             }
         }
         return DataSet.of(m, "toy", counts, channels, aux);

@@ -69,9 +69,9 @@ public final class Yields {
         Propagation pre = new Propagation(m, data, prefitValues, prefitCovariance(m, held), null, held);
         Propagation postfit = best == null ? null
                 : new Propagation(m, data, best.values(), post == null ? null : post.thetaBlock(), post, null);
-        List<ChannelYields> out = new ArrayList<>(m.nChannels);
-        for (int c = 0; c < m.nChannels; c++) {
-            int b0 = m.channelBinStart[c], nb = m.bins(c);
+        List<ChannelYields> out = new ArrayList<>(m.nChannels());
+        for (int c = 0; c < m.nChannels(); c++) {
+            int b0 = m.channelBinStart(c), nb = m.bins(c);
             double[] observed = null;
             if (data.channelIncluded()[c]) {
                 observed = new double[nb];
@@ -81,14 +81,14 @@ public final class Yields {
             if (postfit != null) postfit.channel(c);
             List<SampleYields> samples = new ArrayList<>();
             List<Integer> members = new ArrayList<>();
-            for (int s = 0; s < m.nSamples; s++) {
-                if (m.sampleChannel[s] != c) continue;
+            for (int s = 0; s < m.nSamples(); s++) {
+                if (m.sampleChannel(s) != c) continue;
                 members.add(s);
-                samples.add(new SampleYields(m.sampleNames[s], pre.band(new int[] {s}),
+                samples.add(new SampleYields(m.sampleNames(s), pre.band(new int[] {s}),
                         postfit == null ? null : postfit.band(new int[] {s})));
             }
             int[] all = members.stream().mapToInt(Integer::intValue).toArray();
-            out.add(new ChannelYields(m.channelNames[c], observed, List.copyOf(samples), pre.band(all),
+            out.add(new ChannelYields(m.channelNames(c), observed, List.copyOf(samples), pre.band(all),
                     postfit == null ? null : postfit.band(all)));
         }
         return out;
@@ -96,11 +96,11 @@ public final class Yields {
 
     /** The pre-fit covariance of the model parameters: diagonal, constrained and not held ones only (nParams²). */
     private static double[] prefitCovariance(CompiledModel m, boolean[] held) {
-        int nP = m.nParams;
+        int nP = m.nParams();
         MemoryBudget.requireSquares(nP, 1, "the pre-fit yield errors of " + nP + " parameters");
         double[] cov = new double[nP * nP];
         for (int i = 0; i < nP; i++) {
-            if (m.constrained(i) && !held[i]) cov[i * nP + i] = m.prefitWidth[i] * m.prefitWidth[i];
+            if (m.constrained(i) && !held[i]) cov[i * nP + i] = m.prefitWidth(i) * m.prefitWidth(i);
         }
         return cov;
     }
@@ -148,20 +148,20 @@ public final class Yields {
             this.prefitHeld = prefitHeld;
             this.nll = new BinnedNll(m, data, true);   // explicit layout: γ taken from the point
             double[] x = point.clone();
-            this.w = new double[m.nBins];
-            this.q = new double[m.nBins];
-            this.nu = new double[m.nominalYield.length];
+            this.w = new double[m.nBins()];
+            this.q = new double[m.nBins()];
+            this.nu = new double[m.nominalYield().length];
             nll.expectedEntries(x, nu);
             nll.binWeights(w, q);
             // At a kink of a linear term the one-sided slopes differ: a second likelihood sits on
             // the left-hand side of every kinked parameter at its kink, and the slopes are averaged.
             double[] left = x.clone();
             boolean anyKink = false;
-            for (int i = 0; i < m.nParams; i++) {
-                if (m.kinked[i] && x[i] == 0) {
+            for (int i = 0; i < m.nParams(); i++) {
+                if (m.kinked(i) && x[i] == 0) {
                     left[i] = -Double.MIN_VALUE;
                     anyKink = true;
-                } else if (m.kinked[i] && x[i] == -Double.MIN_VALUE) {
+                } else if (m.kinked(i) && x[i] == -Double.MIN_VALUE) {
                     x[i] = 0;
                     anyKink = true;
                 }
@@ -178,12 +178,12 @@ public final class Yields {
         /** Prepares channel c: derivatives of its samples, the span basis and G. */
         void channel(int c) {
             channel = c;
-            int[] local = m.channelParams[c];
+            int[] local = m.channelParams(c);
             int L = local.length;
-            int b0 = m.channelBinStart[c];
+            int b0 = m.channelBinStart(c);
             nb = m.bins(c);
             List<Integer> list = new ArrayList<>();
-            for (int s = 0; s < m.nSamples; s++) if (m.sampleChannel[s] == c) list.add(s);
+            for (int s = 0; s < m.nSamples(); s++) if (m.sampleChannel(s) == c) list.add(s);
             samples = list.stream().mapToInt(Integer::intValue).toArray();
             int ns = samples.length;
             along = new double[ns][nb];
@@ -198,7 +198,7 @@ public final class Yields {
             double[] dir2 = new double[L], along2 = new double[nb], gf2 = new double[nb], bg2 = new double[nb];
             for (int k = 0; k < ns; k++) {
                 int s = samples[k];
-                int nShape = m.sampleShapeStart[s + 1] - m.sampleShapeStart[s];
+                int nShape = m.sampleShapeStart(s + 1) - m.sampleShapeStart(s);
                 shape[k] = new double[nShape * nb];
                 nll.sampleDerivatives(s, direction[k], along[k], shape[k], gammaFactor[k], byGamma[k]);
                 if (other != null) {
@@ -209,7 +209,7 @@ public final class Yields {
                 }
                 shapeBasis[k] = new int[nShape];
                 for (int j = 0; j < nShape; j++) {
-                    int l = m.shapeLocal[m.sampleShapeStart[s] + j];
+                    int l = m.shapeLocal(m.sampleShapeStart(s) + j);
                     if (basisOfLocal[l] < 0) {
                         basisOfLocal[l] = ns + shapeLocals.size();
                         shapeLocals.add(l);
@@ -224,7 +224,7 @@ public final class Yields {
             etaGEta = null;
             if (cov == null) return;
             // S over the channel's parameters, S r_s, and G = B S Bᵀ over the basis (r_s, then e_l).
-            int nP = m.nParams;
+            int nP = m.nParams();
             double[] sc = new double[L * L];
             for (int i = 0; i < L; i++) for (int j = 0; j < L; j++) sc[i * L + j] = cov[local[i] * nP + local[j]];
             double[][] sr = new double[ns][L];
@@ -254,11 +254,11 @@ public final class Yields {
             }
             boolean included = data.channelIncluded()[c];
             for (int b = 0; b < nb; b++) {
-                int gi = m.binGamma[b0 + b];
+                int gi = m.binGamma(b0 + b);
                 if (gi < 0) continue;
                 int idx = nP + gi;
                 if (post == null) {
-                    if (m.constrained(idx) && !prefitHeld[idx]) gammaVar[b] = m.prefitWidth[idx] * m.prefitWidth[idx];
+                    if (m.constrained(idx) && !prefitHeld[idx]) gammaVar[b] = m.prefitWidth(idx) * m.prefitWidth(idx);
                     continue;
                 }
                 if (post.held(idx)) continue;
@@ -274,7 +274,7 @@ public final class Yields {
                 for (int k = 0; k < ns; k++) cb += byGamma[k][b];
                 double[] e = new double[K];
                 for (int k = 0; k < ns; k++) {
-                    boolean mc = m.sampleMcStat[samples[k]];
+                    boolean mc = m.sampleMcStat(samples[k]);
                     double f = (mc ? wb : 0) + qb * cb * gammaFactor[k][b];
                     if (f == 0) continue;
                     e[k] += f * along[k][b];
@@ -325,7 +325,7 @@ public final class Yields {
                 double y = 0, vg = 0;
                 for (int k : pos) {
                     double gf = gammaFactor[k][b];
-                    y += nu[m.sampleEntryStart[samples[k]] + b];
+                    y += nu[m.sampleEntryStart(samples[k]) + b];
                     c[slot[k]] += gf * along[k][b];
                     double[] sh = shape[k];
                     int[] sb = shapeBasis[k];

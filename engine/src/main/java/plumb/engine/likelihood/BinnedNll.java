@@ -31,7 +31,9 @@ public final class BinnedNll implements Objective {
     /** Floor of a channel's expectation in a bin (docs/model-format.md). */
     public static final double NU_FLOOR = 1e-10;
 
-    private final CompiledModel m;
+    private final CompiledModel model;
+    /** The model's arrays, read by the loops below. */
+    private final ModelTables m;
     private final boolean explicitGamma;
     private final int dim;
     private final int[] channelSampleStart;
@@ -94,68 +96,69 @@ public final class BinnedNll implements Objective {
 
     /** A likelihood in the profiled ({@code explicitGamma = false}) or explicit layout. */
     public BinnedNll(CompiledModel model, DataSet data, boolean explicitGamma) {
-        this.m = model;
+        this.model = model;
+        this.m = ModelTables.of(model);
         this.data = data;
         this.explicitGamma = explicitGamma;
-        this.dim = explicitGamma ? model.nAll : model.nParams;
-        channelSampleStart = new int[model.nChannels + 1];
-        for (int s = 0, c = 0; c < model.nChannels; c++) {
+        this.dim = explicitGamma ? m.nAll : m.nParams;
+        channelSampleStart = new int[m.nChannels + 1];
+        for (int s = 0, c = 0; c < m.nChannels; c++) {
             channelSampleStart[c] = s;
-            while (s < model.nSamples && model.sampleChannel[s] == c) s++;
+            while (s < m.nSamples && m.sampleChannel[s] == c) s++;
             channelSampleStart[c + 1] = s;
         }
-        gammaHeld = new double[model.nGamma];
+        gammaHeld = new double[m.nGamma];
         Arrays.fill(gammaHeld, Double.NaN);
-        for (int g = 0; g < model.nGamma; g++) {
-            if (model.fixed[model.nParams + g]) gammaHeld[g] = model.nominal[model.nParams + g];
+        for (int g = 0; g < m.nGamma; g++) {
+            if (m.fixed[m.nParams + g]) gammaHeld[g] = m.nominal[m.nParams + g];
         }
-        int entries = model.nominalYield.length;
+        int entries = m.nominalYield.length;
         base = new double[entries];
         clipped = new boolean[entries];
-        int nMul = model.mulParam.length;
+        int nMul = m.mulParam.length;
         mulValue = new double[3 * nMul];
         dC = new double[nMul];
-        sampleC = new double[model.nSamples];
-        shapeP = new double[3 * model.shapeParam.length];
-        aPart = new double[model.nBins];
-        cPart = new double[model.nBins];
-        binGammaValue = new double[model.nBins];
-        w = new double[model.nBins];
-        q = new double[model.nBins];
-        wGamma = new double[model.nBins];
-        gammaValue = new double[model.nGamma];
-        gammaInterior = new boolean[model.nGamma];
+        sampleC = new double[m.nSamples];
+        shapeP = new double[3 * m.shapeParam.length];
+        aPart = new double[m.nBins];
+        cPart = new double[m.nBins];
+        binGammaValue = new double[m.nBins];
+        w = new double[m.nBins];
+        q = new double[m.nBins];
+        wGamma = new double[m.nBins];
+        gammaValue = new double[m.nGamma];
+        gammaInterior = new boolean[m.nGamma];
         int maxMul = 0;
-        for (int s = 0; s < model.nSamples; s++) {
-            maxMul = Math.max(maxMul, model.sampleMulStart[s + 1] - model.sampleMulStart[s]);
+        for (int s = 0; s < m.nSamples; s++) {
+            maxMul = Math.max(maxMul, m.sampleMulStart[s + 1] - m.sampleMulStart[s]);
         }
         prefix = new double[maxMul + 1];
         suffix = new double[maxMul + 1];
         hvec = new double[maxMul + 1];
         int maxLocal = 0;
-        for (int[] p : model.channelParams) maxLocal = Math.max(maxLocal, p.length);
+        for (int[] p : m.channelParams) maxLocal = Math.max(maxLocal, p.length);
         gLoc = new double[maxLocal];
         gcLoc = new double[maxLocal];
         hLoc = new double[maxLocal];
         hMat = new double[maxLocal * maxLocal];
-        extended = new double[model.nAll];
-        extendedGrad = new double[model.nAll];
-        channelAllMc = new boolean[model.nChannels];
-        for (int c = 0; c < model.nChannels; c++) {
+        extended = new double[m.nAll];
+        extendedGrad = new double[m.nAll];
+        channelAllMc = new boolean[m.nChannels];
+        for (int c = 0; c < m.nChannels; c++) {
             boolean all = true;
-            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) all &= model.sampleMcStat[s];
+            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) all &= m.sampleMcStat[s];
             channelAllMc[c] = all;
         }
         stride = maxLocal;
         pendingVec = new double[FUSED * maxLocal];
         pendingWeight = new double[FUSED];
-        sampleT = new double[model.nSamples];
-        shapeDBase = new double[model.shapeParam.length];
-        shapeU2 = new double[model.shapeParam.length];
+        sampleT = new double[m.nSamples];
+        shapeDBase = new double[m.shapeParam.length];
+        shapeU2 = new double[m.shapeParam.length];
     }
 
     public CompiledModel model() {
-        return m;
+        return model;
     }
 
     public DataSet data() {
@@ -384,7 +387,7 @@ public final class BinnedNll implements Objective {
     }
 
     private double evaluate(double[] x, double[] grad, double[] hess, boolean explicit) {
-        final CompiledModel m = this.m;
+        final ModelTables m = this.m;
         final double[] counts = data.counts();
         final double[] aux = data.aux();
         final int nP = m.nParams;

@@ -22,19 +22,19 @@ public record DataSet(String kind, double[] counts, boolean[] channelIncluded, d
      */
     public static DataSet of(CompiledModel m, String kind, double[] counts, boolean[] channelIncluded, double[] aux) {
         double constant = 0;
-        for (int c = 0; c < m.nChannels; c++) {
+        for (int c = 0; c < m.nChannels(); c++) {
             if (!channelIncluded[c]) continue;
-            for (int b = m.channelBinStart[c]; b < m.channelBinStart[c + 1]; b++) {
+            for (int b = m.channelBinStart(c); b < m.channelBinStart(c + 1); b++) {
                 double n = counts[b];
                 if (n > 0) constant += n - n * Math.log(n) + Gamma.logGamma(n + 1);
             }
         }
-        for (int i = 0; i < m.nAll; i++) {
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
-                constant += Math.log(m.width[i] * Math.sqrt(2 * Math.PI));
-            } else if (m.constraintType[i] == ConstraintType.POISSON) {
+        for (int i = 0; i < m.nAll(); i++) {
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
+                constant += Math.log(m.width(i) * Math.sqrt(2 * Math.PI));
+            } else if (m.constraintType(i) == ConstraintType.POISSON) {
                 double mAux = aux[i];
-                constant += Gamma.logGamma(mAux + 1) - (mAux > 0 ? mAux * Math.log(m.tau[i]) : 0);
+                constant += Gamma.logGamma(mAux + 1) - (mAux > 0 ? mAux * Math.log(m.tau(i)) : 0);
             }
         }
         return new DataSet(kind, counts.clone(), channelIncluded.clone(), aux.clone(), constant);
@@ -42,14 +42,14 @@ public record DataSet(String kind, double[] counts, boolean[] channelIncluded, d
 
     /** The observed data: blinded channels are left out, auxiliary values at their nominal. */
     public static DataSet observed(CompiledModel m) {
-        double[] counts = new double[m.nBins];
-        boolean[] included = new boolean[m.nChannels];
-        for (int c = 0; c < m.nChannels; c++) {
-            if (m.observed[c] == null) continue;
+        double[] counts = new double[m.nBins()];
+        boolean[] included = new boolean[m.nChannels()];
+        for (int c = 0; c < m.nChannels(); c++) {
+            if (m.blinded(c)) continue;
             included[c] = true;
-            System.arraycopy(m.observed[c], 0, counts, m.channelBinStart[c], m.bins(c));
+            System.arraycopy(m.observed(c), 0, counts, m.channelBinStart(c), m.bins(c));
         }
-        return of(m, "observed", counts, included, m.auxNominal);
+        return of(m, "observed", counts, included, m.auxNominal());
     }
 
     /** True when at least one channel takes part. */

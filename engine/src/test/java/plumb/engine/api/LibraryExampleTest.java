@@ -55,7 +55,7 @@ class LibraryExampleTest {
                 new double[] {0.5}).fit();
         Matcher mu = Pattern.compile("mu = (\\S+) \\+- ([0-9.]+)").matcher(out);
         assertTrue(mu.find());
-        assertEquals(direct.values()[m.poi], Double.parseDouble(mu.group(1)), 5e-5);
-        assertEquals(direct.errors()[m.poi], Double.parseDouble(mu.group(2)), 5e-5);
+        assertEquals(direct.values()[m.poi()], Double.parseDouble(mu.group(1)), 5e-5);
+        assertEquals(direct.errors()[m.poi()], Double.parseDouble(mu.group(2)), 5e-5);
     }
 }

@@ -42,7 +42,7 @@ class ProblemTest {
         assertEquals(Map.of("slope", -1.0), held.releasing("lumi").held());
         assertEquals(0.5, held.startValues()[m.indexOf("lumi")]);
 
-        DataSet asimov = DataSets.asimov(m, m.nominal);
+        DataSet asimov = DataSets.asimov(m, m.nominal());
         Problem other = held.withData(asimov);
         assertSame(asimov, other.data());
         assertEquals(held.held(), other.held());
@@ -57,7 +57,7 @@ class ProblemTest {
     @Test
     void dataOfAnotherShapeIsRefused() {
         Problem p = Plumb.observed(m);
-        DataSet small = new DataSet("toy", new double[3], new boolean[m.nChannels], new double[m.nAll], 0);
+        DataSet small = new DataSet("toy", new double[3], new boolean[m.nChannels()], new double[m.nAll()], 0);
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> p.withData(small));
         assertTrue(e.getMessage().contains("3 bins"), e.getMessage());
     }

@@ -27,11 +27,11 @@ class FitterTest {
         assertTrue(profiled.converged(), profiled.status().toString());
         assertTrue(explicit.converged(), explicit.status().toString());
         assertEquals(explicit.nll(), profiled.nll(), 1e-8);
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             // values agree to the fits' own precision (decrement 1e-8: ~1e-4 of an error)
-            assertEquals(explicit.values()[i], profiled.values()[i], 2e-4 * explicit.errors()[i], m.parameterNames[i]);
+            assertEquals(explicit.values()[i], profiled.values()[i], 2e-4 * explicit.errors()[i], m.parameterNames(i));
             // errors: profiled Hessian (Schur complement) and block inverse vs the full inverse Hessian
-            assertEquals(explicit.errors()[i], profiled.errors()[i], 1e-4 * explicit.errors()[i], m.parameterNames[i]);
+            assertEquals(explicit.errors()[i], profiled.errors()[i], 1e-4 * explicit.errors()[i], m.parameterNames(i));
         }
     }
 
@@ -49,9 +49,9 @@ class FitterTest {
         FitResult reference = new Fitter(m, d, FitSettings.defaults().withMinimiser(FitSettings.MinimiserKind.REFERENCE)).fit();
         assertTrue(newton.converged());
         assertEquals(reference.nll(), newton.nll(), 1e-6);
-        for (int i = 0; i < m.nParams; i++) {
+        for (int i = 0; i < m.nParams(); i++) {
             assertEquals(reference.values()[i], newton.values()[i], 1e-4 * Math.max(1, Math.abs(newton.values()[i])),
-                    m.parameterNames[i]);
+                    m.parameterNames(i));
         }
     }
 
@@ -70,16 +70,16 @@ class FitterTest {
         assertTrue(newton.converged());
         assertTrue(bfgs.converged(), bfgs.status().name());
         assertEquals(newton.nll(), bfgs.nll(), 1e-7);
-        for (int i = 0; i < m.nParams; i++) {
-            assertEquals(newton.values()[i], bfgs.values()[i], 1e-3 * newton.errors()[i], m.parameterNames[i]);
+        for (int i = 0; i < m.nParams(); i++) {
+            assertEquals(newton.values()[i], bfgs.values()[i], 1e-3 * newton.errors()[i], m.parameterNames(i));
         }
         // These models put some linear/exponential parameters on their kink at 0, where the
         // curvature is one-sided: the covariance is the same matrix only when both minimisers end
         // on the same side of every kink (the seeds marked true); otherwise errors differ by design
         // and the kink parameters get profile intervals instead.
         if (sameKinkSides) {
-            for (int i = 0; i < m.nParams; i++) {
-                assertEquals(newton.errors()[i], bfgs.errors()[i], 1e-3 * newton.errors()[i], m.parameterNames[i]);
+            for (int i = 0; i < m.nParams(); i++) {
+                assertEquals(newton.errors()[i], bfgs.errors()[i], 1e-3 * newton.errors()[i], m.parameterNames(i));
             }
         }
     }

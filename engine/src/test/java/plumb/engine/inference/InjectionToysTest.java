@@ -78,43 +78,43 @@ class InjectionToysTest {
     @Test
     void toysFollowTheFormatPage() {
         CompiledModel m = ModelCompiler.compile(TestModels.mixed(1, ModelOptions.McStatConstraint.POISSON));
-        double[] point = m.nominal.clone();
-        point[m.poi] = 2;
+        double[] point = m.nominal();
+        point[m.poi()] = 2;
         point[m.indexOf("lumi")] = 0.4;
         double[] expected = DataSets.expectedCounts(m, point);
-        boolean[] all = new boolean[m.nChannels];
+        boolean[] all = new boolean[m.nChannels()];
         Arrays.fill(all, true);
         int n = 4000;
-        double[] sum = new double[m.nBins], sum2 = new double[m.nBins];
-        double[] aSum = new double[m.nAll], aSum2 = new double[m.nAll];
+        double[] sum = new double[m.nBins()], sum2 = new double[m.nBins()];
+        double[] aSum = new double[m.nAll()], aSum2 = new double[m.nAll()];
         for (int t = 0; t < n; t++) {
             DataSet d = Toys.generate(m, expected, point, all, 5, t, true);
-            for (int b = 0; b < m.nBins; b++) {
+            for (int b = 0; b < m.nBins(); b++) {
                 sum[b] += d.counts()[b];
                 sum2[b] += d.counts()[b] * d.counts()[b];
             }
-            for (int i = 0; i < m.nAll; i++) {
+            for (int i = 0; i < m.nAll(); i++) {
                 aSum[i] += d.aux()[i];
                 aSum2[i] += d.aux()[i] * d.aux()[i];
             }
         }
-        for (int b = 0; b < m.nBins; b++) {
+        for (int b = 0; b < m.nBins(); b++) {
             double mean = sum[b] / n, var = sum2[b] / n - mean * mean, nu = expected[b];
             assertEquals(nu, mean, 4.5 * Math.sqrt(nu / n), "bin " + b);               // Poisson mean ν, variance ν
             assertEquals(nu, var, 4.5 * Math.sqrt((nu + 2 * nu * nu) / n), "bin " + b); // var of s²: (μ4 − σ⁴)/N
         }
         int gaussian = 0, poisson = 0;
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             double mean = aSum[i] / n, var = aSum2[i] / n - mean * mean;
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
                 gaussian++;
-                double w = m.width[i];
-                assertEquals(point[i], mean, 4.5 * w / Math.sqrt(n), m.parameterNames[i]);
-                assertEquals(w * w, var, 4.5 * w * w * Math.sqrt(2.0 / n), m.parameterNames[i]);
-            } else if (m.constraintType[i] == ConstraintType.POISSON) {
+                double w = m.width(i);
+                assertEquals(point[i], mean, 4.5 * w / Math.sqrt(n), m.parameterNames(i));
+                assertEquals(w * w, var, 4.5 * w * w * Math.sqrt(2.0 / n), m.parameterNames(i));
+            } else if (m.constraintType(i) == ConstraintType.POISSON) {
                 poisson++;
-                double mu = m.tau[i] * point[i];
-                assertEquals(mu, mean, 4.5 * Math.sqrt(mu / n), m.parameterNames[i]);
+                double mu = m.tau(i) * point[i];
+                assertEquals(mu, mean, 4.5 * Math.sqrt(mu / n), m.parameterNames(i));
             }
         }
         assertTrue(gaussian > 0 && poisson > 0);
@@ -135,7 +135,7 @@ class InjectionToysTest {
         double[] point = toys.generatingPoint(1, false).values();
         int[] pulled = toys.pulledParameters();
         String[] names = new String[pulled.length];
-        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames[pulled[k]];
+        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames(pulled[k]);
         InjectionSummary s = InjectionSummary.of(1, toys.run(point, 3, true, 0, 400, 2, null), names);
         assertEquals(400, s.converged());
         assertEquals(0, s.pullMean(), 3 * s.pullMeanError());
@@ -157,7 +157,7 @@ class InjectionToysTest {
             for (boolean postfit : new boolean[] {false, true}) {
                 AsimovClosure c = toys.closure(toys.generatingPoint(2.5, postfit).values());
                 assertTrue(c.passed(), mc + " postfit " + postfit + ": " + c.maxDeviation());
-                assertEquals(2.5, c.fit().values()[m.poi], InjectionToys.CLOSURE_TOLERANCE);
+                assertEquals(2.5, c.fit().values()[m.poi()], InjectionToys.CLOSURE_TOLERANCE);
             }
         }
     }

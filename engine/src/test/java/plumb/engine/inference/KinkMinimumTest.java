@@ -32,8 +32,8 @@ class KinkMinimumTest {
     @Test
     void theFitFlagsTheParameterAndTheProfileSpansTheKink() {
         CompiledModel m = ModelCompiler.compile(ModelReader.parse(MODEL, "kink.json"));
-        assertTrue(m.kinked[0]);
-        assertFalse(m.oneSided[0]);
+        assertTrue(m.kinked(0));
+        assertFalse(m.oneSided(0));
         DataSet data = DataSet.observed(m);
         FitResult r = new Fitter(m, data, FitSettings.defaults()).fit();
         assertTrue(r.converged(), r.status().toString());

@@ -40,11 +40,11 @@ class OtherSideScreenTest {
         FitResult first = f.fit(f.nominalStart(), hold, holdValue);
         assertTrue(first.converged());
         int n = f.dimension();
-        boolean[] held = Arrays.copyOf(m.fixed, n);
+        boolean[] held = Arrays.copyOf(m.fixed(), n);
         if (hold >= 0) held[hold] = true;
         MinimumResult at = minimumAt(f, first.values(), held);
         int[] candidates = OtherSideSearch.candidates(m, held);
-        List<double[]> starts = OtherSideSearch.starts(at.x(), candidates, Arrays.copyOf(m.lower, n), Arrays.copyOf(m.upper, n));
+        List<double[]> starts = OtherSideSearch.starts(at.x(), candidates, Arrays.copyOf(m.lower(), n), Arrays.copyOf(m.upper(), n));
         int screenedOut = 0, lower = 0, lowerRefitted = 0, skippedThatMoved = 0;
         for (double[] start : starts) {
             boolean refit = OtherSideSearch.bends(f.likelihood(), at, start, candidates, new double[n]);
@@ -66,7 +66,7 @@ class OtherSideScreenTest {
     @Test
     void theStartIntoTheLowerBasinIsRefitted() {
         CompiledModel m = SeveralMinimaCasesTest.load("several-minima-a.json");
-        Outcome o = screen(m, DataSet.observed(m), m.poi, 0);
+        Outcome o = screen(m, DataSet.observed(m), m.poi(), 0);
         assertTrue(o.lower() >= 1, "the case has a lower minimum on the other side: " + o);
         assertEquals(o.lower(), o.lowerRefitted(), o.toString());
         assertEquals(0, o.skippedThatMoved(), o.toString());
@@ -77,7 +77,7 @@ class OtherSideScreenTest {
     void startsIntoOtherBasinsAreRefittedInCaseB() {
         CompiledModel m = SeveralMinimaCasesTest.load("several-minima-b.json");
         DataSet asimov = DataSets.asimovAt(m, 0, new int[0], new double[0], true, FitSettings.defaults()).data();
-        Outcome o = screen(m, asimov, m.poi, 10);
+        Outcome o = screen(m, asimov, m.poi(), 10);
         assertEquals(0, o.skippedThatMoved(), o.toString());
         assertTrue(o.starts() - o.screenedOut() >= 3, "three of the four starts end in other minima: " + o);
     }
@@ -95,14 +95,14 @@ class OtherSideScreenTest {
                     "norm": {"down": 1.01, "up": 1.02}, "normInterpolation": "smooth"}]}],
                   "observed": [90]}]}
                 """, "bowl.json"));
-        assertTrue(m.oneSided[0]);
+        assertTrue(m.oneSided(0));
         BinnedNll nll = new BinnedNll(m, DataSet.observed(m), false);
         Fitter f = new Fitter(m, DataSet.observed(m), FitSettings.defaults());
         f.searchOtherSides(false);
         FitResult r = f.fit();
         assertEquals(1, TwoMinimaTest.gridMinima(m).size(), "a single minimum");
         MinimumResult at = minimumAt(f, r.values(), new boolean[1]);
-        List<double[]> starts = OtherSideSearch.starts(at.x(), new int[] {0}, m.lower, m.upper);
+        List<double[]> starts = OtherSideSearch.starts(at.x(), new int[] {0}, m.lower(), m.upper());
         assertEquals(1, starts.size());
         assertFalse(OtherSideSearch.bends(nll, at, starts.get(0), new int[] {0}, new double[1]));
     }

@@ -37,7 +37,7 @@ class SeveralMinimaCasesTest {
     @Test
     void caseAFitWithMuHeldReachesTheLowerMinimum() {
         CompiledModel m = load("several-minima-a.json");
-        Fitter fitter = new Fitter(m, DataSet.observed(m), FitSettings.defaults(), new int[] {m.poi}, new double[] {0});
+        Fitter fitter = new Fitter(m, DataSet.observed(m), FitSettings.defaults(), new int[] {m.poi()}, new double[] {0});
         FitResult r = fitter.fit();
         assertTrue(r.converged(), r.status().toString());
         assertEquals(34.490839, r.nll(), 1e-4 * 34.490839);
@@ -79,12 +79,12 @@ class SeveralMinimaCasesTest {
         Fitter fitter = new Fitter(m, asimov, s);
         FitResult best = fitter.fit();
         ProfileScan scan = new ProfileScan(m, asimov, s, NONE, NO_VALUES, best);
-        List<ProfileScan.Point> points = scan.points(m.poi, 0, 10, 21, 2, null);
+        List<ProfileScan.Point> points = scan.points(m.poi(), 0, 10, 21, 2, null);
         ProfileScan.Point last = points.get(20);
         assertEquals(10, last.value());
         assertEquals(39.895398, last.nll(), 1e-6);
         for (ProfileScan.Point p : points) {
-            FitResult fresh = fitter.fit(fitter.nominalStart(), m.poi, p.value());
+            FitResult fresh = fitter.fit(fitter.nominalStart(), m.poi(), p.value());
             assertEquals(fresh.nll(), p.nll(), 1e-6, "mu = " + p.value());
         }
         LimitResult l = AsymptoticUpperLimit.compute(m, null, asimov, s, NONE, NO_VALUES, 0.95);

@@ -22,21 +22,21 @@ class ToysAndDataSetsTest {
 
     @Test
     void theAsimovSetIsTheExpectationWithAuxiliaryValuesAtTheGeneratingPoint() {
-        double[] values = m.nominal.clone();
-        values[m.poi] = 2;
+        double[] values = m.nominal();
+        values[m.poi()] = 2;
         values[m.indexOf("lumi")] = 0.7;
         DataSet a = DataSets.asimov(m, values);
         assertArrayEquals(DataSets.expectedCounts(m, values), a.counts());
         for (boolean included : a.channelIncluded()) assertTrue(included);
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             // Gaussian centre = θ, Poisson count m = τ·γ (docs/model-format.md, generated data sets)
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) assertEquals(values[i], a.aux()[i], 0, m.parameterNames[i]);
-            if (m.constraintType[i] == ConstraintType.POISSON) assertEquals(m.tau[i] * values[i], a.aux()[i], 1e-12 * m.tau[i]);
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) assertEquals(values[i], a.aux()[i], 0, m.parameterNames(i));
+            if (m.constraintType(i) == ConstraintType.POISSON) assertEquals(m.tau(i) * values[i], a.aux()[i], 1e-12 * m.tau(i));
         }
         // The fit of an Asimov set returns its generating point (Cowan et al. 2011, section 3.1).
         FitResult fit = new Fitter(m, a, FitSettings.defaults()).fit();
         assertTrue(fit.converged());
-        assertEquals(2, fit.values()[m.poi], 1e-4);
+        assertEquals(2, fit.values()[m.poi()], 1e-4);
         assertEquals(0.7, fit.values()[m.indexOf("lumi")], 1e-4);
     }
 
@@ -44,8 +44,8 @@ class ToysAndDataSetsTest {
     void aPrefitAsimovSetUsesTheNominalValuesWithTheHeldOnesApplied() {
         int lumi = m.indexOf("lumi");
         DataSets.Generated g = DataSets.asimovAt(m, 1.5, new int[] {lumi}, new double[] {-0.4}, false, FitSettings.defaults());
-        double[] expected = m.nominal.clone();
-        expected[m.poi] = 1.5;
+        double[] expected = m.nominal();
+        expected[m.poi()] = 1.5;
         expected[lumi] = -0.4;
         assertArrayEquals(expected, g.values());
         assertEquals(null, g.conditionalFit());
@@ -54,9 +54,9 @@ class ToysAndDataSetsTest {
 
     @Test
     void aToyDependsOnlyOnSeedAndIndex() {
-        double[] values = m.nominal.clone();
+        double[] values = m.nominal();
         double[] expected = DataSets.expectedCounts(m, values);
-        boolean[] all = new boolean[m.nChannels];
+        boolean[] all = new boolean[m.nChannels()];
         Arrays.fill(all, true);
         DataSet a = Toys.generate(m, expected, values, all, 42, 7, true);
         DataSet b = Toys.generate(m, expected, values, all, 42, 7, true);
@@ -71,12 +71,12 @@ class ToysAndDataSetsTest {
 
     @Test
     void toyCountsArePoissonAroundTheExpectation() {
-        double[] values = m.nominal.clone();
+        double[] values = m.nominal();
         double[] expected = DataSets.expectedCounts(m, values);
-        boolean[] all = new boolean[m.nChannels];
+        boolean[] all = new boolean[m.nChannels()];
         Arrays.fill(all, true);
         int toys = 4000;
-        double[] sum = new double[m.nBins], sumSq = new double[m.nBins];
+        double[] sum = new double[m.nBins()], sumSq = new double[m.nBins()];
         for (int t = 0; t < toys; t++) {
             double[] n = Toys.generate(m, expected, values, all, 3, t, false).counts();
             for (int b = 0; b < n.length; b++) {
@@ -85,7 +85,7 @@ class ToysAndDataSetsTest {
                 sumSq[b] += n[b] * n[b];
             }
         }
-        for (int b = 0; b < m.nBins; b++) {
+        for (int b = 0; b < m.nBins(); b++) {
             double mean = sum[b] / toys, var = sumSq[b] / toys - mean * mean;
             // Poisson: mean = variance = ν (common practice); 5 standard errors of each estimate
             assertEquals(expected[b], mean, 5 * Math.sqrt(expected[b] / toys), "mean of bin " + b);

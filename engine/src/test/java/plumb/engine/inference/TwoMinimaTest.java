@@ -69,7 +69,7 @@ class TwoMinimaTest {
     @ValueSource(strings = {"smooth", "linear", "exponential"})
     void theDeeperMinimumFromAnyStart(String interpolation) {
         CompiledModel m = model(interpolation, 1.25, 1.35);
-        assertTrue(m.oneSided[0]);
+        assertTrue(m.oneSided(0));
         List<double[]> grid = gridMinima(m);
         assertEquals(2, grid.size(), interpolation);
         double[] deep = grid.get(0)[1] < grid.get(1)[1] ? grid.get(0) : grid.get(1);
@@ -92,8 +92,8 @@ class TwoMinimaTest {
     /** A variation meant to stay at nominal on one side, off by rounding only, is not one-sided for the fitter. */
     @Test
     void roundingDoesNotMakeAVariationOneSided() {
-        assertFalse(model("smooth", 1.0000004, 1.2).oneSided[0]);
-        assertFalse(model("smooth", 0.8, 1.2).oneSided[0]);
-        assertTrue(model("smooth", 1.01, 1.2).oneSided[0]);
+        assertFalse(model("smooth", 1.0000004, 1.2).oneSided(0));
+        assertFalse(model("smooth", 0.8, 1.2).oneSided(0));
+        assertTrue(model("smooth", 1.01, 1.2).oneSided(0));
     }
 }

@@ -48,7 +48,7 @@ class YieldsTest {
         // not the γ_b: σ_sum² = (Σ n_b ln κ)² + Σ mcError_b².
         Problem p = Problem.observed(model(true));
         Yields.ChannelYields c = only(Yields.compute(p.model(), p.data(), p.startValues(),
-                new boolean[p.model().nAll], null, null));
+                new boolean[p.model().nAll()], null, null));
         double[] mc = {3, 4};
         Yields.Band pre = c.totalPrefit();
         for (int b = 0; b < 2; b++) {

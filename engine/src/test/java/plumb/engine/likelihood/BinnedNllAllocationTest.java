@@ -24,8 +24,8 @@ class BinnedNllAllocationTest {
         for (boolean explicit : new boolean[] {false, true}) {
             BinnedNll nll = new BinnedNll(m, DataSet.observed(m), explicit);
             int n = nll.dimension();
-            double[] x = java.util.Arrays.copyOf(m.nominal, n);
-            x[m.poi] = 1.3;
+            double[] x = java.util.Arrays.copyOf(m.nominal(), n);
+            x[m.poi()] = 1.3;
             double[] g = new double[n], h = new double[n * n];
             Runnable evaluations = () -> {
                 for (int k = 0; k < 2000; k++) {

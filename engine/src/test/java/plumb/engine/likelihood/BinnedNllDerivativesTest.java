@@ -28,8 +28,8 @@ class BinnedNllDerivativesTest {
         for (int trial = 0; trial < 3; trial++) {
             double[] x = new double[n];
             for (int i = 0; i < n; i++) {
-                x[i] = m.nominal[i] + 0.4 * (r.nextDouble() - 0.5);
-                if (i >= m.nParams) x[i] = 1 + 0.1 * (r.nextDouble() - 0.5);
+                x[i] = m.nominal(i) + 0.4 * (r.nextDouble() - 0.5);
+                if (i >= m.nParams()) x[i] = 1 + 0.1 * (r.nextDouble() - 0.5);
             }
             x[m.indexOf("mu")] = 0.5 + r.nextDouble();
             double[] g = new double[n], h = new double[n * n];
@@ -42,13 +42,13 @@ class BinnedNllDerivativesTest {
                 xp[i] += step;
                 xm[i] -= step;
                 double fd = (nll.value(xp) - nll.value(xm)) / (2 * step);
-                assertEquals(fd, g[i], 1e-5 * (1 + Math.abs(fd)), "gradient " + m.parameterNames[i]);
+                assertEquals(fd, g[i], 1e-5 * (1 + Math.abs(fd)), "gradient " + m.parameterNames(i));
                 nll.valueAndGradient(xp, gp);
                 nll.valueAndGradient(xm, gm);
                 for (int j = 0; j < n; j++) {
                     double hd = (gp[j] - gm[j]) / (2 * step);
                     assertEquals(hd, h[i * n + j], 1e-4 * (1 + Math.abs(hd)),
-                            "hessian " + m.parameterNames[i] + "," + m.parameterNames[j]);
+                            "hessian " + m.parameterNames(i) + "," + m.parameterNames(j));
                 }
             }
         }
@@ -60,8 +60,8 @@ class BinnedNllDerivativesTest {
     void gradientStaysExactFarOut(boolean explicit) {
         CompiledModel m = ModelCompiler.compile(TestModels.mixed(7, ModelOptions.McStatConstraint.GAUSSIAN));
         BinnedNll nll = new BinnedNll(m, DataSet.observed(m), explicit);
-        double[] x = m.nominal.clone();
-        if (!explicit) x = java.util.Arrays.copyOf(x, m.nParams);
+        double[] x = m.nominal();
+        if (!explicit) x = java.util.Arrays.copyOf(x, m.nParams());
         int scale = m.indexOf("shapeB");
         x[scale] = -4.5; // a 12 % tilt pulled 4.5σ down turns some bins negative only for extreme values
         double[] g = new double[x.length];

@@ -26,20 +26,20 @@ class NllConstantsTest {
             CompiledModel m = ModelCompiler.compile(TestModels.mixed(11, mc));
             DataSet d = DataSet.observed(m);
             BinnedNll nll = new BinnedNll(m, d, true);
-            double[] x = m.nominal.clone();
-            double[] nu = new double[m.nBins];
+            double[] x = m.nominal();
+            double[] nu = new double[m.nBins()];
             nll.expectedBins(x, nu);
             double expected = 0;
-            for (int b = 0; b < m.nBins; b++) {
+            for (int b = 0; b < m.nBins(); b++) {
                 // integer counts: the Poisson pmf itself
                 expected -= new PoissonDistribution(nu[b]).logProbability((int) d.counts()[b]);
             }
-            for (int i = 0; i < m.nAll; i++) {
-                if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
-                    expected -= new NormalDistribution(d.aux()[i], m.width[i]).logDensity(x[i]);
-                } else if (m.constraintType[i] == ConstraintType.POISSON) {
+            for (int i = 0; i < m.nAll(); i++) {
+                if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
+                    expected -= new NormalDistribution(d.aux()[i], m.width(i)).logDensity(x[i]);
+                } else if (m.constraintType(i) == ConstraintType.POISSON) {
                     // τγ − m ln(τγ) + ln Γ(m+1): the Poisson term with a real-valued count m
-                    double lambda = m.tau[i] * x[i], count = d.aux()[i];
+                    double lambda = m.tau(i) * x[i], count = d.aux()[i];
                     expected += lambda - count * Math.log(lambda) + Gamma.logGamma(count + 1);
                 }
             }

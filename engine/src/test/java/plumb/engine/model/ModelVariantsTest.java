@@ -25,12 +25,12 @@ class ModelVariantsTest {
         CompiledModel scaled = ModelVariants.yieldsScaled(m, 3.7);
         Random rnd = new Random(5);
         for (int trial = 0; trial < 5; trial++) {
-            double[] values = m.nominal.clone();
-            for (int i = 0; i < m.nAll; i++) {
-                values[i] = Math.max(m.lower[i], Math.min(m.upper[i], values[i] + 0.6 * rnd.nextGaussian()));
+            double[] values = m.nominal();
+            for (int i = 0; i < m.nAll(); i++) {
+                values[i] = Math.max(m.lower(i), Math.min(m.upper(i), values[i] + 0.6 * rnd.nextGaussian()));
             }
             double[] a = DataSets.expectedCounts(m, values), b = DataSets.expectedCounts(scaled, values);
-            for (int bin = 0; bin < m.nBins; bin++) assertEquals(3.7 * a[bin], b[bin], 1e-12 * Math.abs(b[bin]) + 1e-300);
+            for (int bin = 0; bin < m.nBins(); bin++) assertEquals(3.7 * a[bin], b[bin], 1e-12 * Math.abs(b[bin]) + 1e-300);
         }
     }
 
@@ -51,13 +51,13 @@ class ModelVariantsTest {
     void scaledConstraintsChangeOnlyTheNamedWidths() {
         int[] some = {m.indexOf("bkgNorm"), m.indexOf("lumi")};
         CompiledModel scaled = ModelVariants.constraintsScaled(m, some, 0.5);
-        for (int i = 0; i < m.nAll; i++) {
+        for (int i = 0; i < m.nAll(); i++) {
             boolean named = i == some[0] || i == some[1];
-            if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
-                assertEquals(named ? 0.5 * m.width[i] : m.width[i], scaled.width[i], 0);
-                assertEquals(named ? 0.5 * m.prefitWidth[i] : m.prefitWidth[i], scaled.prefitWidth[i], 0);
-            } else if (m.constraintType[i] == ConstraintType.POISSON) {
-                assertEquals(named ? 4 * m.tau[i] : m.tau[i], scaled.tau[i], 1e-12 * m.tau[i]);
+            if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
+                assertEquals(named ? 0.5 * m.width(i) : m.width(i), scaled.width(i), 0);
+                assertEquals(named ? 0.5 * m.prefitWidth(i) : m.prefitWidth(i), scaled.prefitWidth(i), 0);
+            } else if (m.constraintType(i) == ConstraintType.POISSON) {
+                assertEquals(named ? 4 * m.tau(i) : m.tau(i), scaled.tau(i), 1e-12 * m.tau(i));
             }
         }
     }

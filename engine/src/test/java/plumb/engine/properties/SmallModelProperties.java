@@ -47,9 +47,9 @@ class SmallModelProperties {
     private static double[] point(CompiledModel m, int n, Random r) {
         double[] x = new double[n];
         for (int i = 0; i < n; i++) {
-            x[i] = i < m.nParams ? m.nominal[i] + 0.4 * (r.nextDouble() - 0.5) : 1 + 0.1 * (r.nextDouble() - 0.5);
+            x[i] = i < m.nParams() ? m.nominal(i) + 0.4 * (r.nextDouble() - 0.5) : 1 + 0.1 * (r.nextDouble() - 0.5);
         }
-        x[m.poi] = 0.5 + r.nextDouble();
+        x[m.poi()] = 0.5 + r.nextDouble();
         return x;
     }
 
@@ -102,11 +102,11 @@ class SmallModelProperties {
         Model original = model(seed, false);
         Model other = shuffled(original, new Random(seed ^ 0x5DEECE66DL));
         CompiledModel a = ModelCompiler.compile(original), b = ModelCompiler.compile(other);
-        assertEquals(a.nParams, b.nParams);
+        assertEquals(a.nParams(), b.nParams());
         BinnedNll fa = new BinnedNll(a, DataSet.observed(a), false), fb = new BinnedNll(b, DataSet.observed(b), false);
-        double[] xa = point(a, a.nParams, new Random(seed));
-        double[] xb = new double[b.nParams];
-        for (int i = 0; i < a.nParams; i++) xb[b.indexOf(a.parameterNames[i])] = xa[i];
+        double[] xa = point(a, a.nParams(), new Random(seed));
+        double[] xb = new double[b.nParams()];
+        for (int i = 0; i < a.nParams(); i++) xb[b.indexOf(a.parameterNames(i))] = xa[i];
         double va = fa.value(xa), vb = fb.value(xb);
         assertEquals(va, vb, 1e-10 * Math.max(1, Math.abs(va)));
     }
@@ -116,14 +116,14 @@ class SmallModelProperties {
     void asimovFitReturnsTheGeneratingValues(@ForAll @LongRange(min = 1, max = 1_000_000) long seed,
                                              @ForAll @DoubleRange(min = 0.5, max = 2) double mu) {
         CompiledModel m = ModelCompiler.compile(model(seed, false));
-        double[] values = m.nominal.clone();
-        values[m.poi] = mu;
+        double[] values = m.nominal();
+        values[m.poi()] = mu;
         DataSet asimov = DataSets.asimov(m, values);
         FitResult r = new Fitter(m, asimov, FitSettings.defaults()).fit();
         assertTrue(r.converged(), r.status().toString());
-        for (int i = 0; i < m.nParams; i++) {
+        for (int i = 0; i < m.nParams(); i++) {
             double tol = 1e-3 * (r.errors()[i] > 0 && Double.isFinite(r.errors()[i]) ? r.errors()[i] : 1);
-            assertEquals(values[i], r.values()[i], tol, m.parameterNames[i]);
+            assertEquals(values[i], r.values()[i], tol, m.parameterNames(i));
         }
     }
 
@@ -135,7 +135,7 @@ class SmallModelProperties {
         Model back = ModelReader.parse(text, "round-trip");
         assertEquals(text, ModelWriter.toJson(back));
         CompiledModel a = ModelCompiler.compile(original), b = ModelCompiler.compile(back);
-        double[] x = point(a, a.nParams, new Random(seed));
+        double[] x = point(a, a.nParams(), new Random(seed));
         assertEquals(new BinnedNll(a, DataSet.observed(a)).value(x), new BinnedNll(b, DataSet.observed(b)).value(x), 0.0);
     }
 }

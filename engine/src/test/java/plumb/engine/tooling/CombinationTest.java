@@ -52,13 +52,13 @@ class CombinationTest {
         assertTrue(mc.indexOf("eff") >= 0 && mc.indexOf("eff_b") >= 0, "the renamed parameter is a parameter of its own");
         Random r = new Random(3);
         for (int trial = 0; trial < 5; trial++) {
-            double[] x = mc.nominal.clone();
-            for (int i = 0; i < mc.nParams; i++) x[i] += 0.3 * (r.nextDouble() - 0.5);
+            double[] x = mc.nominal();
+            for (int i = 0; i < mc.nParams(); i++) x[i] += 0.3 * (r.nextDouble() - 0.5);
             double[] xa = values(ma, mc, x, Map.of()), xb = values(mb, mc, x, Map.of("eff", "eff_b"));
-            double combined = new BinnedNll(mc, DataSet.observed(mc)).value(java.util.Arrays.copyOf(x, mc.nParams));
+            double combined = new BinnedNll(mc, DataSet.observed(mc)).value(java.util.Arrays.copyOf(x, mc.nParams()));
             double sum = new BinnedNll(ma, DataSet.observed(ma)).value(xa) + new BinnedNll(mb, DataSet.observed(mb)).value(xb);
-            for (int i = 0; i < ma.nParams; i++) {
-                if (mb.indexOf(ma.parameterNames[i]) >= 0 && !ma.parameterNames[i].equals("eff")) sum -= constraintTerm(ma, i, xa[i]);
+            for (int i = 0; i < ma.nParams(); i++) {
+                if (mb.indexOf(ma.parameterNames(i)) >= 0 && !ma.parameterNames(i).equals("eff")) sum -= constraintTerm(ma, i, xa[i]);
             }
             assertEquals(sum, combined, 1e-12 * Math.abs(combined), "trial " + trial);
         }
@@ -66,9 +66,9 @@ class CombinationTest {
 
     /** A part's parameter values taken by name from the combination's ({@code renamed}: part name to combined name). */
     private static double[] values(CompiledModel part, CompiledModel combined, double[] x, Map<String, String> renamed) {
-        double[] out = new double[part.nParams];
-        for (int i = 0; i < part.nParams; i++) {
-            String n = part.parameterNames[i];
+        double[] out = new double[part.nParams()];
+        for (int i = 0; i < part.nParams(); i++) {
+            String n = part.parameterNames(i);
             out[i] = x[combined.indexOf(renamed.getOrDefault(n, n))];
         }
         return out;
@@ -76,12 +76,12 @@ class CombinationTest {
 
     /** The constraint term of docs/model-format.md, constants included. */
     private static double constraintTerm(CompiledModel m, int i, double theta) {
-        if (m.constraintType[i] == ConstraintType.GAUSSIAN) {
-            double w = m.width[i], d = theta - m.auxNominal[i];
+        if (m.constraintType(i) == ConstraintType.GAUSSIAN) {
+            double w = m.width(i), d = theta - m.auxNominal(i);
             return d * d / (2 * w * w) + Math.log(w * Math.sqrt(2 * Math.PI));
         }
-        if (m.constraintType[i] == ConstraintType.POISSON) {
-            double tau = m.tau[i], aux = m.auxNominal[i];
+        if (m.constraintType(i) == ConstraintType.POISSON) {
+            double tau = m.tau(i), aux = m.auxNominal(i);
             return tau * theta - aux * Math.log(tau * theta) + Gamma.logGamma(aux + 1);
         }
         return 0;

@@ -41,7 +41,7 @@ public final class SparkSpeed {
         InjectionToys engine = new InjectionToys(m, FitSettings.defaults(), new int[0], new double[0]);
         double[] point = engine.generatingPoint(1, false).values();
         System.out.printf(Locale.ROOT, "medium model (%d bins, %d parameters), %d injection toys at POI = 1%n",
-                m.nBins, m.nAll, toys);
+                m.nBins(), m.nAll(), toys);
 
         WorkRunner local = WorkRunner.threads(threads);
         engine.run(point, 99, true, 0, Math.max(200, toys / 10), local, null);   // warm-up (JIT), not timed

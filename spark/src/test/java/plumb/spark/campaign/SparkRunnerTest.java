@@ -36,7 +36,7 @@ class SparkRunnerTest {
     record YieldTimesIndex() implements RangeWork<double[], Double> {
         @Override
         public double[] worker(CompiledModel m) {
-            return m.nominalYield;
+            return m.nominalYield();
         }
 
         @Override
@@ -55,7 +55,7 @@ class SparkRunnerTest {
         assertEquals(n, spark.size());
         assertEquals(threads, spark);
         double total = 0;
-        for (double y : model.nominalYield) total += y;
+        for (double y : model.nominalYield()) total += y;
         assertEquals(100 * total, spark.get(100), 0);   // exact: the same sum in the same order
     }
 
@@ -74,9 +74,9 @@ class SparkRunnerTest {
     @Test
     void theModelSurvivesItsBytes() {
         CompiledModel back = ModelBytes.read(ModelBytes.of(model));
-        assertArrayEquals(model.nominalYield, back.nominalYield);
-        assertArrayEquals(model.parameterNames, back.parameterNames);
-        assertEquals(model.labels, back.labels);
+        assertArrayEquals(model.nominalYield(), back.nominalYield());
+        assertArrayEquals(model.parameterNames(), back.parameterNames());
+        assertEquals(model.labels(), back.labels());
     }
 
     @Test

@@ -50,7 +50,7 @@ public class InjectionBenchmark {
         point = toys.generatingPoint(1, false).values();
         int[] pulled = toys.pulledParameters();
         names = new String[pulled.length];
-        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames[pulled[k]];
+        for (int k = 0; k < names.length; k++) names[k] = m.parameterNames(pulled[k]);
     }
 
     @Benchmark

@@ -43,12 +43,12 @@ public class LikelihoodBenchmark {
     public void setup() {
         CompiledModel m = BenchModels.compiled(size);
         nll = new BinnedNll(m, DataSet.observed(m));
-        x = Arrays.copyOf(m.nominal, m.nParams);
-        x[m.poi] = 1.1; // off the nominal so no branch is trivially skipped
-        gradient = new double[m.nParams];
-        hessian = new double[m.nParams * m.nParams];
+        x = Arrays.copyOf(m.nominal(), m.nParams());
+        x[m.poi()] = 1.1; // off the nominal so no branch is trivially skipped
+        gradient = new double[m.nParams()];
+        hessian = new double[m.nParams() * m.nParams()];
         System.out.printf("%n%s model: %d entries, %d parameters, %d MC-statistics parameters%n",
-                size, m.entries(), m.nParams, m.nGamma);
+                size, m.entries(), m.nParams(), m.nGamma());
     }
 
     @Benchmark

@@ -74,7 +74,7 @@ public class LimitBenchmark {
         if (!size.equals("medium")) return 0;   // the toy target is for the medium model
         toyFitter.setData(Toys.generate(m, expected, generating, observed.channelIncluded(), 99, toy++, true));
         FitResult best = toyFitter.fit(generating, -1, 0);
-        FitResult at = toyFitter.fit(best.values(), m.poi, mu);
+        FitResult at = toyFitter.fit(best.values(), m.poi(), mu);
         return best.nll() + at.nll();
     }
 

@@ -48,9 +48,9 @@ public class ScaleBenchmark {
         model = ModelCompiler.compile(SyntheticModels.generate(40, 500, 8, 2000, 3));
         data = DataSet.observed(model);
         nll = new BinnedNll(model, data);
-        x = model.nominal.clone();
-        gradient = new double[model.nParams];
-        hessian = new double[model.nParams * model.nParams];
+        x = model.nominal();
+        gradient = new double[model.nParams()];
+        hessian = new double[model.nParams() * model.nParams()];
     }
 
     @Benchmark

@@ -58,7 +58,7 @@ public class ScalePostfitBenchmark {
     @Benchmark
     public List<Yields.ChannelYields> yields() {
         PostfitCovariance post = PostfitCovariance.of(fitter.likelihood(), best);
-        return Yields.compute(model, data, model.nominal, best.held(), best, post);
+        return Yields.compute(model, data, model.nominal(), best.held(), best, post);
     }
 
     /** Linearised ranking of every nuisance parameter and the grouped breakdown (MC statistics and all systematics included). */
