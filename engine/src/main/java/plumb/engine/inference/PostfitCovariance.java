@@ -74,8 +74,9 @@ public final class PostfitCovariance implements java.io.Serializable {
         nll.gammaBlocks(x, a, d, mixed);
         int[][] gammaParams = new int[nG][];
         for (int c = 0; c < m.nChannels(); c++) {
+            int[] params = m.channelParams(c); // one copy per channel, shared by its bins' γ
             for (int b = m.channelBinStart(c); b < m.channelBinStart(c + 1); b++) {
-                if (m.binGamma(b) >= 0) gammaParams[m.binGamma(b)] = m.channelParams(c);
+                if (m.binGamma(b) >= 0) gammaParams[m.binGamma(b)] = params;
             }
         }
         boolean[] freeGamma = new boolean[nG];

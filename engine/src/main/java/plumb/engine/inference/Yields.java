@@ -150,7 +150,7 @@ public final class Yields {
             double[] x = point.clone();
             this.w = new double[m.nBins()];
             this.q = new double[m.nBins()];
-            this.nu = new double[m.nominalYield().length];
+            this.nu = new double[m.nEntries()];
             nll.expectedEntries(x, nu);
             nll.binWeights(w, q);
             // At a kink of a linear term the one-sided slopes differ: a second likelihood sits on
