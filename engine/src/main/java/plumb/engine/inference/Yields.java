@@ -125,7 +125,6 @@ public final class Yields {
         final double[] nu;
 
         // ---- the current channel ----
-        int channel = -1;
         int[] samples;
         int nb;
         /** Per sample of the channel: along[b], gammaFactor[b], byGamma[b], shape[j·nb + b]; each shape term's basis index. */
@@ -177,7 +176,6 @@ public final class Yields {
 
         /** Prepares channel c: derivatives of its samples, the span basis and G. */
         void channel(int c) {
-            channel = c;
             int[] local = m.channelParams(c);
             int L = local.length;
             int b0 = m.channelBinStart(c);
@@ -298,7 +296,6 @@ public final class Yields {
 
         /** The summed yield of the given samples (of the current channel) per bin and over the bins, with errors. */
         Band band(int[] set) {
-            int ns = samples.length;
             int[] pos = new int[set.length];
             for (int i = 0; i < set.length; i++) pos[i] = java.util.Arrays.binarySearch(samples, set[i]);
             // the basis indices this set's coefficients use
