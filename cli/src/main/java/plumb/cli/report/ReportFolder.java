@@ -111,6 +111,37 @@ public final class ReportFolder {
         }
     }
 
+    /** Set when the process is stopping (SIGINT, SIGTERM): a report being written stops before its next file. */
+    private static volatile boolean stopping;
+
+    static void checkRunning() throws IOException {
+        if (stopping) throw new IOException("stopped by a signal");
+    }
+
+    /**
+     * The shutdown hook's work: removes the staging folder (null: none yet). The writing thread
+     * runs on while hooks run and may finish the file it is writing, so the folder is deleted
+     * until it stays gone (at most a few seconds; the next run sweeps anything left).
+     */
+    static void removeWhileStopping(Path stage) {
+        stopping = true;
+        if (stage == null) return;
+        long end = System.nanoTime() + 3_000_000_000L;
+        for (int absent = 0; absent < 3 && System.nanoTime() < end; ) {
+            try {
+                deleteTree(stage);
+            } catch (IOException | RuntimeException busy) {
+                // a file appeared meanwhile: try again
+            }
+            absent = Files.exists(stage, LinkOption.NOFOLLOW_LINKS) ? 0 : absent + 1;
+            try {
+                Thread.sleep(20);
+            } catch (InterruptedException e) {
+                return;
+            }
+        }
+    }
+
     /** Writes the marker into a staging folder. */
     static void mark(Path stage) throws IOException {
         AtomicFiles.writeString(stage.resolve(MARKER),

@@ -89,22 +89,21 @@ public final class ReportWriter {
         Files.createDirectories(target.getParent());
         ReportFolder.requireReusable(dir, inputs);
         ReportFolder.sweepStale(target);
-        Path stage = ReportFolder.createStage(target);
-        // SIGINT and SIGTERM run the shutdown hooks: the staging folder goes with the process
-        Thread cleanup = new Thread(() -> {
-            try {
-                ReportFolder.deleteTree(stage);
-            } catch (IOException | RuntimeException ignored) {
-                // the next run sweeps what is left
-            }
-        }, "plumb-report-cleanup");
+        // SIGINT and SIGTERM run the shutdown hooks: the staging folder goes with the process. The
+        // hook is in place before the folder exists, so no signal finds a folder without it.
+        java.util.concurrent.atomic.AtomicReference<Path> staged = new java.util.concurrent.atomic.AtomicReference<>();
+        Thread cleanup = new Thread(() -> ReportFolder.removeWhileStopping(staged.get()), "plumb-report-cleanup");
         Runtime.getRuntime().addShutdownHook(cleanup);
+        Path stage = null;
         try {
+            stage = ReportFolder.createStage(target);
+            staged.set(stage);
             new ReportWriter(in, stage).build();
             ReportFolder.mark(stage);
+            ReportFolder.checkRunning();
             ReportFolder.publish(stage, target, inputs);
         } finally {
-            ReportFolder.deleteTree(stage);
+            if (stage != null) ReportFolder.deleteTree(stage);
             try {
                 Runtime.getRuntime().removeShutdownHook(cleanup);
             } catch (IllegalStateException shuttingDown) {
@@ -579,6 +578,7 @@ public final class ReportWriter {
     private void figure(String name, String caption, FigureSource source) {
         FigureFiles files;
         try {
+            ReportFolder.checkRunning();
             files = source.get().write(stage.resolve("figures"), name);
         } catch (IOException e) {
             throw new UncheckedIOException(e);
@@ -609,6 +609,7 @@ public final class ReportWriter {
     }
 
     private void writeTableFiles(Table table, String name, String label) throws IOException {
+        ReportFolder.checkRunning();
         String safe = FigureWriter.safeName(name);
         html.append("<span class=\"downloads\">").append(esc(label)).append(':');
         for (TableFormat f : new TableFormat[] {TableFormat.CSV, TableFormat.MARKDOWN, TableFormat.LATEX}) {
