@@ -107,7 +107,7 @@ public final class CutFlowFile {
             Channel ch = model.channels().stream().filter(c -> c.name().equals(r.region())).findFirst().orElse(null);
             if (ch == null) return "the model has no channel " + r.region();
             double total;
-            if (r.sample().equals("data")) {
+            if (r.sample().equals(CutFlowRow.DATA)) {
                 if (ch.observed() == null) continue;   // blinded since the build
                 total = sum(ch.observed());
             } else {

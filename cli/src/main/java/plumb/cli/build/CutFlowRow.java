@@ -8,4 +8,7 @@ public record CutFlowRow(String region, String sample, String step, double weigh
 
     /** The name of the last row of each region and sample: what the histogram holds. */
     public static final String IN_THE_BINS = "in the bins";
+
+    /** The sample name of the observed events' rows. */
+    public static final String DATA = "data";
 }

@@ -16,9 +16,6 @@ import java.util.Map;
  */
 public final class CutFlowTables {
 
-    /** The sample name of the observed events in a build's cut flow. */
-    static final String DATA = "data";
-
     private CutFlowTables() {
     }
 
@@ -41,11 +38,11 @@ public final class CutFlowTables {
             cell.put(r.sample() + '\u0000' + r.step(), r);
         }
         // the observed events have weight one: their Σw would only repeat their count
-        boolean dataCounted = rows.stream().filter(r -> r.sample().equals(DATA)).allMatch(r -> r.weighted() == r.raw());
+        boolean dataCounted = rows.stream().filter(r -> r.sample().equals(CutFlowRow.DATA)).allMatch(r -> r.weighted() == r.raw());
         List<String> header = new ArrayList<>();
         header.add("after step");
         for (String s : samples) {
-            if (!(dataCounted && s.equals(DATA))) header.add(s + " Σw");
+            if (!(dataCounted && s.equals(CutFlowRow.DATA))) header.add(s + " Σw");
             header.add(s + " events");
         }
         Table.Builder t = Table.builder("Region " + region + ": events left after each step (cumulative)",
@@ -55,7 +52,7 @@ public final class CutFlowTables {
             line.add(step);
             for (String s : samples) {
                 CutFlowRow r = cell.get(s + '\u0000' + step);
-                if (!(dataCounted && s.equals(DATA))) line.add(r == null ? "" : Table.number(r.weighted(), 5));
+                if (!(dataCounted && s.equals(CutFlowRow.DATA))) line.add(r == null ? "" : Table.number(r.weighted(), 5));
                 line.add(r == null ? "" : Long.toString(r.raw()));
             }
             t.row(line);
