@@ -21,7 +21,6 @@ import plumb.engine.inference.InjectionStudy;
 import plumb.engine.inference.InjectionSummary;
 import plumb.engine.inference.InjectionToyBatch;
 import plumb.engine.inference.InjectionToys;
-import plumb.engine.inference.MemoryBudget;
 import plumb.engine.inference.ProfileScan;
 import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.Yields;
@@ -396,15 +395,8 @@ final class ReportJob {
             List<Double> mu = new ArrayList<>();
             for (double x : INJECTED) if (x >= m.lower(m.poi()) && x <= m.upper(m.poi())) mu.add(x);
             if (mu.isEmpty()) throw new ComputationException("none of the injected values 1, 2, 3 is inside the POI's range");
-            InjectionToys engine = new InjectionToys(p.problem());
-            try {
-                MemoryBudget.requireInjectionToys(toys, mu.size(), engine.pulledParameters().length,
-                        String.format(Locale.ROOT, "--toys %d (%d toys x %d injected values, every toy's fit kept)", toys,
-                                toys, mu.size()), "run fewer toys");
-            } catch (MemoryBudget.TooLargeException e) {
-                throw new InputException(e.getMessage());   // a bad option: exit status 2, nothing written
-            }
-            InjectionStudy study = new InjectionStudy(engine, mu, false);
+            // --toys was checked against the heap before any work (requireOptions)
+            InjectionStudy study = new InjectionStudy(new InjectionToys(p.problem()), mu, false);
             List<AsimovClosure> closures = new ArrayList<>();
             for (int k = 0; k < mu.size(); k++) closures.add(study.closure(k));
             List<InjectionToyBatch.ValueFits> fits = new ArrayList<>();
