@@ -181,12 +181,6 @@ public final class CompiledModel implements java.io.Serializable {
         return -1;
     }
 
-    /** Index of the named channel, or −1. */
-    public int channelIndex(String channelName) {
-        for (int c = 0; c < nChannels; c++) if (channelNames[c].equals(channelName)) return c;
-        return -1;
-    }
-
     /** Number of bins of channel c. */
     public int bins(int c) {
         return channelBinStart[c + 1] - channelBinStart[c];

@@ -2,7 +2,7 @@ package plumb.engine.linalg;
 
 /**
  * Cholesky factorisation A = L·Lᵀ of a symmetric positive-definite matrix, and what the fits need
- * from it: solutions, the inverse (a covariance from a Hessian) and ln det A.
+ * from it: solutions and the inverse (a covariance from a Hessian).
  *
  * <p>Matrices are flat row-major {@code double[]}: a matrix of size m occupies the first m·m entries
  * with row stride m, so one work array sized for the largest system serves every smaller one (the
@@ -50,13 +50,6 @@ public interface CholeskySolver {
      * @throws IllegalArgumentException if the array is shorter than m·m
      */
     void invert(double[] inverse);
-
-    /**
-     * ln det A = 2 Σ ln L_ii of the last factored A.
-     *
-     * @throws IllegalStateException if no decomposition succeeded
-     */
-    double logDeterminant();
 
     /** Our hand-written kernel, sized for matrices up to {@code capacity}. */
     static CholeskySolver create(int capacity) {

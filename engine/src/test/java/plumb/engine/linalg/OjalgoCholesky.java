@@ -111,19 +111,6 @@ public final class OjalgoCholesky implements CholeskySolver {
         }
     }
 
-    @Override
-    public double logDeterminant() {
-        requireFactor();
-        if (size == 0) {
-            return 0;
-        }
-        final MatrixStore<Double> l = decomposition.getL();
-        double sum = 0;
-        for (int i = 0; i < size; i++) {
-            sum += Math.log(l.doubleValue(i, i));
-        }
-        return 2 * sum;
-    }
 
     private void requireFactor() {
         if (!factored) {
