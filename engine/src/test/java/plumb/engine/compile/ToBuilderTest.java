@@ -4,7 +4,6 @@ import org.junit.jupiter.api.Test;
 import plumb.engine.model.ModelReader;
 
 import java.lang.reflect.Field;
-import java.lang.reflect.Modifier;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
@@ -30,7 +29,7 @@ class ToBuilderTest {
         CompiledModel.Builder b = m.toBuilder();
         int checked = 0;
         for (Field f : CompiledModel.Builder.class.getDeclaredFields()) {
-            if (Modifier.isStatic(f.getModifiers())) continue;
+            if (f.isSynthetic()) continue; // the builder holds instance fields only
             Object value = f.get(b);
             Object original = CompiledModel.class.getDeclaredField(f.getName()).get(m);
             if (f.getType().isPrimitive()) assertEquals(original, value, f.getName());

@@ -40,6 +40,9 @@ public final class EventsDemo {
     }
 
     /** Opens Spark on {@code master}, writes the tables and the description, builds; Spark is closed on return. */
+    // "try": the runner is opened for the Spark context it starts, which the session below uses,
+    // and is closed at the end of the block; the body need not name it
+    @SuppressWarnings("try")
     public static BuildOutcome run(Path dir, String master, int timeoutSeconds, long seed, PrintWriter out, PrintWriter err) {
         if (Files.exists(dir) && !Files.isDirectory(dir)) {
             throw new InputException("--events " + dir + ": exists and is not a folder");
