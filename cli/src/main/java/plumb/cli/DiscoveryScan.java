@@ -5,13 +5,13 @@ import com.fasterxml.jackson.databind.node.ObjectNode;
 import plumb.cli.table.Table;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.Discovery;
+import plumb.engine.inference.DiscoveryAcrossModels;
 import plumb.engine.inference.InferenceException;
 import plumb.engine.inference.LookElsewhere;
 import plumb.engine.inference.Problem;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.Comparator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -26,9 +26,6 @@ final class DiscoveryScan {
 
     private DiscoveryScan() {
     }
-
-    /** Levels where the toys' up-crossings are counted, besides the reference level. */
-    static final double[] TOY_LEVELS = {1, 2, 3, 4};
 
     /** One mass point. */
     record Point(Path file, double x, Discovery.Significance observed) { }
@@ -66,32 +63,16 @@ final class DiscoveryScan {
             problems.add(Problem.of(m, d.data(), d.settings(), held));
             xs.add(new double[] {n.doubleValue()});
         }
-        List<Integer> order = new ArrayList<>();
-        for (int i = 0; i < problems.size(); i++) order.add(i);
-        order.sort(Comparator.comparingDouble(i -> xs.get(i)[0]));
-        List<Point> points = new ArrayList<>();
-        List<Problem> sorted = new ArrayList<>();
-        try {
-            List<Discovery.Significance> sig = plumb.engine.inference.ParallelRunner.run(order.size(), fit.threadCount(),
-                    () -> null, (w, i) -> Discovery.compute(problems.get(order.get(i))), null);
-            for (int i = 0; i < order.size(); i++) {
-                int k = order.get(i);
-                points.add(new Point(loaded.get(k).file(), xs.get(k)[0], sig.get(i)));
-                sorted.add(problems.get(k));
+        double[] x = xs.stream().mapToDouble(v -> v[0]).toArray();
+        try (Progress bar = toys == null ? Progress.start("", 0)
+                : Progress.start("toys across " + problems.size() + " models", toys)) {
+            DiscoveryAcrossModels.Result r = DiscoveryAcrossModels.compute(problems, x, reference, toys, fit.seed,
+                    fit.threadCount(), bar.callback());
+            List<Point> points = new ArrayList<>();
+            for (int i = 0; i < r.order().length; i++) {
+                points.add(new Point(loaded.get(r.order()[i]).file(), r.x()[i], r.observed().get(i)));
             }
-            double[] x = points.stream().mapToDouble(Point::x).toArray();
-            double[] q = points.stream().mapToDouble(p -> p.observed().q0()).toArray();
-            LookElsewhere.Scan scan = LookElsewhere.scan(x, q, reference);
-            LookElsewhere.Toys t = null;
-            if (toys != null) {
-                double[] levels = new double[TOY_LEVELS.length + 1];
-                levels[0] = reference;
-                System.arraycopy(TOY_LEVELS, 0, levels, 1, TOY_LEVELS.length);
-                try (Progress bar = Progress.start("toys across " + points.size() + " models", toys)) {
-                    t = LookElsewhere.toys(sorted, scan.qMax(), levels, toys, fit.seed, fit.threadCount(), bar.callback());
-                }
-            }
-            return new Result(key, points, scan, t, kind);
+            return new Result(key, points, r.scan(), r.toys(), kind);
         } catch (IllegalArgumentException e) {
             throw new InputException(e.getMessage());
         } catch (InferenceException e) {
