@@ -1,6 +1,5 @@
 package plumb.cli;
 
-import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
 import plumb.cli.table.Escape;
 import picocli.CommandLine.Mixin;
@@ -8,12 +7,8 @@ import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 import plumb.engine.compile.CompiledModel;
-import plumb.engine.model.ParameterKind;
-
-import plumb.engine.tooling.Lint;
 
 import java.io.PrintWriter;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.Callable;
 
@@ -36,11 +31,11 @@ final class CheckCommand implements Callable<Integer> {
     public Integer call() {
         ModelInput.Loaded loaded = input.load();
         CompiledModel m = loaded.compiled();
-        List<String> warnings = warnings(loaded);
+        List<String> warnings = CheckJson.warnings(loaded);
         PrintWriter out = spec.commandLine().getOut();
-        int factors = factors(m), nuisances = m.nParams() - factors - binFactors(m);
+        int factors = CheckJson.factors(m), nuisances = m.nParams() - factors - CheckJson.binFactors(m);
         if (json != null) {
-            var root = toJson(m, warnings);
+            var root = CheckJson.of(m, warnings);
             if (failure(warnings) != null) Json.failed(root, failure(warnings));
             Outputs.write(json, Json.write(root), out);
             if ("-".equals(json)) return status(warnings);
@@ -50,7 +45,7 @@ final class CheckCommand implements Callable<Integer> {
                 Numbers.count(m.nSamples(), "sample"));
         out.printf("  %s: %s, %s, %s%s%n", Numbers.count(m.nAll(), "parameter"), Numbers.count(factors, "free factor"),
                 Numbers.count(nuisances, "nuisance parameter"), Numbers.count(m.nGamma(), "MC-statistics parameter"),
-                binFactors(m) == 0 ? "" : ", " + Numbers.count(binFactors(m), "per-bin free factor"));
+                CheckJson.binFactors(m) == 0 ? "" : ", " + Numbers.count(CheckJson.binFactors(m), "per-bin free factor"));
         out.printf("  parameter of interest: %s%n", m.poi() < 0 ? "(none)" : m.parameterNames(m.poi()));
         for (int c = 0; c < m.nChannels(); c++) {
             out.printf("  channel %-20s %4d %s%s%n", m.channelNames(c), m.bins(c), m.bins(c) == 1 ? "bin" : "bins",
@@ -82,43 +77,4 @@ final class CheckCommand implements Callable<Integer> {
         return ExitCodes.FAILED;
     }
 
-    /** The compiler's warnings (one-sided and over-100 % variations), then the lint warnings. */
-    static List<String> warnings(ModelInput.Loaded loaded) {
-        List<String> all = new ArrayList<>(loaded.compiled().warnings());
-        all.addAll(Lint.warnings(loaded.model()));
-        return all;
-    }
-
-    /** The check result file of docs/cli-contract.md. */
-    static ObjectNode toJson(CompiledModel m, List<String> warningLines) {
-        int factors = factors(m);
-        ObjectNode root = Json.result(m.labels(), m.anyBlinded() ? "blinded" : "observed");
-        root.put("valid", true);
-        root.put("channels", m.nChannels());
-        root.put("bins", m.nBins());
-        root.put("samples", m.nSamples());
-        root.put("parameters", m.nAll());
-        root.put("freeFactors", factors);
-        root.put("nuisanceParameters", m.nParams() - factors - binFactors(m));
-        root.put("binFactors", binFactors(m));
-        root.put("mcStatParameters", m.nGamma());
-        root.put("poi", m.poi() < 0 ? null : m.parameterNames(m.poi()));
-        var pruned = root.putArray("pruned");
-        m.pruned().forEach(pruned::add);
-        var warnings = root.putArray("warnings");
-        warningLines.forEach(warnings::add);
-        return root;
-    }
-
-    private static int binFactors(CompiledModel m) {
-        int n = 0;
-        for (int i = 0; i < m.nParams(); i++) if (m.kind(i) == ParameterKind.BIN_FACTOR) n++;
-        return n;
-    }
-
-    private static int factors(CompiledModel m) {
-        int factors = 0;
-        for (int i = 0; i < m.nParams(); i++) if (m.kind(i) == ParameterKind.FACTOR) factors++;
-        return factors;
-    }
 }

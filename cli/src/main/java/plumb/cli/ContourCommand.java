@@ -1,7 +1,5 @@
 package plumb.cli;
 
-import com.fasterxml.jackson.databind.node.ArrayNode;
-import com.fasterxml.jackson.databind.node.ObjectNode;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Model.CommandSpec;
@@ -52,13 +50,8 @@ final class ContourCommand implements Callable<Integer> {
         Contour.Result r = compute(l, fit, p, x, y, rays);
         CompiledModel m = l.compiled();
         PrintWriter out = spec.commandLine().getOut();
-        int failed = r.regions().stream().mapToInt(Contour.Region::failed).sum();
-        String failure = failed == 0 ? null : failed + " contour points could not be found: their refits did not converge";
-        if (json != null) {
-            var root = toJson(m, p.kind(), r);
-            if (failure != null) Json.failed(root, failure);
-            Outputs.write(json, Json.write(root), out);
-        }
+        String failure = ContourJson.failure(r);
+        if (json != null) Outputs.write(json, Json.write(ContourJson.of(m, p.kind(), r)), out);
         if (!"-".equals(json)) print(out, l, r);
         if (figureDir != null) WhatIf.writeFigure(figureDir, "contour", ContourFigure.of(r), out);
         out.flush();
@@ -115,32 +108,4 @@ final class ContourCommand implements Callable<Integer> {
         out.printf(Locale.ROOT, "  %d rays, %d fits, %s s%n", r.rays(), r.fits(), Numbers.fixed(r.seconds(), 2));
     }
 
-    /** The contour file of docs/cli-contract.md. */
-    static ObjectNode toJson(CompiledModel m, String data, Contour.Result r) {
-        ObjectNode root = Json.result(m.labels(), data);
-        root.put("x", r.xName());
-        root.put("y", r.yName());
-        ObjectNode best = root.putObject("best");
-        Json.put(best, "x", r.xBest());
-        Json.put(best, "y", r.yBest());
-        Json.put(best, "xError", r.xError());
-        Json.put(best, "yError", r.yError());
-        Json.put(best, "correlation", r.correlation());
-        Json.put(best, "nll", r.nllMin());
-        root.put("rays", r.rays());
-        root.put("fits", r.fits());
-        root.put("seconds", r.seconds());
-        ArrayNode regions = root.putArray("regions");
-        for (Contour.Region g : r.regions()) {
-            ObjectNode o = regions.addObject();
-            o.put("cl", g.cl());
-            o.put("level", g.level());
-            Json.array(o, "x", g.x());
-            Json.array(o, "y", g.y());
-            ArrayNode open = o.putArray("open");
-            for (boolean b : g.open()) open.add(b);
-            o.put("failed", g.failed());
-        }
-        return root;
-    }
 }

@@ -77,10 +77,10 @@ final class DiscoveryCommand implements Callable<Integer> {
         files.addAll(more);
         DiscoveryScan.Result r = DiscoveryScan.compute(files, fit, label, reference, toys);
         PrintWriter out = spec.commandLine().getOut();
-        if (json != null) Outputs.write(json, Json.write(DiscoveryScan.toJson(r)), out);
+        if (json != null) Outputs.write(json, Json.write(DiscoveryScanJson.of(r)), out);
         if (!"-".equals(json)) {
-            out.print(plumb.cli.table.TableFormat.TEXT.render(DiscoveryScan.table(r)));
-            out.print(DiscoveryScan.summary(r));
+            out.print(plumb.cli.table.TableFormat.TEXT.render(DiscoveryScanJson.table(r)));
+            out.print(DiscoveryScanJson.summary(r));
         }
         if (figureDir != null) {
             WhatIf.writeFigure(figureDir, "local-p", plumb.cli.plot.LookElsewhereFigure.of(r.scan(), r.key(),

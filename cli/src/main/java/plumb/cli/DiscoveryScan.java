@@ -1,8 +1,5 @@
 package plumb.cli;
 
-import com.fasterxml.jackson.databind.node.ArrayNode;
-import com.fasterxml.jackson.databind.node.ObjectNode;
-import plumb.cli.table.Table;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.Discovery;
 import plumb.engine.inference.DiscoveryAcrossModels;
@@ -33,20 +30,45 @@ final class DiscoveryScan {
     /** The scan, its Gross–Vitells estimate and the toys (null without). */
     record Result(String key, List<Point> points, LookElsewhere.Scan scan, LookElsewhere.Toys toys, String dataKind) { }
 
+    /** The models of a scan: their files, problems on observed data and positions, in the order given. */
+    record Hypotheses(String key, List<Path> files, List<Problem> problems, double[] x, String dataKind) { }
+
     /**
+     * The scan as {@code plumb discovery A B …} runs it, with a progress bar for the toys.
+     *
      * @throws InputException for models without the label or a POI, blinded models, bad options
      * @throws ComputationException when a fit fails
      */
     static Result compute(List<Path> files, FitOptions fit, String label, double reference, Integer toys) {
         if (!(reference > 0)) throw new InputException("--reference must be positive, got " + reference);
         if (toys != null && toys < 1) throw new InputException("--toys must be at least 1, got " + toys);
+        Hypotheses h = load(files, fit, label, toys);
+        try (Progress bar = toys == null ? Progress.start("", 0)
+                : Progress.start("toys across " + h.problems().size() + " models", toys)) {
+            return of(h, DiscoveryAcrossModels.compute(h.problems(), h.x(), reference, toys, fit.seed, fit.threadCount(),
+                    bar.callback()));
+        } catch (IllegalArgumentException e) {
+            throw new InputException(e.getMessage());
+        } catch (InferenceException e) {
+            throw new ComputationException(e.getMessage());
+        }
+    }
+
+    /**
+     * Loads the models and builds their problems: each on its observed data, at the value of its label.
+     *
+     * @param toys the toy count, checked against the heap; null without toys
+     * @throws InputException for models without the label or a POI, blinded models
+     */
+    static Hypotheses load(List<Path> files, FitOptions fit, String label, Integer toys) {
         List<Path> all = ModelLabels.modelFiles(files);
         List<ModelInput.Loaded> loaded = new ArrayList<>();
         for (Path f : all) loaded.add(ModelInput.load(f));
         if (toys != null) for (ModelInput.Loaded l : loaded) FitOptions.requireCount("--toys", toys, l.compiled());
         String key = label != null ? label : commonNumericLabel(loaded);
         List<Problem> problems = new ArrayList<>();
-        List<double[]> xs = new ArrayList<>();
+        List<Path> paths = new ArrayList<>();
+        double[] x = new double[loaded.size()];
         String kind = null;
         for (ModelInput.Loaded l : loaded) {
             CompiledModel m = l.compiled();
@@ -60,24 +82,20 @@ final class DiscoveryScan {
             kind = d.kind();
             Map<String, Double> held = new LinkedHashMap<>();
             for (int k = 0; k < d.held().length; k++) held.put(m.parameterNames(d.held()[k]), d.heldValues()[k]);
+            x[problems.size()] = n.doubleValue();
             problems.add(Problem.of(m, d.data(), d.settings(), held));
-            xs.add(new double[] {n.doubleValue()});
+            paths.add(l.file());
         }
-        double[] x = xs.stream().mapToDouble(v -> v[0]).toArray();
-        try (Progress bar = toys == null ? Progress.start("", 0)
-                : Progress.start("toys across " + problems.size() + " models", toys)) {
-            DiscoveryAcrossModels.Result r = DiscoveryAcrossModels.compute(problems, x, reference, toys, fit.seed,
-                    fit.threadCount(), bar.callback());
-            List<Point> points = new ArrayList<>();
-            for (int i = 0; i < r.order().length; i++) {
-                points.add(new Point(loaded.get(r.order()[i]).file(), r.x()[i], r.observed().get(i)));
-            }
-            return new Result(key, points, r.scan(), r.toys(), kind);
-        } catch (IllegalArgumentException e) {
-            throw new InputException(e.getMessage());
-        } catch (InferenceException e) {
-            throw new ComputationException(e.getMessage());
+        return new Hypotheses(key, List.copyOf(paths), List.copyOf(problems), x, kind);
+    }
+
+    /** The engine's scan with each point's model file. */
+    static Result of(Hypotheses h, DiscoveryAcrossModels.Result r) {
+        List<Point> points = new ArrayList<>();
+        for (int i = 0; i < r.order().length; i++) {
+            points.add(new Point(h.files().get(r.order()[i]), r.x()[i], r.observed().get(i)));
         }
+        return new Result(h.key(), points, r.scan(), r.toys(), h.dataKind());
     }
 
     private static String commonNumericLabel(List<ModelInput.Loaded> loaded) {
@@ -89,81 +107,4 @@ final class DiscoveryScan {
         throw new InputException("--label: the models share no numeric label to order the scan by; name one with --label");
     }
 
-    /** The local results, one row per model. */
-    static Table table(Result r) {
-        Table.Builder b = Table.builder("Local discovery tests across " + r.key(), r.key(), "best fit", "q0", "local Z",
-                "local p", "model");
-        for (Point p : r.points()) {
-            b.row(Numbers.plain(p.x()), Table.number(p.observed().muHat(), 4), Table.number(p.observed().q0(), 4),
-                    Numbers.fixed(p.observed().z(), 3), Table.number(p.observed().p(), 3), p.file().getFileName().toString());
-        }
-        return b.build();
-    }
-
-    /** The lines under the table: the global result. */
-    static String summary(Result r) {
-        LookElsewhere.Scan s = r.scan();
-        StringBuilder b = new StringBuilder();
-        b.append(String.format(Locale.ROOT, "largest excess at %s = %s: q0 = %s, local Z = %s sigma, local p = %s%n",
-                r.key(), Numbers.plain(s.x()[s.best()]), Table.number(s.qMax(), 4), Numbers.fixed(s.zLocal(), 3),
-                Table.number(s.pLocalMax(), 3)));
-        b.append(String.format(Locale.ROOT, "global (Gross-Vitells up-crossings): reference level q0 = %s crossed upwards "
-                        + "%d times; global p = %s, global Z = %s sigma, trials factor %s%n",
-                Numbers.plain(s.reference()), s.upcrossings(), Table.number(s.pGlobal(), 3), Numbers.fixed(s.zGlobal(), 3),
-                Table.number(s.trials(), 3)));
-        LookElsewhere.Toys t = r.toys();
-        if (t != null) {
-            b.append(String.format(Locale.ROOT, "global from %d background-only toys (seed %d): p = %s ± %s, Z = %s sigma "
-                            + "(%d toys with a larger largest q0; %d failed); mean up-crossings of the reference level %s ± %s%n",
-                    t.global().toys(), t.seed(), Table.number(t.global().p(), 3), Table.number(t.global().error(), 2),
-                    Numbers.fixed(t.zGlobal(), 3), t.global().exceeding(), t.global().failed(),
-                    Table.number(t.meanCrossings()[0], 3), Table.number(t.crossingErrors()[0], 2)));
-        }
-        return b.toString();
-    }
-
-    /** The scan file of docs/cli-contract.md. */
-    static ObjectNode toJson(Result r) {
-        ObjectNode root = Json.result(Map.of(), r.dataKind());
-        root.put("label", r.key());
-        root.put("statistic", "q0");
-        ArrayNode points = root.putArray("points");
-        for (Point p : r.points()) {
-            ObjectNode o = points.addObject();
-            o.put("model", p.file().toString());
-            Json.put(o, "x", p.x());
-            Json.put(o, "q0", p.observed().q0());
-            Json.put(o, "z", p.observed().z());
-            Json.put(o, "p", p.observed().p());
-            Json.put(o, "muHat", p.observed().muHat());
-        }
-        LookElsewhere.Scan s = r.scan();
-        ObjectNode g = root.putObject("global");
-        Json.put(g, "x", s.x()[s.best()]);
-        Json.put(g, "q0", s.qMax());
-        Json.put(g, "localZ", s.zLocal());
-        Json.put(g, "localP", s.pLocalMax());
-        g.put("reference", s.reference());
-        g.put("upcrossings", s.upcrossings());
-        Json.put(g, "p", s.pGlobal());
-        Json.put(g, "z", s.zGlobal());
-        Json.put(g, "trials", s.trials());
-        LookElsewhere.Toys t = r.toys();
-        if (t == null) {
-            root.putNull("toys");
-        } else {
-            ObjectNode o = root.putObject("toys");
-            o.put("toys", t.global().toys());
-            o.put("failed", t.global().failed());
-            o.put("exceeding", t.global().exceeding());
-            Json.put(o, "p", t.global().p());
-            Json.put(o, "pError", t.global().error());
-            Json.put(o, "z", t.zGlobal());
-            o.put("seed", t.seed());
-            Json.array(o, "levels", t.levels());
-            Json.array(o, "meanUpcrossings", t.meanCrossings());
-            Json.array(o, "upcrossingErrors", t.crossingErrors());
-        }
-        return root;
-    }
 }

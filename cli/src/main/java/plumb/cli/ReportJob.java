@@ -10,7 +10,9 @@ import plumb.cli.report.Results;
 import plumb.cli.report.RunSummary;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.AsimovClosure;
+import plumb.engine.inference.Contour;
 import plumb.engine.inference.Discovery;
+import plumb.engine.inference.DiscoveryAcrossModels;
 import plumb.engine.inference.FitResult;
 import plumb.engine.inference.GoodnessOfFit;
 import plumb.engine.inference.Impacts;
@@ -22,6 +24,8 @@ import plumb.engine.inference.InjectionSummary;
 import plumb.engine.inference.InjectionToyBatch;
 import plumb.engine.inference.InjectionToys;
 import plumb.engine.inference.ProfileScan;
+import plumb.engine.inference.Projection;
+import plumb.engine.inference.Sensitivity;
 import plumb.engine.inference.WorkRunner;
 import plumb.engine.inference.Yields;
 
@@ -141,8 +145,8 @@ final class ReportJob {
         FitOptions.Prepared p = fit.prepare(m, 1.0);
         boolean hasPoi = m.poi() >= 0;
 
-        List<String> checkWarnings = CheckCommand.warnings(main);
-        attach("check", CheckCommand.toJson(m, checkWarnings));   // a summary of the model: no computation
+        List<String> checkWarnings = CheckJson.warnings(main);
+        attach("check", CheckJson.of(m, checkWarnings));   // a summary of the model: no computation
         warnings.addAll(checkWarnings);
 
         Fitter fitter = new Fitter(p.problem());
@@ -315,10 +319,13 @@ final class ReportJob {
         }
         CompiledModel m = main.compiled();
         List<Results.PlanningPart> parts = new ArrayList<>();
-        var sens = section("planning", () -> SensitivityCommand.compute(main, fit, new double[] {0.5}, 0, 0.95));
+        int threads = fit.threadCount();
+        // plumb sensitivity MODEL: removal and a width halved, fast path only, 95 % CL
+        var sens = section("planning", () -> Sensitivity.compute(Sensitivity.request(WhatIf.problem(m, fit),
+                WhatIf.postfit(fit), 0.95, new double[] {0.5}, 0, threads), null));
         if (sens != null) {
-            attach("sensitivity", SensitivityCommand.toJson(m, sens));
-            List<plumb.cli.table.Table> tables = SensitivityCommand.tables(sens, 15);
+            attach("sensitivity", SensitivityJson.of(m, sens));
+            List<plumb.cli.table.Table> tables = SensitivityJson.tables(sens, 15);
             parts.add(new Results.PlanningPart("Which uncertainty limits the search", String.format(Locale.ROOT,
                     "Expected %s limit on %s as it is: %s; expected significance %s σ. Each row: the nuisance parameter "
                             + "removed, or its pre-fit width halved (fast path from the Asimov Fisher information).",
@@ -328,19 +335,22 @@ final class ReportJob {
                     "Improvement of the expected limit with each uncertainty removed or halved."));
             parts.add(new Results.PlanningPart("Groups", null, tables.get(1), "sensitivity_groups", null, null));
         }
-        var proj = section("planning", () -> ProjectCommand.compute(main, fit, new double[] {1, 2, 5, 10}, 0.95));
+        // plumb project MODEL --lumi 1,2,5,10
+        var proj = section("planning", () -> Projection.compute(WhatIf.problem(m, fit), WhatIf.postfit(fit), 0.95,
+                new double[] {1, 2, 5, 10}, threads, null));
         if (proj != null) {
-            attach("project", ProjectCommand.toJson(m, proj));
-            parts.add(new Results.PlanningPart("Reach with more data", null, ProjectCommand.table(proj), "projection",
+            attach("project", ProjectionJson.of(m, proj));
+            parts.add(new Results.PlanningPart("Reach with more data", null, ProjectionJson.table(proj), "projection",
                     () -> plumb.cli.plot.ProjectionFigure.of(proj),
                     "Expected limit and significance against the luminosity factor, three scenarios."));
         }
         int partner = mostCorrelated(m, best);
         if (partner >= 0 && best.converged()) {
-            var c = section("planning", () -> ContourCommand.compute(main, fit, p, m.parameterNames(m.poi()),
-                    m.parameterNames(partner), CONTOUR_RAYS));
+            // plumb contour MODEL --x POI --y PARTNER --rays 32
+            var c = section("planning", () -> Contour.compute(p.problem(), m.parameterNames(m.poi()),
+                    m.parameterNames(partner), Contour.DEFAULT_CLS, CONTOUR_RAYS, threads, null));
             if (c != null) {
-                attach("contour", ContourCommand.toJson(m, p.kind(), c));
+                attach("contour", ContourJson.of(m, p.kind(), c));
                 parts.add(new Results.PlanningPart("Two-parameter regions", String.format(Locale.ROOT,
                         "%s against %s, the parameter most correlated with it (ρ = %s).", m.parameterNames(m.poi()),
                         m.parameterNames(partner), Numbers.fixed(c.correlation(), 2)), null, "contour",
@@ -348,11 +358,20 @@ final class ReportJob {
             }
         }
         if (files.size() > 1) {
-            var scan = section("planning", () -> DiscoveryScan.compute(files, fit, label, 0.5, null));
+            // plumb discovery A B … --reference 0.5, without toys
+            var scan = section("planning", () -> {
+                DiscoveryScan.Hypotheses h = DiscoveryScan.load(files, fit, label, null);
+                try {
+                    return DiscoveryScan.of(h, DiscoveryAcrossModels.compute(h.problems(), h.x(), 0.5, null, fit.seed,
+                            threads, null));
+                } catch (IllegalArgumentException e) {
+                    throw new InputException(e.getMessage());   // models that cannot form one scan: bad input
+                }
+            });
             if (scan != null) {
-                attach("discovery-scan", DiscoveryScan.toJson(scan));
-                parts.add(new Results.PlanningPart("Local p-value across " + scan.key(), DiscoveryScan.summary(scan),
-                        DiscoveryScan.table(scan), "local_p",
+                attach("discovery-scan", DiscoveryScanJson.of(scan));
+                parts.add(new Results.PlanningPart("Local p-value across " + scan.key(), DiscoveryScanJson.summary(scan),
+                        DiscoveryScanJson.table(scan), "local_p",
                         () -> plumb.cli.plot.LookElsewhereFigure.of(scan.scan(), scan.key(), Double.NaN),
                         "Local discovery p-value; the global significance of the largest excess by up-crossings."));
             }

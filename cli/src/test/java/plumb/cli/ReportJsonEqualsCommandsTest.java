@@ -44,22 +44,8 @@ class ReportJsonEqualsCommandsTest {
      */
     @BeforeAll
     static void writeReport() throws IOException {
-        Variation lumi = new Variation("lumi", new Variation.NormEffect(0.97, 1.03), null, null, null);
-        Sample sig = new Sample("signal", new double[] {6, 12, 5}, null, List.of("mu"), List.of(lumi,
-                new Variation("sig_shape", null, new Variation.ShapeEffect(new double[] {5.5, 12.6, 5.2}, new double[] {6.4, 11.5, 4.9}), null, null)));
-        Sample bkg = new Sample("background", new double[] {40, 35, 30}, new double[] {2, 2, 1.5}, List.of(), List.of(lumi,
-                new Variation("bkg_norm", new Variation.NormEffect(0.9, 1.1), null, null, null),
-                new Variation("bkg_shape", null, new Variation.ShapeEffect(new double[] {42, 35, 28}, new double[] {38, 35, 32}), null, null)));
-        Sample side = new Sample("background", new double[] {80, 70}, null, List.of(), List.of(
-                new Variation("bkg_norm", new Variation.NormEffect(0.9, 1.1), null, null, null)));
-        Channel sr = new Channel("sr", "m [GeV]", new double[] {700, 730, 770, 800}, new double[] {49, 51, 34},
-                List.of(sig, bkg));
-        Channel cr = new Channel("cr", "m [GeV]", new double[] {500, 600, 700}, new double[] {83, 66}, List.of(side));
-        Model m = new Model(Model.FORMAT, "equal-json", null, "mu", List.of(sr, cr),
-                List.of(new ParameterSpec("mu", null, new double[] {0, 10}, null, null, false)),
-                Map.of(), Map.of("mass", 750.0), null);
-        model = dir.resolve("model.json");
-        ModelWriter.write(m, model);
+        model = writeModel("model.json", 750.0, new double[] {6, 12, 5}, new double[] {5.5, 12.6, 5.2},
+                new double[] {6.4, 11.5, 4.9});
         report = dir.resolve("report");
         // What `plumb report MODEL --out DIR --toys 6 ...` runs, kept in memory for the figure check.
         ReportCommand command = new ReportCommand();
@@ -72,6 +58,58 @@ class ReportJsonEqualsCommandsTest {
     }
 
     static plumb.cli.report.ReportInput assembled;
+
+    /**
+     * The model of the report: {@code mass} is its label, {@code signal} the signal counts of the
+     * signal region's three bins, {@code up}/{@code down} those of the signal's shape variation.
+     */
+    private static Path writeModel(String file, double mass, double[] signal, double[] up, double[] down) throws IOException {
+        Variation lumi = new Variation("lumi", new Variation.NormEffect(0.97, 1.03), null, null, null);
+        Sample sig = new Sample("signal", signal, null, List.of("mu"), List.of(lumi,
+                new Variation("sig_shape", null, new Variation.ShapeEffect(up, down), null, null)));
+        Sample bkg = new Sample("background", new double[] {40, 35, 30}, new double[] {2, 2, 1.5}, List.of(), List.of(lumi,
+                new Variation("bkg_norm", new Variation.NormEffect(0.9, 1.1), null, null, null),
+                new Variation("bkg_shape", null, new Variation.ShapeEffect(new double[] {42, 35, 28}, new double[] {38, 35, 32}), null, null)));
+        Sample side = new Sample("background", new double[] {80, 70}, null, List.of(), List.of(
+                new Variation("bkg_norm", new Variation.NormEffect(0.9, 1.1), null, null, null)));
+        Channel sr = new Channel("sr", "m [GeV]", new double[] {700, 730, 770, 800}, new double[] {49, 51, 34},
+                List.of(sig, bkg));
+        Channel cr = new Channel("cr", "m [GeV]", new double[] {500, 600, 700}, new double[] {83, 66}, List.of(side));
+        Model m = new Model(Model.FORMAT, "equal-json", null, "mu", List.of(sr, cr),
+                List.of(new ParameterSpec("mu", null, new double[] {0, 10}, null, null, false)),
+                Map.of(), Map.of("mass", mass), null);
+        Path p = dir.resolve(file);
+        ModelWriter.write(m, p);
+        return p;
+    }
+
+    /**
+     * A report over three models of one spectrum (signal hypotheses at three masses) carries the
+     * scan across them; it equals {@code plumb discovery A B C --json} with the report's reference level.
+     */
+    @Test
+    void theScanAcrossModelsEqualsTheDiscoveryCommand() throws IOException {
+        Path low = writeModel("low.json", 720.0, new double[] {12, 6, 1}, new double[] {11, 6.3, 1},
+                new double[] {12.8, 5.7, 1});
+        Path high = writeModel("high.json", 790.0, new double[] {1, 5, 12}, new double[] {1, 5.2, 12.6},
+                new double[] {1, 4.8, 11.5});
+        Path out = dir.resolve("report-scan");
+        ReportCommand command = new ReportCommand();
+        new picocli.CommandLine(command).parseArgs(model.toString(), "--out", out.toString(), "--threads", "2", "--seed", "5");
+        // the main model first, as the report reads it; the scan orders the models by their mass
+        ReportJob job = new ReportJob(List.of(model, high, low), command.fit, command.toys, command.impactsTop, command.label);
+        plumb.cli.report.ReportInput in = job.assemble();
+        assertTrue(in.summary().failures().isEmpty(), in.summary().failures().toString());
+        plumb.cli.report.ReportWriter.write(in, out);
+        JsonNode fromReport = CommandLineTestSupport.readJson(out.resolve("json/discovery-scan.json"));
+        assertEquals(3, fromReport.get("points").size());
+        assertEquals(720.0, fromReport.get("points").get(0).get("x").asDouble());
+        assertEquals(790.0, fromReport.get("points").get(2).get("x").asDouble());
+        CommandLineTestSupport.Run r = CommandLineTestSupport.run("discovery", model.toString(), high.toString(),
+                low.toString(), "--reference", "0.5", "--threads", "2", "--seed", "5", "--json", "-");
+        assertTrue(r.status() == ExitCodes.OK, r.err());
+        assertEquals(masked(r.json()), masked(fromReport), "discovery-scan.json of the report differs from plumb discovery");
+    }
 
     /**
      * The report's injection figure draws the straight line of the injection result file: the line
