@@ -62,7 +62,7 @@ final class ContourCommand implements Callable<Integer> {
      * @throws InputException for unknown or held parameters and bad options
      * @throws ComputationException when the best fit fails
      */
-    static Contour.Result compute(ModelInput.Loaded l, FitOptions fit, FitOptions.Prepared p, String x, String y, int rays) {
+    private static Contour.Result compute(ModelInput.Loaded l, FitOptions fit, FitOptions.Prepared p, String x, String y, int rays) {
         if (rays < 8) throw new InputException("--rays must be at least 8, got " + rays);
         CompiledModel m = l.compiled();
         FitOptions.requireCount("--rays", rays, m);
@@ -70,11 +70,8 @@ final class ContourCommand implements Callable<Integer> {
             if (m.indexOf(name) < 0) throw new InputException(String.format(Locale.ROOT, "--%s %s: the model has no parameter '%s'",
                     name.equals(x) ? "x" : "y", name, name));
         }
-        java.util.Map<String, Double> held = new java.util.LinkedHashMap<>();
-        for (int k = 0; k < p.held().length; k++) held.put(m.parameterNames(p.held()[k]), p.heldValues()[k]);
         try {
-            return Contour.compute(plumb.engine.inference.Problem.of(m, p.data(), p.settings(), held), x, y,
-                    Contour.DEFAULT_CLS, rays, fit.threadCount(), null);
+            return Contour.compute(p.problem(), x, y, Contour.DEFAULT_CLS, rays, fit.threadCount(), null);
         } catch (IllegalArgumentException e) {
             throw new InputException("--x/--y: " + e.getMessage());
         } catch (InferenceException e) {
