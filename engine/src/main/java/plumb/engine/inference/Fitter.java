@@ -384,11 +384,18 @@ public final class Fitter {
         return false;
     }
 
+    /** The covariance of r, from the minimiser's last factor when it is r's (one factorisation fewer). */
+    private double[] covariance(MinimumResult r) {
+        double[] cov = minimiser.covariance(r);
+        if (cov == null && restarting != null) cov = restarting.covariance(r);
+        return cov != null ? cov : r.covariance();
+    }
+
     private FitResult toResult(MinimumResult r, boolean[] held, long nanos, List<FitResult.OtherMinimum> others) {
         final int nP = m.nParams();
         double[] values = new double[m.nAll()];
         nll.allValues(r.x(), values);
-        double[] cov = computeErrors ? r.covariance() : null;
+        double[] cov = computeErrors ? covariance(r) : null;
         MinimumStatus status = r.status();
         double[] errors = new double[m.nAll()];
         double[] covTheta = null;

@@ -61,7 +61,7 @@ public final class BoundedNewton extends BoxMinimiser {
             final boolean newtonDefinite = k == 0 || system.factor(h, 0);
             decrement = k == 0 ? 0 : newtonDefinite ? system.solve(g) : Double.NaN;
             if (newtonDefinite && decrement < options.tolerance()) {
-                return finish();
+                return finishFactored(true);
             }
             if (iterations >= iterationLimit) {
                 return MinimumStatus.MAX_ITERATIONS;

@@ -23,6 +23,11 @@ abstract class BoxMinimiser implements Minimiser {
     Box box;
     int evaluations;
     int iterations;
+    /** Whether the current attempt ended with the not-held Hessian at x factored in the system. */
+    private boolean covarianceFactored;
+    /** The last result returned and whether {@link #covarianceFactored} held for it. */
+    private MinimumResult lastResult;
+    private boolean lastFactored;
 
     BoxMinimiser(int dimension, MinimiserOptions options) {
         if (dimension < 0) {
@@ -64,27 +69,37 @@ abstract class BoxMinimiser implements Minimiser {
         decrement = Double.NaN;
         java.util.Arrays.fill(g, Double.NaN);
         java.util.Arrays.fill(h, Double.NaN);
+        lastResult = null;
         try {
+            covarianceFactored = false;
             MinimumStatus status = attempt();
             if (status == MinimumStatus.CONVERGED || status == MinimumStatus.MAX_EVALUATIONS
                     || !options.restart()) {
-                return result(status);
+                return returned(result(status));
             }
             final MinimumResult first = result(status);
             // Restart once from a deterministic nearby point: the best point so far (or the start)
             // moved a little, which gets out of a stalled line search or a saddle.
             box.perturb(first.x(), x);
             f = Double.NaN;
+            covarianceFactored = false;
             status = attempt();
             final MinimumResult second = result(status);
             if (second.converged() || !(first.value() <= second.value())) {
-                return second;
+                return returned(second);
             }
-            return new MinimumResult(first.status(), first.x(), first.value(), first.gradient(),
-                    first.hessian(), first.fixed(), first.decrement(), iterations, evaluations);
+            covarianceFactored = false;
+            return returned(new MinimumResult(first.status(), first.x(), first.value(), first.gradient(),
+                    first.hessian(), first.fixed(), first.decrement(), iterations, evaluations));
         } finally {
             this.objective = null;
         }
+    }
+
+    private MinimumResult returned(MinimumResult r) {
+        lastResult = r;
+        lastFactored = covarianceFactored && r.status() == MinimumStatus.CONVERGED;
+        return r;
     }
 
     /**
@@ -122,17 +137,59 @@ abstract class BoxMinimiser implements Minimiser {
         final int k = system.selectFree(box, x, g);
         final boolean definite = k == 0 || system.factor(h, 0);
         decrement = k == 0 ? 0 : definite ? system.solve(g) : Double.NaN;
+        return finishFactored(definite);
+    }
+
+    /**
+     * {@link #finish()} when the system already holds the free set selected at x, factored from h
+     * without damping ({@code definite} whether that succeeded), and {@link #decrement} its
+     * decrement: the caller's stopping test just did that work.
+     */
+    MinimumStatus finishFactored(boolean definite) {
+        final int k = system.size;
         int notHeld = 0;
         for (int i = 0; i < n; i++) if (!box.held[i]) notHeld++;
         if (notHeld == k && definite) {
             // No variable sits on a bound: the set just factored is the covariance's set (saves
             // one n³/3 factorisation per fit, which adds up over thousands of refits).
-            return MinimumStatus.CONVERGED;
+            return notHeldFactored();
         }
         if (system.selectNotHeld(box) > 0 && !system.factor(h, 0)) {
             return MinimumStatus.NOT_POSITIVE_DEFINITE_AT_MINIMUM;
         }
+        return notHeldFactored();
+    }
+
+    /** Records that the system holds the factor of the not-held Hessian at x; the fit converged. */
+    private MinimumStatus notHeldFactored() {
+        covarianceFactored = hessianAtX();
         return MinimumStatus.CONVERGED;
+    }
+
+    /**
+     * The covariance of {@code r} (as {@link MinimumResult#covariance()}, the same numbers) from the
+     * factor the convergence check left behind, saving a factorisation of the same matrix; null
+     * when r is not the last result of this minimiser or that factor is gone.
+     */
+    @Override
+    public double[] covariance(MinimumResult r) {
+        if (lastResult == null || r.x() != lastResult.x() || !lastFactored) {
+            return null;
+        }
+        final int k = system.size;
+        final double[] covariance = new double[n * n];
+        if (k == 0) {
+            return covariance;
+        }
+        final double[] inverse = new double[k * k];
+        system.invert(inverse);
+        for (int a = 0; a < k; a++) {
+            final int row = system.index[a] * n;
+            for (int b = 0; b < k; b++) {
+                covariance[row + system.index[b]] = inverse[a * k + b];
+            }
+        }
+        return covariance;
     }
 
     /** Whether {@link #h} holds the Hessian at the current x (a quasi-Newton x may be ahead). */

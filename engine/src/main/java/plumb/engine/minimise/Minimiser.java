@@ -23,7 +23,15 @@ public interface Minimiser {
     MinimumResult minimise(Objective objective, double[] start, double[] lower, double[] upper,
             boolean[] fixed);
 
-    /** {@link #minimise(Objective, double[], double[], double[], boolean[])} with nothing fixed. */
+    /**
+     * The covariance of {@code r} ({@link MinimumResult#covariance()}, the same numbers) when this
+     * minimiser can give it from work it already did, else null. Only for the last result it returned.
+     */
+    default double[] covariance(MinimumResult r) {
+        return null;
+    }
+
+        /** {@link #minimise(Objective, double[], double[], double[], boolean[])} with nothing fixed. */
     default MinimumResult minimise(Objective objective, double[] start, double[] lower, double[] upper) {
         return minimise(objective, start, lower, upper, null);
     }

@@ -342,6 +342,39 @@ class BoundedNewtonTest {
     }
 
     /** Three bins, signal plus two background components each with a 10 % / 20 % constraint. */
+    @Test
+    void givesTheCovarianceFromItsLastFactorWithTheSameNumbers() {
+        // The factor the convergence test leaves is that of the Hessian over the not-held
+        // variables at the minimum, so its inverse must equal MinimumResult.covariance() bit for bit.
+        BoundedNewton newton = new BoundedNewton(3);
+        PoissonToy toy = threeBinToy();
+        MinimumResult r = newton.minimise(toy, new double[] {1, 0, 0}, filled(3, -5), filled(3, 5));
+        assertTrue(r.converged(), r.status().toString());
+        assertArrayEquals(r.covariance(), newton.covariance(r));
+        // A held variable: zero row and column, as in MinimumResult.covariance().
+        MinimumResult held = newton.minimise(toy, new double[] {1, 0.3, 0}, filled(3, -5), filled(3, 5),
+                new boolean[] {false, true, false});
+        assertTrue(held.converged(), held.status().toString());
+        assertEquals(0.0, held.covariance()[4]);
+        assertArrayEquals(held.covariance(), newton.covariance(held));
+        // Only for the last result: the factor of the earlier fit is gone.
+        assertNull(newton.covariance(r));
+    }
+
+    @Test
+    void givesTheCovarianceAlsoWhenTheMinimumLiesOnABound() {
+        // More background than data: the signal strength ends on its lower bound 0 and leaves the
+        // free set, so the check factors the not-held set once more; that factor gives the covariance.
+        PoissonToy toy = new PoissonToy(new double[] {20, 25, 18}, new double[] {6, 14, 5},
+                new double[][] {{30, 40, 25}, {10, 20, 12}}, new double[] {0.1, 0.2});
+        BoundedNewton newton = new BoundedNewton(3);
+        MinimumResult r = newton.minimise(toy, new double[] {1, 0, 0}, new double[] {0, -5, -5}, filled(3, 5));
+        assertTrue(r.converged(), r.status().toString());
+        assertEquals(0.0, r.x()[0]);
+        assertTrue(r.covariance()[0] > 0);
+        assertArrayEquals(r.covariance(), newton.covariance(r));
+    }
+
     static PoissonToy threeBinToy() {
         return new PoissonToy(new double[] {52, 81, 40}, new double[] {6, 14, 5},
                 new double[][] {{30, 40, 25}, {10, 20, 12}}, new double[] {0.1, 0.2});
