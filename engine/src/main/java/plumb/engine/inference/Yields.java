@@ -3,6 +3,7 @@ package plumb.engine.inference;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.likelihood.BinnedNll;
 import plumb.engine.likelihood.DataSet;
+import plumb.engine.linalg.QuadraticForms;
 
 import java.util.ArrayList;
 import java.util.List;
@@ -226,14 +227,7 @@ public final class Yields {
             double[] sc = new double[L * L];
             for (int i = 0; i < L; i++) for (int j = 0; j < L; j++) sc[i * L + j] = cov[local[i] * nP + local[j]];
             double[][] sr = new double[ns][L];
-            for (int k = 0; k < ns; k++) {
-                double[] r = direction[k];
-                for (int i = 0; i < L; i++) {
-                    double acc = 0;
-                    for (int j = 0; j < L; j++) acc += sc[i * L + j] * r[j];
-                    sr[k][i] = acc;
-                }
-            }
+            for (int k = 0; k < ns; k++) QuadraticForms.times(sc, L, direction[k], sr[k]);
             g = new double[K * K];
             for (int a = 0; a < ns; a++) {
                 for (int b = 0; b < ns; b++) {
@@ -281,13 +275,9 @@ public final class Yields {
                     for (int j = 0; j < sb.length; j++) e[sb[j]] += f * sh[j * nb + b];
                 }
                 double[] ub = new double[K];
+                QuadraticForms.times(g, K, e, ub);
                 double quad = 0;
-                for (int a = 0; a < K; a++) {
-                    double acc = 0;
-                    for (int bb = 0; bb < K; bb++) acc += g[a * K + bb] * e[bb];
-                    ub[a] = acc;
-                    quad += e[a] * acc;
-                }
+                for (int a = 0; a < K; a++) quad += e[a] * ub[a];
                 eta[b] = e;
                 u[b] = ub;
                 etaGEta[b] = quad;
@@ -314,33 +304,43 @@ public final class Yields {
                 for (int a = 0; a < n; a++) for (int b = 0; b < n; b++) gs[a * n + b] = g[index[a] * K + index[b]];
             }
             double[] values = new double[nb], errors = new double[nb];
-            double[] c = new double[n];
-            double[] zSum = new double[K];
-            double gammaSum = 0, sum = 0;
+            // each bin's coefficients c (row b), its γ derivative v_γ, then all cᵀGc at once
+            double[] cs = new double[nb * n];
+            double[] vgs = new double[nb];
+            double sum = 0;
             for (int b = 0; b < nb; b++) {
-                java.util.Arrays.fill(c, 0);
+                int at = b * n;
                 double y = 0, vg = 0;
                 for (int k : pos) {
                     double gf = gammaFactor[k][b];
                     y += nu[m.sampleEntryStart(samples[k]) + b];
-                    c[slot[k]] += gf * along[k][b];
+                    cs[at + slot[k]] += gf * along[k][b];
                     double[] sh = shape[k];
                     int[] sb = shapeBasis[k];
-                    for (int j = 0; j < sb.length; j++) c[slot[sb[j]]] += gf * sh[j * nb + b];
+                    for (int j = 0; j < sb.length; j++) cs[at + slot[sb[j]]] += gf * sh[j * nb + b];
                     vg += byGamma[k][b];
                 }
                 values[b] = y;
+                vgs[b] = vg;
                 sum += y;
-                if (!haveCov) {
-                    errors[b] = Double.NaN;
-                    continue;
-                }
-                double var = quadratic(gs, c, n) + vg * vg * gammaVar[b];
-                for (int a = 0; a < n; a++) zSum[index[a]] += c[a];
+            }
+            if (!haveCov) {
+                java.util.Arrays.fill(errors, Double.NaN);
+                return new Band(values, errors, sum, Double.NaN);
+            }
+            double[] quads = new double[nb];
+            new QuadraticForms(n).symmetric(gs, n, cs, n, nb, quads);
+            double[] zSum = new double[K];
+            double gammaSum = 0;
+            for (int b = 0; b < nb; b++) {
+                int at = b * n;
+                double vg = vgs[b];
+                double var = quads[b] + vg * vg * gammaVar[b];
+                for (int a = 0; a < n; a++) zSum[index[a]] += cs[at + a];
                 if (eta != null && eta[b] != null && vg != 0) {
                     double t = vg * gammaVar[b];   // v_γ / d_b
                     double cu = 0;
-                    for (int a = 0; a < n; a++) cu += c[a] * u[b][index[a]];
+                    for (int a = 0; a < n; a++) cu += cs[at + a] * u[b][index[a]];
                     var += -2 * t * cu + t * t * etaGEta[b];
                     double[] e = eta[b];
                     for (int a = 0; a < K; a++) zSum[a] -= t * e[a];
@@ -348,21 +348,10 @@ public final class Yields {
                 gammaSum += vg * vg * gammaVar[b];
                 errors[b] = Math.sqrt(Math.max(var, 0));
             }
-            double sumError = haveCov ? Math.sqrt(Math.max(quadratic(g, zSum, K) + gammaSum, 0)) : Double.NaN;
+            double[] sumQuad = new double[1];
+            new QuadraticForms(K).symmetric(g, K, zSum, K, 1, sumQuad);
+            double sumError = Math.sqrt(Math.max(sumQuad[0] + gammaSum, 0));
             return new Band(values, errors, sum, sumError);
-        }
-
-        private static double quadratic(double[] a, double[] v, int n) {
-            double q = 0;
-            for (int i = 0; i < n; i++) {
-                double vi = v[i];
-                if (vi == 0) continue;
-                int row = i * n;
-                double acc = 0;
-                for (int j = 0; j < n; j++) acc += a[row + j] * v[j];
-                q += vi * acc;
-            }
-            return q;
         }
     }
 }

@@ -4,6 +4,7 @@ import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ConstraintType;
 import plumb.engine.compile.NormInterpolation;
 import plumb.engine.compile.ShapeInterpolation;
+import plumb.engine.linalg.QuadraticForms;
 import plumb.engine.minimise.Objective;
 
 import java.util.Arrays;
@@ -899,42 +900,63 @@ public final class BinnedNll implements Objective {
     public void gammaVariances(double[] x, double[] covariance, double[] out) {
         evaluate(x, null, null, false);
         final int nP = m.nParams;
-        for (int g = 0; g < m.nGamma; g++) {
-            int b = m.gammaBin[g];
-            int c = channelOf(b);
-            int gi = nP + g;
-            if (!Double.isNaN(gammaHeld[g]) || (explicitGamma && m.fixed[gi])) {
-                out[g] = 0;
-                continue;
+        // Per channel: its block of the covariance gathered once, then the quadratic forms of all
+        // its bins' h_b against it, four at a time (QuadraticForms).
+        double[] block = null, vectors = null, quads = null;
+        int[] bins = null;
+        QuadraticForms forms = null;
+        for (int c = 0; c < m.nChannels; c++) {
+            final int[] local = m.channelParams[c];
+            final int L = local.length;
+            final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+            final boolean included = data.channelIncluded()[c];
+            if (included && block == null) {
+                block = new double[stride * stride];
+                int most = 0;
+                for (int k = 0; k < m.nChannels; k++) most = Math.max(most, m.channelBinStart[k + 1] - m.channelBinStart[k]);
+                vectors = new double[most * stride];
+                quads = new double[most];
+                bins = new int[most];
+                forms = new QuadraticForms(stride);
             }
-            double cb = cPart[b];
-            double d = q[b] * cb * cb + constraintCurvature(gi, gammaValue[g]);
-            if (!(d > 0)) {
-                out[g] = Double.NaN;
-                continue;
-            }
-            int[] local = m.channelParams[c];
-            int L = local.length;
-            double quad = 0;
-            if (data.channelIncluded()[c]) {
-                binGradients(c, b);
-                for (int i = 0; i < L; i++) hLoc[i] = w[b] * gcLoc[i] + q[b] * cb * gLoc[i];
+            if (included) {
                 for (int i = 0; i < L; i++) {
-                    if (hLoc[i] == 0) continue;
-                    int row = local[i] * nP;
-                    double acc = 0;
-                    for (int j = 0; j < L; j++) acc += covariance[row + local[j]] * hLoc[j];
-                    quad += hLoc[i] * acc;
+                    final int row = local[i] * nP;
+                    for (int j = 0; j < L; j++) block[i * L + j] = covariance[row + local[j]];
                 }
             }
-            out[g] = 1 / d + quad / (d * d);
+            int count = 0;
+            for (int b = b0; b < b1; b++) {
+                int g = m.binGamma[b];
+                if (g < 0) continue;
+                int gi = nP + g;
+                if (!Double.isNaN(gammaHeld[g]) || (explicitGamma && m.fixed[gi])) {
+                    out[g] = 0;
+                    continue;
+                }
+                double cb = cPart[b];
+                double d = q[b] * cb * cb + constraintCurvature(gi, gammaValue[g]);
+                if (!(d > 0)) {
+                    out[g] = Double.NaN;
+                    continue;
+                }
+                out[g] = 1 / d;
+                if (!included) continue;
+                binGradients(c, b);
+                final int at = count * L;
+                for (int i = 0; i < L; i++) vectors[at + i] = w[b] * gcLoc[i] + q[b] * cb * gLoc[i];
+                bins[count++] = b;
+            }
+            if (count == 0) continue;
+            forms.symmetric(block, L, vectors, L, count, quads);
+            for (int k = 0; k < count; k++) {
+                int b = bins[k];
+                int g = m.binGamma[b];
+                double cb = cPart[b];
+                double d = q[b] * cb * cb + constraintCurvature(nP + g, gammaValue[g]);
+                out[g] = 1 / d + quads[k] / (d * d);
+            }
         }
-    }
-
-    private int channelOf(int bin) {
-        int c = 0;
-        while (m.channelBinStart[c + 1] <= bin) c++;
-        return c;
     }
 
     /** Upper triangle of hMat += f · v vᵀ. */
