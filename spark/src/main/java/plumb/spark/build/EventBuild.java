@@ -1,7 +1,5 @@
 package plumb.spark.build;
 
-import org.apache.spark.sql.Dataset;
-import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.types.BooleanType;
 import org.apache.spark.sql.types.DataType;
@@ -50,6 +48,8 @@ public final class EventBuild {
     private final PrintWriter err;
     private final List<String> warnings = new ArrayList<>();
     private int views;
+    /** The Parquet files behind each view (CSV views are not listed). */
+    private final Map<String, List<String>> parquetFiles = new LinkedHashMap<>();
 
     private EventBuild(BuildSpec spec, SparkSession spark, PrintWriter err) {
         this.spec = spec;
@@ -197,7 +197,7 @@ public final class EventBuild {
             progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
                     ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : "")
                     + (shifted.isEmpty() ? "" : ", " + shifted.size() + " shifted observable" + (shifted.size() > 1 ? "s" : "")));
-            HistogramJob.Sums sums = job.run(spark, view);
+            HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view));
             refuseBad(s.name(), regions, weights, sums, s.events().path());
             assembly.nominal(s, regions, job, sums, sums.flow());
             int entry = regions.size();
@@ -232,7 +232,7 @@ public final class EventBuild {
         if (dataView != null) {
             progress(++pass, passes, "data");
             HistogramJob job = new HistogramJob(dataRegions, observables(dataRegions), List.of("1"));
-            HistogramJob.Sums sums = job.run(spark, dataView);
+            HistogramJob.Sums sums = job.run(spark, dataView, parquetFiles.get(dataView));
             refuseBadObservable("data", dataRegions, sums, spec.data().path());
             assembly.data(dataRegions, job, sums, sums.flow());
         }
@@ -251,7 +251,7 @@ public final class EventBuild {
 
     private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
         HistogramJob job = new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
-        HistogramJob.Sums sums = job.run(spark, view);
+        HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view));
         refuseBad(s.name() + " (" + path + ")", regions, List.of(s.weight().sql()), sums, path);
         return perRegion(job, sums);
     }
@@ -313,9 +313,10 @@ public final class EventBuild {
 
     /** Reads one list of tables into a temporary view; its name. */
     private String view(Events events) {
-        Dataset<Row> df = EventTables.read(spark, events, spec.file());
+        EventTables.Read read = EventTables.read(spark, events, spec.file());
         String name = "plumb_events_" + (views++);
-        df.createOrReplaceTempView(name);
+        read.table().createOrReplaceTempView(name);
+        if (read.parquetFiles() != null) parquetFiles.put(name, read.parquetFiles());
         return name;
     }
 

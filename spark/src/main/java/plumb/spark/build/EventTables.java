@@ -26,7 +26,10 @@ final class EventTables {
     private EventTables() {
     }
 
-    static Dataset<Row> read(SparkSession spark, Events events, Path specFile) {
+    /** The table, and its files when they are Parquet (null for CSV). */
+    record Read(Dataset<Row> table, List<String> parquetFiles) { }
+
+    static Read read(SparkSession spark, Events events, Path specFile) {
         List<String> files = new ArrayList<>();
         for (String p : events.paths()) {
             org.apache.hadoop.fs.Path hp = new org.apache.hadoop.fs.Path(p);
@@ -48,8 +51,8 @@ final class EventTables {
         }
         try {
             if (csv > 0) {
-                return spark.read().option("header", "true").option("inferSchema", "true").option("mode", "FAILFAST")
-                        .csv(files.toArray(String[]::new));
+                return new Read(spark.read().option("header", "true").option("inferSchema", "true").option("mode", "FAILFAST")
+                        .csv(files.toArray(String[]::new)), null);
             }
             StructType first = null;
             String firstFile = null;
@@ -66,12 +69,38 @@ final class EventTables {
                     }
                 }
             }
-            return spark.read().parquet(files.toArray(String[]::new));
+            return new Read(spark.read().parquet(files.toArray(String[]::new)), parquetFiles(spark, files));
         } catch (InputException e) {
             throw e;
         } catch (Exception e) {
             throw new InputException(specFile + ": " + events.path() + ": Spark: " + EventBuild.firstLine(e));
         }
+    }
+
+    /**
+     * The data files Spark reads for the list: a folder stands for the files in it whose names
+     * do not start with "_" or "." (Spark's rule); null when a folder holds another folder (Spark
+     * would look for partitions there: its own reading handles that).
+     */
+    private static List<String> parquetFiles(SparkSession spark, List<String> files) throws IOException {
+        List<String> out = new ArrayList<>();
+        for (String f : files) {
+            org.apache.hadoop.fs.Path p = new org.apache.hadoop.fs.Path(f);
+            FileSystem fs = p.getFileSystem(spark.sparkContext().hadoopConfiguration());
+            if (!fs.getFileStatus(p).isDirectory()) {
+                out.add(f);
+                continue;
+            }
+            FileStatus[] inside = fs.listStatus(p);
+            java.util.Arrays.sort(inside);
+            for (FileStatus s : inside) {
+                String name = s.getPath().getName();
+                if (name.startsWith("_") || name.startsWith(".")) continue;
+                if (s.isDirectory()) return null;
+                out.add(s.getPath().toString());
+            }
+        }
+        return List.copyOf(out);
     }
 
     /** The first column whose presence or type differs, or null when the columns agree. */

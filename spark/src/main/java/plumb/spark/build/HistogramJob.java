@@ -38,6 +38,12 @@ import java.util.Map;
  */
 record HistogramJob(List<Region> regions, List<String> observables, List<String> weights, int[] weightsUsed) {
 
+    /**
+     * {@code -Dplumb.build.rows=true}: every pass through Spark's SQL projection, as before the
+     * column batches (to compare the two paths' speed and numbers).
+     */
+    static final boolean ROWS_ONLY = Boolean.getBoolean("plumb.build.rows");
+
     /** Every region once with the given observables, summing every weight. */
     HistogramJob(List<Region> regions, List<String> observables, List<String> weights) {
         this(regions, observables, weights, filled(regions.size(), weights.size()));
@@ -156,10 +162,20 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
         return "CASE WHEN " + String.join(" OR ", conditions) + " THEN CAST((" + expr + ") AS DOUBLE) END";
     }
 
-    /** Runs the pass over {@code table} (a temporary view name). */
-    Sums run(SparkSession spark, String table) {
+    /**
+     * Runs the pass over {@code table} (a temporary view name). With {@code parquetFiles} (the
+     * view's files, when they are Parquet) the expressions are first tried over column batches
+     * ({@link ParquetPass}); the rows of Spark's SQL projection are the way for CSV and for
+     * whatever the batches do not evaluate.
+     */
+    Sums run(SparkSession spark, String table, List<String> parquetFiles) {
         Map<String, Integer> distinct = new LinkedHashMap<>();
         Tally.Layout layout = layout(distinct);
+        if (parquetFiles != null && !ROWS_ONLY) {
+            ParquetPass.Program program = ParquetPass.compile(spark, table, this, distinct);
+            Sums direct = program == null ? null : ParquetPass.run(spark, parquetFiles, program, layout);
+            if (direct != null) return direct;
+        }
         Dataset<Row> projected = spark.sql(sql(table, layout, distinct));
         // Spark's internal rows straight from the compiled projection: no conversion into Row objects per event.
         JavaRDD<InternalRow> rows = ((org.apache.spark.sql.classic.Dataset<Row>) projected).queryExecution().toRdd().toJavaRDD();

@@ -41,6 +41,8 @@ final class Tally implements Serializable {
     private final double[][] stepWeighted;  // [distinct region][step], cumulative
     private final long[][] stepRaw;
     private transient double[] w;           // one event's weights
+    /** Set when the batch evaluation refused a table (see {@link BatchExpr}): these numbers are then not used. */
+    String refused;
 
     Tally(Layout layout) {
         this.layout = layout;
@@ -110,6 +112,68 @@ final class Tally implements Serializable {
                 double v = w[k];
                 sum[base + k] += v;
                 square[base + k] += v * v;
+            }
+        }
+    }
+
+    /**
+     * The events of one batch evaluated by {@link ParquetPass}, in the same order of operations
+     * as {@link #add(InternalRow)} so that a partition's sums do not depend on the path.
+     *
+     * @param depth       per distinct region, per event: the steps passed in a row
+     * @param observables the distinct observables (null: NaN)
+     * @param weights     the weights (null: NaN)
+     */
+    void add(int n, int[][] depth, BatchExpr[] observables, BatchExpr[] weights) {
+        int regions = layout.steps().length, nw = layout.weights();
+        int[] steps = layout.steps(), depthOf = layout.depthOf(), observableOf = layout.observableOf();
+        int[] offsets = layout.offsets(), weightsUsed = layout.weightsUsed();
+        double[][] edges = layout.edges();
+        boolean[] fold = layout.fold();
+        if (w == null) w = new double[nw];
+        for (int i = 0; i < n; i++) {
+            boolean selected = false, any = false;
+            for (int r = 0; r < regions; r++) {
+                int d = depth[r][i];
+                if (d == 0) continue;
+                any = true;
+                selected |= d == steps[r];
+            }
+            if (!any) continue;
+            double w0 = weights[0].asDouble(i);
+            for (int r = 0; r < regions; r++) {
+                int d = depth[r][i];
+                double[] weighted = stepWeighted[r];
+                long[] raw = stepRaw[r];
+                for (int k = 0; k < d; k++) {
+                    weighted[k] += w0;
+                    raw[k]++;
+                }
+            }
+            if (!selected) continue;
+            for (int k = 0; k < nw; k++) {
+                double v = k == 0 ? w0 : weights[k].asDouble(i);
+                if (!Double.isFinite(v)) badWeight[k]++;
+                w[k] = v;
+            }
+            for (int e = 0; e < depthOf.length; e++) {
+                int r = depthOf[e];
+                if (depth[r][i] != steps[r]) continue;
+                double x = observables[observableOf[e]].asDouble(i);
+                if (Double.isNaN(x)) {
+                    badObservable[e]++;
+                    continue;
+                }
+                int b = bin(x, edges[e], fold[e]);
+                if (b < 0) continue;
+                int cell = offsets[e] + b;
+                entries[cell]++;
+                int base = cell * nw;
+                for (int k = 0, used = weightsUsed[e]; k < used; k++) {
+                    double v = w[k];
+                    sum[base + k] += v;
+                    square[base + k] += v * v;
+                }
             }
         }
     }

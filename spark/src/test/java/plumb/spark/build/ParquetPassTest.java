@@ -1,0 +1,223 @@
+package plumb.spark.build;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.RowFactory;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructType;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import plumb.cli.build.BuildOutcome;
+import plumb.spark.build.BuildSpec.Expr;
+import plumb.spark.build.BuildSpec.Outside;
+import plumb.spark.build.BuildSpec.Region;
+import plumb.spark.build.BuildSpec.Step;
+import plumb.spark.campaign.SparkRunner;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Iterator;
+import java.util.List;
+import java.util.Map;
+import java.util.SplittableRandom;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+/**
+ * The column-batch pass over Parquet ({@link ParquetPass}) against the row path through Spark's
+ * SQL projection: the same histograms, Σw², cut flow and bad-value counts, on tables with nulls
+ * and NaN, and the fallback to the row path for expressions outside the batch subset.
+ */
+class ParquetPassTest {
+
+    static SparkRunner runner;
+    static SparkSession spark;
+
+    @TempDir
+    static Path dir;
+
+    @BeforeAll
+    static void start() {
+        runner = SparkRunner.open("local[2]", 600);   // generous: the machine running the tests may be busy
+        spark = SparkSession.builder().getOrCreate();
+    }
+
+    @AfterAll
+    static void stop() {
+        runner.close();
+    }
+
+    static final StructType SCHEMA = new StructType()
+            .add("m", DataTypes.DoubleType, true).add("n_ph", DataTypes.IntegerType, true)
+            .add("iso", DataTypes.DoubleType, true).add("w", DataTypes.DoubleType, true)
+            .add("w_alt", DataTypes.DoubleType, true).add("j", DataTypes.LongType, true)
+            .add("x", DataTypes.FloatType, true);
+
+    /** A table in three Parquet files: some nulls in every column, a few NaN observables and weights. */
+    static List<String> table(String name, long seed, int n) throws IOException {
+        SplittableRandom rng = new SplittableRandom(seed);
+        List<Row> rows = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            Object m = rng.nextInt(50) == 0 ? null : rng.nextInt(80) == 0 ? Double.NaN : 95 + 50 * rng.nextDouble();
+            Object nph = rng.nextInt(40) == 0 ? null : rng.nextInt(4);
+            Object iso = rng.nextInt(40) == 0 ? null : rng.nextDouble() * 0.5;
+            double wv = 0.5 + rng.nextDouble();
+            Object w = rng.nextInt(200) == 0 ? null : rng.nextInt(300) == 0 ? Double.POSITIVE_INFINITY : wv;
+            Object alt = rng.nextInt(30) == 0 ? null : wv * (0.9 + 0.2 * rng.nextDouble());
+            Object j = rng.nextInt(10) == 0 ? null : rng.nextLong(-5, 5);
+            rows.add(RowFactory.create(m, nph, iso, w, alt, j, (float) rng.nextDouble()));
+        }
+        Path out = dir.resolve(name);
+        spark.createDataFrame(rows, SCHEMA).repartition(3).write().parquet(out.toString());
+        List<String> files = new ArrayList<>();
+        try (var s = Files.list(out)) {
+            s.filter(p -> p.getFileName().toString().endsWith(".parquet")).sorted().forEach(p -> files.add(p.toUri().toString()));
+        }
+        assertEquals(3, files.size(), "three files, three tasks");
+        return files;
+    }
+
+    static Region region(String name, double[] edges, Outside outside, String observable, String... steps) {
+        List<Step> s = new ArrayList<>();
+        for (int k = 0; k < steps.length; k++) s.add(new Step("step " + k, new Expr(steps[k], name + ".steps[" + k + "]")));
+        return new Region(name, null, s, new Expr(observable, name + ".observable"), edges, outside, false);
+    }
+
+    /** A job with two regions (folded, dropped), a shifted observable and weights with nulls and NaN. */
+    static HistogramJob job(String weight) {
+        double[] edges = {100, 110, 120, 130, 140};
+        Region sr = region("sr", edges, Outside.FOLD, "m", "n_ph >= 2", "iso < 0.2 OR j IS NULL");
+        Region cr = region("cr", new double[] {100, 120, 140}, Outside.DROP, "m", "n_ph >= 2", "NOT (iso < 0.2)", "j <=> 1 OR j < 0");
+        HistogramJob job = new HistogramJob(List.of(sr, cr), List.of("m", "m"),
+                List.of(weight, "coalesce(w_alt, w)", "w_alt", "2 * w - w_alt", "CASE WHEN j > 0 THEN w * 1.1 ELSE w END"));
+        return job.plus(List.of(sr), "CASE WHEN j > 0 THEN m * 1.01 ELSE m / 1.01 END");
+    }
+
+    static String view(List<String> files) {
+        String name = "pq_" + Math.abs(files.hashCode());
+        spark.read().parquet(files.toArray(String[]::new)).createOrReplaceTempView(name);
+        return name;
+    }
+
+    /** Counts exactly equal, sums to 1e-12 relative (the two paths group the events in other partitions). */
+    static void assertSameSums(HistogramJob.Sums rows, HistogramJob.Sums batches) {
+        assertArrayEquals(rows.entries(), batches.entries(), "entries per cell");
+        assertArrayEquals(rows.badObservable(), batches.badObservable(), "bad observables");
+        assertArrayEquals(rows.badWeights(), batches.badWeights(), "bad weights");
+        for (int r = 0; r < rows.flow().raw().length; r++) {
+            assertArrayEquals(rows.flow().raw()[r], batches.flow().raw()[r], "cut flow counts");
+            assertClose(rows.flow().weighted()[r], batches.flow().weighted()[r], "cut flow Σw");
+        }
+        for (int k = 0; k < rows.sums().length; k++) {
+            assertClose(rows.sums()[k], batches.sums()[k], "Σw of weight " + k);
+            assertClose(rows.squares()[k], batches.squares()[k], "Σw² of weight " + k);
+        }
+    }
+
+    static void assertClose(double[] expected, double[] actual, String what) {
+        assertEquals(expected.length, actual.length, what);
+        for (int i = 0; i < expected.length; i++) {
+            double e = expected[i], a = actual[i];
+            if (Double.isNaN(e) || Double.isInfinite(e)) {
+                assertEquals(e, a, what + " [" + i + "]");
+                continue;
+            }
+            assertEquals(e, a, 1e-12 * Math.max(Math.abs(e), 1e-300), what + " [" + i + "]");
+        }
+    }
+
+    @Test
+    void batchesGiveTheRowPathsNumbersWithNullsAndNaN() throws IOException {
+        List<String> files = table("mixed", 21, 20_000);
+        String view = view(files);
+        HistogramJob job = job("w");
+        HistogramJob.Sums rows = job.run(spark, view, null);
+        long before = ParquetPass.PASSES.get();
+        HistogramJob.Sums batches = job.run(spark, view, files);
+        assertEquals(before + 1, ParquetPass.PASSES.get(), "the pass went over column batches");
+        assertSameSums(rows, batches);
+        assertTrue(rows.badWeights()[0] > 0 && rows.badWeights()[2] > 0 && rows.badObservable()[0] > 0,
+                "the table has bad weights and observables in selected events");
+        assertTrue(rows.flow().raw()[1][2] > 100, "events pass the three steps of the second region");
+        HistogramJob.Sums again = job.run(spark, view, files);
+        for (int k = 0; k < batches.sums().length; k++) {
+            assertArrayEquals(batches.sums()[k], again.sums()[k], 0.0, "the same sums on every run");
+        }
+    }
+
+    @Test
+    void expressionsOutsideTheSubsetGoThroughTheRowPath() throws IOException {
+        List<String> files = table("fallback", 22, 3_000);
+        String view = view(files);
+        for (String weight : List.of("w * sin(iso) + 1", "w + x")) {   // a function and a float column outside the subset
+            HistogramJob job = job(weight);
+            HistogramJob.Sums rows = job.run(spark, view, null);
+            long before = ParquetPass.PASSES.get();
+            HistogramJob.Sums other = job.run(spark, view, files);
+            assertEquals(before, ParquetPass.PASSES.get(), weight + ": no pass over column batches");
+            assertSameSums(rows, other);
+        }
+    }
+
+    @Test
+    void aBuildFromParquetEqualsTheBuildFromTheSameEventsAsCsv() throws IOException {
+        Path csv = dir.resolve("csv");
+        Files.createDirectories(csv);
+        Path csvSpec = EventBuildTest.fixture(csv);
+        Path pq = dir.resolve("pq");
+        Files.createDirectories(pq);
+        for (String t : List.of("sig", "bkg_a", "bkg_b", "alt_bkg_up", "data")) {
+            spark.read().option("header", "true").option("inferSchema", "true").csv(csv.resolve(t + ".csv").toString())
+                    .repartition(2).write().parquet(pq.resolve(t + ".parquet").toString());
+        }
+        Path pqSpec = Files.writeString(pq.resolve("build.json"), Files.readString(csvSpec).replace(".csv", ".parquet"));
+        BuildOutcome fromCsv = build(csvSpec, csv.resolve("model.json"));
+        long before = ParquetPass.PASSES.get();
+        BuildOutcome fromParquet = build(pqSpec, pq.resolve("model.json"));
+        assertEquals(before + 4, ParquetPass.PASSES.get(), "sig, bkg, the alternative tables and the data over column batches");
+        ObjectMapper json = new ObjectMapper();
+        assertJsonClose(json.readTree(fromCsv.model().toFile()), json.readTree(fromParquet.model().toFile()), "model");
+        assertEquals(fromCsv.cutFlow().size(), fromParquet.cutFlow().size());
+        for (int i = 0; i < fromCsv.cutFlow().size(); i++) {
+            var a = fromCsv.cutFlow().get(i);
+            var b = fromParquet.cutFlow().get(i);
+            assertEquals(a.raw(), b.raw(), "cut flow events " + a);
+            assertEquals(a.weighted(), b.weighted(), 1e-12 * Math.abs(a.weighted()), "cut flow Σw " + a);
+        }
+    }
+
+    static BuildOutcome build(Path spec, Path out) {
+        return EventBuild.build(BuildSpecReader.read(spec), spark, out, new PrintWriter(new StringWriter()),
+                new PrintWriter(new StringWriter()));
+    }
+
+    /** The same JSON tree, numbers to 1e-12 relative. */
+    static void assertJsonClose(JsonNode a, JsonNode b, String path) {
+        if (a.isNumber()) {
+            assertTrue(b.isNumber(), path);
+            assertEquals(a.doubleValue(), b.doubleValue(), 1e-12 * Math.abs(a.doubleValue()), path);
+        } else if (a.isObject()) {
+            assertEquals(a.size(), b.size(), path + ": keys");
+            for (Iterator<Map.Entry<String, JsonNode>> it = a.fields(); it.hasNext(); ) {
+                Map.Entry<String, JsonNode> e = it.next();
+                assertTrue(b.has(e.getKey()), path + "." + e.getKey());
+                assertJsonClose(e.getValue(), b.get(e.getKey()), path + "." + e.getKey());
+            }
+        } else if (a.isArray()) {
+            assertEquals(a.size(), b.size(), path + ": length");
+            for (int i = 0; i < a.size(); i++) assertJsonClose(a.get(i), b.get(i), path + "[" + i + "]");
+        } else {
+            assertEquals(a, b, path);
+        }
+    }
+}
