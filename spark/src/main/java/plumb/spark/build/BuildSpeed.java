@@ -9,20 +9,21 @@ import java.lang.management.ManagementFactory;
 import java.lang.management.ThreadMXBean;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.util.ArrayList;
-import java.util.List;
 import java.util.Locale;
-import java.util.SplittableRandom;
 
 /**
  * The speed comparison of {@code plumb build}, printed side by side from one run: a build of N
  * generated events (10 samples, 3 regions of 20 bins, 20 weight variations stored as columns, each
  * giving an up and a down weight: 41 weights summed with their squares) on Spark {@code local[*]};
  * a Spark scan that only reads the same columns (the cost of Parquet alone); and a single-threaded
- * plain-Java loop that does the same sums over the same kind of columns held in memory (the bound
- * for one core). Every line gives wall time and CPU time: on a shared machine the CPU seconds per
- * event are the figure to compare, wall time also counts the other processes' turns.
- * Table generation (Parquet through Spark, reused when DIR already has it) is not timed.
+ * plain-Java loop that does the same sums over the first events of the same tables held in memory
+ * (the bound for one core). Every line gives wall time and CPU time: on a shared machine the CPU
+ * seconds per event are the figure to compare, wall time also counts the other processes' turns.
+ * Spark's start (context, session, a first task) is a line of its own; the build runs first after
+ * it, as in the command, the scan after the build.
+ *
+ * <p>The tables ({@link BenchTables}) are written on every core before Spark starts, or used as
+ * they are when DIR holds them already (its manifest matches).
  *
  * <p>Run: {@code ./plumb build-speed N DIR [BOUND_EVENTS]}.
  */
@@ -31,6 +32,7 @@ public final class BuildSpeed {
     static final int SAMPLES = 10;
     static final int VARIATIONS = 20;
     static final int BINS = 20;
+    static final long SEED = 1;
 
     private BuildSpeed() {
     }
@@ -43,7 +45,7 @@ public final class BuildSpeed {
 
     /** Wall and CPU seconds of one timed step. */
     record Timing(double wall, double cpu) {
-        static Timing of(Runnable step) {
+        static Timing of(Step step) throws Exception {
             double c0 = processCpu();
             long t0 = System.nanoTime();
             step.run();
@@ -51,62 +53,64 @@ public final class BuildSpeed {
         }
     }
 
-    // "try": the runner is opened for its side effect, the Spark context that the session below
-    // is built on, and closed at the end of the block; the body need not name it
-    @SuppressWarnings("try")
+    interface Step {
+        void run() throws Exception;
+    }
+
     public static void main(String[] args) throws Exception {
-        long n = args.length > 0 ? Long.parseLong(args[0]) : 10_000_000L;
-        Path dir = Path.of(args.length > 1 ? args[1] : "build-speed");
+        if (args.length < 2 || args.length > 3) {
+            System.err.println("usage: plumb build-speed N DIR [BOUND_EVENTS]");
+            System.exit(2);
+        }
+        long n = Long.parseLong(args[0]);
+        Path dir = Path.of(args[1]);
         long boundEvents = args.length > 2 ? Long.parseLong(args[2]) : Math.min(n, 10_000_000L);
         Files.createDirectories(dir);
-        long perSample = n / SAMPLES;
-        try (SparkRunner runner = SparkRunner.open("local[*]", 120)) {
-            SparkSession spark = SparkSession.builder().getOrCreate();
-            int cores = spark.sparkContext().defaultParallelism();
-            long g0 = System.nanoTime();
-            for (int s = 0; s < SAMPLES; s++) generate(spark, dir.resolve("s" + s), s, perSample);
-            double generation = (System.nanoTime() - g0) * 1e-9;
-            Path spec = Files.writeString(dir.resolve("build.json"), spec());
+        BenchTables tables = new BenchTables(n, SAMPLES, VARIATIONS, SEED);
+        int threads = Runtime.getRuntime().availableProcessors();
+        boolean[] written = {false};
+        Timing generation = Timing.of(() -> written[0] = tables.ensure(dir, threads));
+        Path spec = Files.writeString(dir.resolve("build.json"), spec(SAMPLES));
 
-            Timing scan = Timing.of(() -> scanOnly(spark, dir));
-            Timing build = Timing.of(() -> EventBuild.build(BuildSpecReader.read(spec), spark, dir.resolve("model.json"),
+        SparkRunner[] runner = new SparkRunner[1];
+        SparkSession[] session = new SparkSession[1];
+        Timing start = Timing.of(() -> {
+            runner[0] = SparkRunner.open("local[*]", 600);
+            session[0] = BuildSession.of(runner[0]);
+        });
+        SparkSession spark = session[0];
+        int cores = spark.sparkContext().defaultParallelism();
+        Timing build, scan;
+        try {
+            build = Timing.of(() -> EventBuild.build(BuildSpecReader.read(spec), spark, dir.resolve("model.json"),
                     new PrintWriter(new StringWriter()), new PrintWriter(new StringWriter())));
-            double[] loop = plainJava(boundEvents);
-
-            System.out.printf(Locale.ROOT, "events %d (generation %.1f s, not timed below), %d samples, 3 regions x %d bins, "
-                    + "%d weight variations (%d weights summed with squares); Spark local[*] on %d cores%n", n, generation,
-                    SAMPLES, BINS, VARIATIONS, 2 * VARIATIONS + 1, cores);
-            System.out.printf(Locale.ROOT, "%-44s %9s %9s %14s %16s%n", "", "wall s", "CPU s", "events/s wall", "events/CPU-s");
-            line("plumb build (Spark, all cores)", n, build);
-            line("Spark reading the same columns only", n, scan);
-            line("plain Java, one thread, columns in memory", boundEvents, new Timing(loop[0], loop[1]));
-            double boundRate = boundEvents / loop[1];
-            System.out.printf(Locale.ROOT, "CPU per event, plumb build / plain-Java bound: %.2f (reading alone: %.2f)%n",
-                    boundRate / (n / build.cpu()), boundRate / (n / scan.cpu()));
-            System.out.printf(Locale.ROOT, "1e8 events at the measured CPU rate on %d cores: %.0f s; at the measured wall rate: %.0f s%n",
-                    cores, 1e8 / (n / build.cpu()) / cores, 1e8 / (n / build.wall()));
+            scan = Timing.of(() -> scanOnly(spark, dir));
+        } finally {
+            runner[0].close();
         }
+        double[] loop = plainJava(tables, boundEvents);
+
+        System.out.printf(Locale.ROOT, "events %d, %d samples, 3 regions x %d bins, %d weight variations (%d weights summed "
+                + "with squares); Spark local[*] on %d cores%n", n, SAMPLES, BINS, VARIATIONS, 2 * VARIATIONS + 1, cores);
+        System.out.printf(Locale.ROOT, "tables in %s: %s%n", dir, written[0] ? String.format(Locale.ROOT,
+                "written on %d threads in %.1f s wall, %.1f CPU-s (not part of the figures below)", threads,
+                generation.wall(), generation.cpu()) : "used as they were (manifest matches)");
+        System.out.printf(Locale.ROOT, "%-44s %9s %9s %14s %16s%n", "", "wall s", "CPU s", "events/s wall", "events/CPU-s");
+        System.out.printf(Locale.ROOT, "%-44s %9.2f %9.2f%n", "Spark start (context, session, first task)", start.wall(),
+                start.cpu());
+        line("plumb build (Spark, all cores)", n, build);
+        line("Spark reading the same columns only", n, scan);
+        line("plain Java, one thread, columns in memory", boundEvents, new Timing(loop[0], loop[1]));
+        double boundRate = boundEvents / loop[1];
+        System.out.printf(Locale.ROOT, "CPU per event, plumb build / plain-Java bound: %.2f (reading alone: %.2f)%n",
+                boundRate / (n / build.cpu()), boundRate / (n / scan.cpu()));
+        System.out.printf(Locale.ROOT, "1e8 events at this build's CPU rate on %d cores: %.0f s; at its wall rate: %.0f s%n",
+                cores, 1e8 / (n / build.cpu()) / cores, 1e8 / (n / build.wall()));
     }
 
     private static void line(String what, long events, Timing t) {
         System.out.printf(Locale.ROOT, "%-44s %9.2f %9.2f %14.3g %16.3g%n", what, t.wall(), t.cpu(), events / t.wall(),
                 events / t.cpu());
-    }
-
-    /** One sample's table as Parquet (left as it is when already there): random columns from spark.range. */
-    static void generate(SparkSession spark, Path out, int s, long events) {
-        if (Files.exists(out.resolve("_SUCCESS"))) return;
-        List<String> cols = new ArrayList<>(List.of("rand(" + (100 * s + 1) + ") * 1000 AS m",
-                "CAST(rand(" + (100 * s + 2) + ") * 4 AS INT) AS n_ph", "rand(" + (100 * s + 3) + ") AS iso",
-                "0.5 + rand(" + (100 * s + 4) + ") AS w"));
-        for (int v = 0; v < VARIATIONS; v++) {
-            cols.add("(0.5 + rand(" + (100 * s + 4) + ")) * (0.9 + 0.2 * rand(" + (100 * s + 10 + v) + ")) AS wv" + v);
-        }
-        // files of ~1e6 events (~200 MB): enough tasks for every core, few enough to list quickly
-        int files = (int) Math.max(2, events / 1_000_000);
-        // random doubles never fit a dictionary: writing without one spares the writer the attempt
-        spark.range(0, events, 1, files).selectExpr(cols.toArray(String[]::new)).write().mode("overwrite")
-                .option("parquet.enable.dictionary", "false").parquet(out.toString());
     }
 
     /** Spark reads every column the build reads and adds them up: what Parquet and the scan cost alone. */
@@ -119,7 +123,8 @@ public final class BuildSpeed {
         }
     }
 
-    static String spec() {
+    /** The description of the build over {@code samples} samples of the tables. */
+    static String spec(int samples) {
         StringBuilder s = new StringBuilder("{\"format\": \"plumb-build/1\", \"name\": \"speed\", \"regions\": [");
         String[][] regions = {{"sr", "n_ph >= 2", "iso < 0.1"}, {"cr_iso", "n_ph >= 2", "iso >= 0.1 AND iso < 0.3"},
                 {"cr_one", "n_ph < 2", "iso < 0.1"}};
@@ -131,7 +136,7 @@ public final class BuildSpeed {
              .append("\"}, {\"name\": \"isolation\", \"keep\": \"").append(regions[r][2]).append("\"}]}");
         }
         s.append("], \"samples\": [");
-        for (int i = 0; i < SAMPLES; i++) {
+        for (int i = 0; i < samples; i++) {
             s.append(i == 0 ? "" : ", ").append("{\"name\": \"s").append(i).append("\", \"events\": [\"s").append(i)
              .append("/*.parquet\"], \"weight\": \"w\", \"variations\": [");
             for (int v = 0; v < VARIATIONS; v++) {
@@ -144,27 +149,18 @@ public final class BuildSpeed {
     }
 
     /**
-     * The same sums in one thread over columns in arrays, best of three passes (the first also
-     * lets the JIT compile the loop): {wall, CPU} seconds of that pass.
+     * The same sums in one thread over the first {@code count} events of the tables (sample 0's
+     * files in order, then sample 1's, …) held in arrays, best of three passes (the first also lets
+     * the JIT compile the loop): {wall, CPU} seconds of that pass.
      */
-    static double[] plainJava(long count) {
-        int n = Math.toIntExact(count);
-        SplittableRandom rng = new SplittableRandom(7);
-        double[] m = new double[n], iso = new double[n], w = new double[n];
-        int[] nph = new int[n];
-        double[][] wv = new double[VARIATIONS][n];
-        for (int i = 0; i < n; i++) {
-            m[i] = rng.nextDouble() * 1000;
-            nph[i] = rng.nextInt(4);
-            iso[i] = rng.nextDouble();
-            w[i] = 0.5 + rng.nextDouble();
-            for (int v = 0; v < VARIATIONS; v++) wv[v][i] = w[i] * (0.9 + 0.2 * rng.nextDouble());
-        }
+    static double[] plainJava(BenchTables tables, long count) {
+        Columns c = Columns.of(tables, count);
         ThreadMXBean threads = ManagementFactory.getThreadMXBean();
         double[] best = {Double.MAX_VALUE, Double.MAX_VALUE};
         for (int pass = 0; pass < 3; pass++) {
             long c0 = threads.getCurrentThreadCpuTime(), t0 = System.nanoTime();
-            double check = loop(m, nph, iso, w, wv);
+            double check = loop(c, new double[3 * BINS * (2 * VARIATIONS + 1)], new double[3 * BINS * (2 * VARIATIONS + 1)],
+                    new double[6]);
             double cpu = (threads.getCurrentThreadCpuTime() - c0) * 1e-9, wall = (System.nanoTime() - t0) * 1e-9;
             if (!(check > 0)) throw new IllegalStateException("no event selected");
             if (cpu < best[1]) best = new double[] {wall, cpu};
@@ -172,12 +168,43 @@ public final class BuildSpeed {
         return best;
     }
 
-    /** One pass: the cut flow of the two steps and the 41 sums and squares per bin; the total of the sums. */
-    static double loop(double[] m, int[] nph, double[] iso, double[] w, double[][] wv) {
+    /** The columns of the benchmark's tables in arrays. */
+    record Columns(double[] m, int[] nph, double[] iso, double[] w, double[][] wv) {
+        /** The first {@code count} events of {@code tables}, in the order of the samples and their files. */
+        static Columns of(BenchTables tables, long count) {
+            int n = Math.toIntExact(Math.min(count, tables.events));
+            Columns c = new Columns(new double[n], new int[n], new double[n], new double[n], new double[tables.variations][n]);
+            double[] row = new double[4 + tables.variations];
+            int i = 0;
+            for (int s = 0; s < tables.samples && i < n; s++) {
+                for (int f = 0; f < tables.files(s) && i < n; f++) {
+                    BenchTables.Events e = tables.events(s, f);
+                    for (int k = tables.fileEvents(s, f); k > 0 && i < n; k--, i++) {
+                        e.next(row);
+                        c.m[i] = row[0];
+                        c.nph[i] = (int) row[1];
+                        c.iso[i] = row[2];
+                        c.w[i] = row[3];
+                        for (int v = 0; v < tables.variations; v++) c.wv[v][i] = row[4 + v];
+                    }
+                }
+            }
+            return c;
+        }
+    }
+
+    /**
+     * One pass: into {@code flow} the cut flow of the two steps ([region × 2 + step], weighted),
+     * into {@code sums} and {@code squares} the 41 sums of w and w² per region and bin
+     * ([(region × bins + bin) × 41 + weight]: nominal, then up and down of each variation); returns
+     * the total of the sums and the flow.
+     */
+    static double loop(Columns c, double[] sums, double[] squares, double[] flow) {
+        double[] m = c.m(), iso = c.iso(), w = c.w();
+        int[] nph = c.nph();
+        double[][] wv = c.wv();
         int n = m.length;
         int weights = 2 * VARIATIONS + 1;
-        double[] sums = new double[3 * BINS * weights], squares = new double[sums.length];
-        double[] flow = new double[6];
         for (int i = 0; i < n; i++) {
             double wi = w[i];
             boolean two = nph[i] >= 2;
