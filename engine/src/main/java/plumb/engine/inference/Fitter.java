@@ -37,6 +37,7 @@ public final class Fitter {
     private final boolean[] baseHeld;
     private final double[] baseStart;
     private boolean computeErrors = true;
+    private boolean computeChecks = true;
     private boolean searchOtherSides = true;
 
     /**
@@ -119,6 +120,14 @@ public final class Fitter {
      */
     public void computeErrors(boolean on) {
         computeErrors = on;
+    }
+
+    /**
+     * Whether fits with errors also make their {@link FitChecks} (default true). Injection toys
+     * keep only the POI, its error and the pulls, so they switch the checks off.
+     */
+    public void computeChecks(boolean on) {
+        computeChecks = on;
     }
 
     /** Number of variables the minimiser sees (nParams, or nAll with explicit γ). */
@@ -424,7 +433,7 @@ public final class Fitter {
             atKink[i] = m.kinked(i) && !held[i] && (r.x()[i] == 0 || r.x()[i] == LEFT_OF_KINK);
         }
         // only for fits with errors: toys and refits skip them with the covariance
-        FitChecks checks = computeErrors ? FitChecks.of(m, dim, cov == null ? null : r.hessian(), errors, heldAll, values)
+        FitChecks checks = computeErrors && computeChecks ? FitChecks.of(m, dim, cov == null ? null : r.hessian(), errors, heldAll, values)
                 : FitChecks.none(m.nAll());
         return new FitResult(status, r.value(), values, errors, covTheta, heldAll, r.evaluations(), r.iterations(),
                 nanos * 1e-9, others, atKink, checks);

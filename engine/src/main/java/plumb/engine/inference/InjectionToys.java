@@ -131,8 +131,9 @@ public final class InjectionToys {
         public Worker worker(CompiledModel m) {
             boolean[] allChannels = new boolean[m.nChannels()];
             Arrays.fill(allChannels, true); // toys fill blinded channels too (docs/model-format.md)
-            return new Worker(new Fitter(m, DataSets.asimov(m, point), settings, held, heldValues),
-                    DataSets.expectedCounts(m, point), allChannels);
+            Fitter fitter = new Fitter(m, DataSets.asimov(m, point), settings, held, heldValues);
+            fitter.computeChecks(false); // a toy keeps only the POI, its error and the pulls
+            return new Worker(fitter, DataSets.expectedCounts(m, point), allChannels);
         }
 
         /** Toy {@code first + i}: generated, fitted from the generating point, reduced to a {@link ToyFit}. */

@@ -148,6 +148,36 @@ class InjectionToysTest {
         }
     }
 
+    /**
+     * A toy's result is that of an ordinary fit with errors to the same toy data from the
+     * generating point, bit for bit: the toys leave out only what they do not keep (the fit checks).
+     */
+    @Test
+    void toysEqualOrdinaryFitsOfTheirData() {
+        CompiledModel m = ModelCompiler.compile(TestModels.mixed(2, ModelOptions.McStatConstraint.POISSON));
+        InjectionToys toys = new InjectionToys(m, FitSettings.defaults(), NONE, NO_VALUES);
+        double[] point = toys.generatingPoint(1.5, false).values();
+        ToyFit[] fits = toys.run(point, 11, true, 0, 12, 1, null);
+        int[] pulled = toys.pulledParameters();
+        double[] expected = DataSets.expectedCounts(m, point);
+        boolean[] all = new boolean[m.nChannels()];
+        Arrays.fill(all, true);
+        for (ToyFit t : fits) {
+            Fitter plain = new Fitter(m, Toys.generate(m, expected, point, all, 11, t.index(), true), FitSettings.defaults());
+            FitResult r = plain.fit(point, NONE, NO_VALUES);
+            assertTrue(Double.isFinite(r.checks().smallestEigenvalue()) || !r.converged(), "the plain fit makes its checks");
+            assertEquals(r.status(), t.status());
+            assertEquals(Double.valueOf(r.values()[m.poi()]), Double.valueOf(t.poi()), "toy " + t.index());
+            assertEquals(Double.valueOf(r.errors()[m.poi()]), Double.valueOf(t.poiError()), "toy " + t.index());
+            for (int k = 0; k < pulled.length; k++) {
+                int p = pulled[k];
+                double pull = r.errors()[p] > 0 ? (r.values()[p] - point[p]) / r.errors()[p] : Double.NaN;
+                assertEquals(Double.valueOf(pull), Double.valueOf(t.nuisancePulls()[k]), m.parameterNames(p));
+            }
+        }
+        assertTrue(Arrays.stream(fits).filter(ToyFit::usable).count() >= 10, "most toys converge");
+    }
+
     /** The Asimov closure returns every parameter to its generating value within 1e-6. */
     @Test
     void asimovClosureOnTheMixedModel() {
