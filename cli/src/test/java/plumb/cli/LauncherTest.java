@@ -70,9 +70,9 @@ class LauncherTest {
     }
 
     /**
-     * The class-data archive: made after a build by a training run under a temporary name, used
-     * when it is newer than the jar, remade when the jar is newer, and left out when it cannot be
-     * made (the command still runs, without it).
+     * The class-data archive: made after a build by a training run (which lists the classes) and a
+     * dump, under temporary names, used when it is newer than the jar, remade when the jar is
+     * newer, and left out when either step fails (the command still runs, without it).
      */
     @Test
     void classDataArchiveIsMadeUsedAndRemade() throws Exception {
@@ -88,33 +88,38 @@ class LauncherTest {
         Path jar = dir.resolve("cli/target/plumb.jar");
         Files.writeString(jar, "jar");
         Path archive = dir.resolve("cli/target/plumb.jsa");
-        // a java that writes the archive asked for unless the file "broken" exists, and counts training runs
-        script(dir.resolve("bin/java"), "for a; do case $a in -XX:ArchiveClassesAtExit=*)\n"
-                + "  echo run >> " + dir.resolve("trainings") + "\n"
-                + "  [ -f " + dir.resolve("broken") + " ] || echo archive > \"${a#*=}\";; esac; done\n"
+        // a java that writes the class list of a training run unless the file "broken" exists (and
+        // counts training runs), and the archive of a dump unless the file "nodump" exists
+        script(dir.resolve("bin/java"), "dump=0; for a; do [ \"$a\" = -Xshare:dump ] && dump=1; done\n"
+                + "for a; do case $a in\n"
+                + "  -XX:DumpLoadedClassList=*) echo run >> " + dir.resolve("trainings") + "\n"
+                + "    [ -f " + dir.resolve("broken") + " ] || echo classes > \"${a#*=}\";;\n"
+                + "  -XX:SharedArchiveFile=*) [ $dump = 1 ] && [ ! -f " + dir.resolve("nodump") + " ] && echo archive > \"${a#*=}\";;\n"
+                + "esac; done\n"
                 + "echo \"java $*\"\n");
 
-        Files.writeString(dir.resolve("broken"), "");
-        String[] without = launch();
-        assertEquals("0", without[0], without[2]);
-        assertFalse(without[1].contains("SharedArchiveFile"), without[1]);
-        assertFalse(Files.exists(archive));
-        try (var files = Files.list(dir.resolve("cli/target"))) {
-            assertEquals(1, files.count(), "no temporary archive left behind");
+        for (String failure : new String[] {"broken", "nodump"}) {
+            Files.writeString(dir.resolve(failure), "");
+            String[] without = launch();
+            assertEquals("0", without[0], without[2]);
+            assertFalse(without[1].contains("SharedArchiveFile"), without[1]);
+            assertFalse(Files.exists(archive));
+            try (var files = Files.list(dir.resolve("cli/target"))) {
+                assertEquals(1, files.count(), "no temporary class list or archive left behind");
+            }
+            Files.delete(dir.resolve(failure));
         }
-
-        Files.delete(dir.resolve("broken"));
         String[] with = launch();
         assertTrue(with[1].contains("-XX:SharedArchiveFile=") && with[1].contains("plumb.jsa -Xlog:cds=off"), with[1]);
         assertTrue(Files.exists(archive));
-        assertEquals(2, Files.readAllLines(dir.resolve("trainings")).size());
+        assertEquals(3, Files.readAllLines(dir.resolve("trainings")).size());
         launch();
-        assertEquals(2, Files.readAllLines(dir.resolve("trainings")).size(), "a fresh archive is not remade");
+        assertEquals(3, Files.readAllLines(dir.resolve("trainings")).size(), "a fresh archive is not remade");
 
         Files.setLastModifiedTime(archive, java.nio.file.attribute.FileTime.fromMillis(
                 Files.getLastModifiedTime(jar).toMillis() - 5000));
         String[] again = launch();
-        assertEquals(3, Files.readAllLines(dir.resolve("trainings")).size(), "an archive older than the jar is remade");
+        assertEquals(4, Files.readAllLines(dir.resolve("trainings")).size(), "an archive older than the jar is remade");
         assertTrue(again[1].contains("SharedArchiveFile"), again[1]);
     }
 }
