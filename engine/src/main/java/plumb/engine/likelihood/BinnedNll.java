@@ -87,6 +87,12 @@ public final class BinnedNll implements Objective {
     private double[] sinkCurvature;
     private double[] sinkMixed;
 
+    /**
+     * While {@link #valueGradientCurvature} runs: the Hessian's terms weighted by w_b = 1 − n_b/ν_b
+     * (those with second derivatives of ν) are left out.
+     */
+    private boolean gaussNewton;
+
     /** Bins per fused rank-k update of a channel's Hessian block: the block is read and written once per this many bins. */
     private static final int FUSED = 4;
 
@@ -203,6 +209,23 @@ public final class BinnedNll implements Objective {
     @Override
     public double valueGradientHessian(double[] x, double[] gradient, double[] hessian) {
         return evaluate(x, gradient, hessian, explicitGamma);
+    }
+
+    /**
+     * −ln L, its gradient, and the Gauss–Newton form of its Hessian: Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ plus
+     * the constraint terms, without the terms w_b ∇²ν_b (w_b = 1 − n_b/ν_b) that make the exact
+     * Hessian indefinite far from the minimum; in the profiled layout the γ are eliminated from
+     * that matrix by the same Schur complement. Positive semidefinite everywhere, equal to the
+     * Hessian where the model matches the data (w_b = 0), and about as costly.
+     */
+    @Override
+    public double valueGradientCurvature(double[] x, double[] gradient, double[] curvature) {
+        gaussNewton = true;
+        try {
+            return evaluate(x, gradient, curvature, explicitGamma);
+        } finally {
+            gaussNewton = false;
+        }
     }
 
     /**
@@ -417,7 +440,9 @@ public final class BinnedNll implements Objective {
                     // to the Hessian once: the scattered writes stay within a block in cache.
                     int L = m.channelParams[c].length;
                     Arrays.fill(hMat, 0, L * L, 0);
-                    for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
+                    if (!gaussNewton) {
+                        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
+                    }
                     binOuterProducts(c, hess, hs, explicit);
                     scatter(m.channelParams[c], hess, hs);
                 }
@@ -750,7 +775,7 @@ public final class BinnedNll implements Objective {
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
-            double wb = w[b];
+            double wb = gaussNewton ? 0 : w[b];
             if (qb == 0 && wb == 0) continue;
             binGradients(c, b);
             rankOne(gLoc, qb, L);
@@ -790,7 +815,7 @@ public final class BinnedNll implements Objective {
         int pending = 0;
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
-            double wb = w[b];
+            double wb = gaussNewton ? 0 : w[b];
             if (qb == 0 && wb == 0) continue;
             double gammaB = binGammaValue[b];
             double weight = qb * gammaB * gammaB;

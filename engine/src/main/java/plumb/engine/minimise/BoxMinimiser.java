@@ -211,6 +211,12 @@ abstract class BoxMinimiser implements Minimiser {
         return objective.valueGradientHessian(at, gradient, hessian);
     }
 
+    /** f, gradient and the objective's positive semidefinite curvature form ({@link Objective#valueGradientCurvature}). */
+    double evaluateCurvature(double[] at, double[] gradient, double[] curvature) {
+        evaluations++;
+        return objective.valueGradientCurvature(at, gradient, curvature);
+    }
+
     double evaluateGradient(double[] at, double[] gradient) {
         evaluations++;
         return objective.valueAndGradient(at, gradient);

@@ -20,4 +20,13 @@ public interface Objective {
      * triangles) with ∇f(x) and ∇²f(x).
      */
     double valueGradientHessian(double[] x, double[] gradient, double[] hessian);
+
+    /**
+     * f(x), ∇f(x), and a positive semidefinite curvature matrix close to ∇²f(x) near a minimum
+     * (e.g. the Gauss–Newton form of a likelihood), for points where the Hessian is indefinite.
+     * The default is the Hessian itself.
+     */
+    default double valueGradientCurvature(double[] x, double[] gradient, double[] curvature) {
+        return valueGradientHessian(x, gradient, curvature);
+    }
 }
