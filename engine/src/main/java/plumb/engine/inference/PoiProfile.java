@@ -1,9 +1,11 @@
 package plumb.engine.inference;
 
 import plumb.engine.compile.CompiledModel;
+import plumb.engine.likelihood.BinnedNll;
 import plumb.engine.likelihood.DataSet;
 import plumb.engine.minimise.MinimumStatus;
 
+import java.util.Arrays;
 import java.util.Locale;
 import java.util.TreeMap;
 
@@ -11,7 +13,8 @@ import java.util.TreeMap;
  * The profile likelihood of the parameter of interest on one data set: the unconditional best fit
  * and conditional fits with the POI held, from which the test statistics q̃μ and q0 follow
  * (Cowan, Cranmer, Gross, Vitells, EPJ C 71 (2011) 1554, eqs. 12 and 16). Conditional fits are
- * cached by μ and each new one starts from the cached fit at the nearest μ: the result depends only
+ * cached by μ and each new one starts from the cached fit at the nearest μ, moved toward the new μ's
+ * minimum ({@link #nearestStart}): the result depends only
  * on the sequence of μ asked for, which a sequential root-finding makes deterministic. Not
  * thread-safe: one per thread.
  */
@@ -114,10 +117,28 @@ public final class PoiProfile {
         return r;
     }
 
+    /**
+     * The start of the fit at μ: the cached fit at the nearest μ (or the best fit) moved along the
+     * linear response of the other parameters, Δθ_i = Σ_iμ/Σ_μμ · Δμ with the best fit's
+     * covariance, then brought closer by {@link ChordSteps} (docs/engine.md section 5).
+     */
     private double[] nearestStart(double mu) {
         Double lo = conditional.floorKey(mu), hi = conditional.ceilingKey(mu);
         Double key = lo == null ? hi : hi == null ? lo : (mu - lo <= hi - mu ? lo : hi);
-        return key == null ? best().values() : conditional.get(key).values();
+        FitResult from = key == null ? best() : conditional.get(key);
+        double[] x = Arrays.copyOf(from.values(), fitter.dimension());
+        int poi = m.poi(), nP = m.nParams();
+        double[] cov = best().covariance();
+        if (cov == null || !(cov[poi * nP + poi] > 0)) return x;
+        double shift = (mu - x[poi]) / cov[poi * nP + poi];
+        boolean[] held = best().held();
+        for (int i = 0; i < nP; i++) {
+            if (!held[i]) x[i] = Math.max(m.lower(i), Math.min(m.upper(i), x[i] + cov[i * nP + poi] * shift));
+        }
+        x[poi] = mu;
+        BinnedNll nll = fitter.likelihood();
+        if (ChordSteps.apply(m, nll, best(), poi)) ChordSteps.improve(m, nll, best(), x, poi);
+        return x;
     }
 
     /**

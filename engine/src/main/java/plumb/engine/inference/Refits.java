@@ -72,7 +72,7 @@ final class Refits {
      */
     FitResult refit(Fitter fitter, int k, double value) {
         if (fitter.mayHaveSeveralMinima()) return refitEverywhere(fitter, k, value);
-        FitResult r = refitFrom(fitter, k, value, start(k, value));
+        FitResult r = refitFrom(fitter, k, value, improvedStart(fitter, k, value));
         if (r.converged()) return r;
         // A failed warm start (a strongly non-linear response): once more from the best fit with
         // only θ_k moved, then from the nominal values. Each start depends only on the task.
@@ -100,7 +100,14 @@ final class Refits {
             plain[k] = value;
             nominal[k] = value;
         }
-        return refitFrom(fitter, k, value, start(k, value), plain, nominal);
+        return refitFrom(fitter, k, value, improvedStart(fitter, k, value), plain, nominal);
+    }
+
+    /** The warm start moved by {@link ChordSteps} toward the refit's minimum where they apply. */
+    private double[] improvedStart(Fitter fitter, int k, double value) {
+        double[] x = start(k, value);
+        if (ChordSteps.apply(m, fitter.likelihood(), best, k)) ChordSteps.improve(m, fitter.likelihood(), best, x, k);
+        return x;
     }
 
     private FitResult refitFrom(Fitter fitter, int k, double value, double[]... starts) {
