@@ -68,17 +68,19 @@ public final class Discovery {
     private record ToyWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, double[] generating,
                            long seed) implements RangeWork<ToyWork.Worker, Double> {
 
-        record Worker(Fitter fitter, double[] expected) { }
+        record Worker(Fitter fitter, double[] expected, ToyStart start) { }
 
         @Override
         public Worker worker(CompiledModel m) {
-            return new Worker(Fitter.valuesOnly(m, data, settings, held, heldValues), DataSets.expectedCounts(m, generating));
+            Fitter fitter = Fitter.valuesOnly(m, data, settings, held, heldValues);
+            double[] expected = DataSets.expectedCounts(m, generating);
+            return new Worker(fitter, expected, new ToyStart(fitter, generating, expected, data.channelIncluded(), held));
         }
 
         @Override
         public Double run(Worker w, CompiledModel m, int i) {
             w.fitter().setData(Toys.generate(m, w.expected(), generating, data.channelIncluded(), seed, i, true));
-            return q0(m, w.fitter(), generating);
+            return q0(m, w.fitter(), w.start().of(w.fitter()));
         }
     }
 

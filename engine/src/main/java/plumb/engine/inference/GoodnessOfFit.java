@@ -161,18 +161,20 @@ public final class GoodnessOfFit {
     private record ToyWork(DataSet data, FitSettings settings, int[] held, double[] heldValues, double[] fitted,
                            long seed) implements RangeWork<ToyWork.Worker, Double> {
 
-        record Worker(Fitter fitter, double[] expected) { }
+        record Worker(Fitter fitter, double[] expected, ToyStart start) { }
 
         @Override
         public Worker worker(CompiledModel m) {
-            return new Worker(Fitter.valuesOnly(m, data, settings, held, heldValues), DataSets.expectedCounts(m, fitted));
+            Fitter fitter = Fitter.valuesOnly(m, data, settings, held, heldValues);
+            double[] expected = DataSets.expectedCounts(m, fitted);
+            return new Worker(fitter, expected, new ToyStart(fitter, fitted, expected, data.channelIncluded(), held));
         }
 
         @Override
         public Double run(Worker w, CompiledModel m, int i) {
             DataSet toy = Toys.generate(m, w.expected(), fitted, data.channelIncluded(), seed, i, true);
             w.fitter().setData(toy);
-            FitResult r = w.fitter().fit(fitted, -1, 0);
+            FitResult r = w.fitter().fit(w.start().of(w.fitter()), -1, 0);
             return PoiProfile.minimumFound(r) ? statistic(m, toy, r.values(), null) : Double.NaN;
         }
     }

@@ -13,7 +13,8 @@ import java.util.function.IntConsumer;
  *
  * <p>A batch is a pure function of (model, fit settings, held parameters, generating point, seed,
  * first toy, count): toy i draws from its own random stream ({@link Toys}), every toy fit starts
- * from the generating point (never from the previous toy of its thread) and results are stored by
+ * from a point made of the generating point and the toy's own data ({@link ToyStart}), never from
+ * the previous toy of its thread, and results are stored by
  * index. So results do not depend on the thread count, and batches (first, count) merge exactly
  * into the run of all their toys. Immutable and thread-safe; the fitters live in the workers.
  */
@@ -124,8 +125,8 @@ public final class InjectionToys {
     private record Work(FitSettings settings, int[] held, double[] heldValues, int[] pulled, double[] point, long seed,
                         long first, boolean fluctuateAux) implements RangeWork<Work.Worker, ToyFit> {
 
-        /** A thread's fitter with the generating point's expected counts. */
-        record Worker(Fitter fitter, double[] expected, boolean[] channels) { }
+        /** A thread's fitter with the generating point's expected counts and the toys' start. */
+        record Worker(Fitter fitter, double[] expected, boolean[] channels, ToyStart start) { }
 
         @Override
         public Worker worker(CompiledModel m) {
@@ -133,15 +134,16 @@ public final class InjectionToys {
             Arrays.fill(allChannels, true); // toys fill blinded channels too (docs/model-format.md)
             Fitter fitter = new Fitter(m, DataSets.asimov(m, point), settings, held, heldValues);
             fitter.computeChecks(false); // a toy keeps only the POI, its error and the pulls
-            return new Worker(fitter, DataSets.expectedCounts(m, point), allChannels);
+            double[] expected = DataSets.expectedCounts(m, point);
+            return new Worker(fitter, expected, allChannels, new ToyStart(fitter, point, expected, allChannels, held));
         }
 
-        /** Toy {@code first + i}: generated, fitted from the generating point, reduced to a {@link ToyFit}. */
+        /** Toy {@code first + i}: generated, fitted from its {@link ToyStart}, reduced to a {@link ToyFit}. */
         @Override
         public ToyFit run(Worker w, CompiledModel m, int i) {
             long index = first + i;
             w.fitter().setData(Toys.generate(m, w.expected(), point, w.channels(), seed, index, fluctuateAux));
-            FitResult r = w.fitter().fit(point, new int[0], new double[0]);
+            FitResult r = w.fitter().fit(w.start().of(w.fitter()), new int[0], new double[0]);
             double[] values = r.values(), errors = r.errors();
             double[] pulls = new double[pulled.length];
             for (int k = 0; k < pulled.length; k++) {

@@ -111,11 +111,16 @@ public final class ToyLimits {
             return Fitter.valuesOnly(m, fitterData, settings, held, heldValues);
         }
 
+        /** The start of the background-only toys' fits, for a worker's fitter. */
+        ToyStart startZero(Fitter fitter, double[] expectedZero) {
+            return new ToyStart(fitter, generatingZero, expectedZero, channels, held);
+        }
+
         /** Background-only toy i with its best fit (null when the fit found no minimum) and the fits made. */
-        BackgroundToy background(CompiledModel m, Fitter fitter, double[] expectedZero, int i) {
+        BackgroundToy background(CompiledModel m, Fitter fitter, double[] expectedZero, ToyStart startZero, int i) {
             DataSet toy = Toys.generate(m, expectedZero, generatingZero, channels, seedB, i, true);
             fitter.setData(toy);
-            FitResult best = fitter.fit(generatingZero, -1, 0);
+            FitResult best = fitter.fit(startZero.of(fitter), -1, 0);
             return new BackgroundToy(toy, PoiProfile.minimumFound(best) ? best : null);
         }
     }
@@ -134,16 +139,18 @@ public final class ToyLimits {
             this.keep = keep;
         }
 
-        record Worker(Fitter fitter, double[] expectedZero) { }
+        record Worker(Fitter fitter, double[] expectedZero, ToyStart startZero) { }
 
         @Override
         public Worker worker(CompiledModel m) {
-            return new Worker(c.fitter(m), DataSets.expectedCounts(m, c.generatingZero));
+            Fitter fitter = c.fitter(m);
+            double[] expectedZero = DataSets.expectedCounts(m, c.generatingZero);
+            return new Worker(fitter, expectedZero, c.startZero(fitter, expectedZero));
         }
 
         @Override
         public Outcome run(Worker w, CompiledModel m, int i) {
-            BackgroundToy t = c.background(m, w.fitter(), w.expectedZero(), i);
+            BackgroundToy t = c.background(m, w.fitter(), w.expectedZero(), w.startZero(), i);
             if (keep != null) keep[i] = t;
             return new Outcome(t.best() == null ? Double.NaN : 0, 1);
         }
@@ -175,17 +182,22 @@ public final class ToyLimits {
         static final class Worker {
             final Fitter fitter;
             final double[] expected;
+            final ToyStart start;
             double[] expectedZero;
+            ToyStart startZero;
 
-            Worker(Fitter fitter, double[] expected) {
+            Worker(Fitter fitter, double[] expected, ToyStart start) {
                 this.fitter = fitter;
                 this.expected = expected;
+                this.start = start;
             }
         }
 
         @Override
         public Worker worker(CompiledModel m) {
-            return new Worker(c.fitter(m), DataSets.expectedCounts(m, generating));
+            Fitter fitter = c.fitter(m);
+            double[] expected = DataSets.expectedCounts(m, generating);
+            return new Worker(fitter, expected, new ToyStart(fitter, generating, expected, c.channels, c.held));
         }
 
         @Override
@@ -193,7 +205,7 @@ public final class ToyLimits {
             int[] fits = new int[1];
             if (i < n) {
                 w.fitter.setData(Toys.generate(m, w.expected, generating, c.channels, seedSb, i, true));
-                FitResult best = w.fitter.fit(generating, -1, 0);
+                FitResult best = w.fitter.fit(w.start.of(w.fitter), -1, 0);
                 fits[0]++;
                 double q = PoiProfile.minimumFound(best) ? qTilde(m, w.fitter, best, mu, fits) : Double.NaN;
                 return new Outcome(q, fits[0]);
@@ -203,8 +215,11 @@ public final class ToyLimits {
                 toy = background[i - n];
                 w.fitter.setData(toy.data());
             } else {
-                if (w.expectedZero == null) w.expectedZero = DataSets.expectedCounts(m, c.generatingZero);
-                toy = c.background(m, w.fitter, w.expectedZero, i - n);
+                if (w.expectedZero == null) {
+                    w.expectedZero = DataSets.expectedCounts(m, c.generatingZero);
+                    w.startZero = c.startZero(w.fitter, w.expectedZero);
+                }
+                toy = c.background(m, w.fitter, w.expectedZero, w.startZero, i - n);
             }
             if (toy.best() == null) return new Outcome(Double.NaN, 0);
             double q = qTilde(m, w.fitter, toy.best(), mu, fits);

@@ -149,8 +149,8 @@ class InjectionToysTest {
     }
 
     /**
-     * A toy's result is that of an ordinary fit with errors to the same toy data from the
-     * generating point, bit for bit: the toys leave out only what they do not keep (the fit checks).
+     * A toy's result is that of an ordinary fit with errors to the same toy data from the same
+     * start ({@link ToyStart}), bit for bit: the toys leave out only what they do not keep (the fit checks).
      */
     @Test
     void toysEqualOrdinaryFitsOfTheirData() {
@@ -164,7 +164,7 @@ class InjectionToysTest {
         Arrays.fill(all, true);
         for (ToyFit t : fits) {
             Fitter plain = new Fitter(m, Toys.generate(m, expected, point, all, 11, t.index(), true), FitSettings.defaults());
-            FitResult r = plain.fit(point, NONE, NO_VALUES);
+            FitResult r = plain.fit(new ToyStart(plain, point, expected, all, NONE).of(plain), NONE, NO_VALUES);
             assertTrue(Double.isFinite(r.checks().smallestEigenvalue()) || !r.converged(), "the plain fit makes its checks");
             assertEquals(r.status(), t.status());
             assertEquals(Double.valueOf(r.values()[m.poi()]), Double.valueOf(t.poi()), "toy " + t.index());

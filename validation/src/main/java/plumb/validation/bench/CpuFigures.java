@@ -10,7 +10,8 @@ import java.lang.management.*;
  * times: each figure is the thread CPU time of this (main) thread, or the process CPU time where
  * worker threads do the work, printed per round (every round the same work; toy rounds take the
  * next toys). {@code java -cp validation/target/benchmarks.jar plumb.validation.bench.CpuFigures WHAT N [SIZE|THREADS]}
- * with WHAT one of {@code toy N} (N toys of the medium model, a best and a conditional fit each),
+ * with WHAT one of {@code toy N} (N toys of the medium model, a best fit from the toys' start and a
+ * conditional fit each, as the toy loops make them),
  * {@code fit N SIZE}, {@code limit N SIZE}, {@code inject N THREADS}, {@code rank ROUNDS SIZE}.
  */
 public final class CpuFigures {
@@ -29,12 +30,13 @@ public final class CpuFigures {
             double[] generating = DataSets.asimovAt(m, mu, new int[0], new double[0], true, FitSettings.defaults()).values();
             double[] expected = DataSets.expectedCounts(m, generating);
             Fitter f = Fitter.valuesOnly(m, observed, FitSettings.defaults(), new int[0], new double[0]);
+            ToyStart start = new ToyStart(f, generating, expected, observed.channelIncluded(), new int[0]);
             int toy = 0;
             for (int round = 0; round < 6; round++) {
                 double t0 = cpu(); int fits = 0; double sum = 0;
                 for (int r = 0; r < reps; r++) {
                     f.setData(Toys.generate(m, expected, generating, observed.channelIncluded(), 99, toy++, true));
-                    FitResult best = f.fit(generating, -1, 0);
+                    FitResult best = f.fit(start.of(f), -1, 0);
                     FitResult at = f.fit(best.values(), m.poi(), mu);
                     sum += best.nll() + at.nll(); fits += 2;
                 }
