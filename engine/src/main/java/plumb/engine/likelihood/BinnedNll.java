@@ -5,6 +5,7 @@ import plumb.engine.compile.ConstraintType;
 import plumb.engine.compile.NormInterpolation;
 import plumb.engine.compile.ShapeInterpolation;
 import plumb.engine.linalg.QuadraticForms;
+import plumb.engine.linalg.WeightedGram;
 import plumb.engine.minimise.Objective;
 
 import java.util.Arrays;
@@ -46,6 +47,8 @@ public final class BinnedNll implements Objective {
     // ---- work arrays, sized once ----
     private final double[] base;
     private final boolean[] clipped;
+    /** Per sample: whether any of its entries is clipped. */
+    private final boolean[] sampleClipped;
     private final double[] mulValue;   // g, g', g'' per multiplicative term
     private final double[] dC;         // ∂C_s/∂(term k) per term
     private final double[] sampleC;
@@ -70,9 +73,12 @@ public final class BinnedNll implements Objective {
     private final double[] extendedGrad;
     /** Channels whose samples all take part in the MC-statistics term: their Hessian is one rank-one term per bin. */
     private final boolean[] channelAllMc;
-    /** Up to {@link #FUSED} bins' vectors ∇c_b (local indices, stride maxLocal) and weights, awaiting one fused update. */
-    private final double[] pendingVec;
-    private final double[] pendingWeight;
+    /** Vectors ∇c_b (local indices, stride maxLocal) and weights of a channel's bins, for one {@link WeightedGram} update. */
+    private final double[] gramVec;
+    private final double[] gramWeight;
+    /** The same vectors for every bin of the channel, by parameter: row l holds ∂c_b/∂θ_l over the bins. */
+    private final double[] gramByParam;
+    private final int[] gramBin;
     /** Per-sample T_s and per-shape-term sums kept from the gradient pass for the Hessian. */
     private final double[] sampleT;
     private final double[] shapeDBase;
@@ -92,9 +98,6 @@ public final class BinnedNll implements Objective {
      * (those with second derivatives of ν) are left out.
      */
     private boolean gaussNewton;
-
-    /** Bins per fused rank-k update of a channel's Hessian block: the block is read and written once per this many bins. */
-    private static final int FUSED = 4;
 
     /** A likelihood in the profiled layout. */
     public BinnedNll(CompiledModel model, DataSet data) {
@@ -122,6 +125,7 @@ public final class BinnedNll implements Objective {
         int entries = m.nominalYield.length;
         base = new double[entries];
         clipped = new boolean[entries];
+        sampleClipped = new boolean[m.nSamples];
         int nMul = m.mulParam.length;
         mulValue = new double[3 * nMul];
         dC = new double[nMul];
@@ -157,8 +161,14 @@ public final class BinnedNll implements Objective {
             channelAllMc[c] = all;
         }
         stride = maxLocal;
-        pendingVec = new double[FUSED * maxLocal];
-        pendingWeight = new double[FUSED];
+        int mostBins = 0;
+        for (int c = 0; c < m.nChannels; c++) {
+            if (channelAllMc[c]) mostBins = Math.max(mostBins, m.channelBinStart[c + 1] - m.channelBinStart[c]);
+        }
+        gramVec = new double[mostBins * maxLocal];
+        gramWeight = new double[mostBins];
+        gramByParam = new double[mostBins * maxLocal];
+        gramBin = new int[mostBins];
         sampleT = new double[m.nSamples];
         shapeDBase = new double[m.shapeParam.length];
         shapeU2 = new double[m.shapeParam.length];
@@ -495,11 +505,14 @@ public final class BinnedNll implements Objective {
                 int so = m.shapeCoeffStart[k];
                 for (int b = 0; b < len; b++) base[from + b] += shapeS[so + b] * p1 + shapeA[so + b] * p2;
             }
+            boolean any = false;
             for (int e = from; e < from + len; e++) {
                 boolean neg = base[e] < 0;
                 clipped[e] = neg;
+                any |= neg;
                 if (neg) base[e] = 0;
             }
+            sampleClipped[s] = any;
         }
     }
 
@@ -806,13 +819,13 @@ public final class BinnedNll implements Objective {
      * (profiled layout). Then ∇ν_b = γ_b ∇c_b and the mixed derivative h_b = (w_b + q_b c_b γ_b) ∇c_b,
      * so the bin's two rank-one terms q_b ∇ν∇νᵀ − h_b h_bᵀ / H_γγ are one,
      * [q_b γ_b² − (w_b + q_b c_b γ_b)² / H_γγ] ∇c_b ∇c_bᵀ, with the cancellation in a scalar. The
-     * channel's block then is Vᵀ·diag(weights)·V over its bins, summed {@link #FUSED} bins per pass.
+     * channel's block then is Vᵀ·diag(weights)·V over its bins, summed by {@link WeightedGram} (four bins per pass, cache-blocked).
      */
     private void allMcOuterProducts(int c, double[] hess, int n) {
         final int[] local = m.channelParams[c];
         final int L = local.length;
         final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        int pending = 0;
+        int count = 0;
         for (int b = b0; b < b1; b++) {
             double qb = q[b];
             double wb = gaussNewton ? 0 : w[b];
@@ -829,46 +842,49 @@ public final class BinnedNll implements Objective {
                 }
             }
             if (weight == 0) continue;
-            mcGradient(c, b, pendingVec, pending * stride);
-            pendingWeight[pending++] = weight;
-            if (pending == FUSED) {
-                fusedUpdate(L);
-                pending = 0;
-            }
+            gramBin[count] = b - b0;
+            gramWeight[count++] = weight;
         }
-        for (int k = 0; k < pending; k++) rankOne(pendingVec, k * stride, pendingWeight[k], L);
+        if (count == 0) return;
+        mcGradients(c);
+        // one row per bin kept, as the Gram update reads them
+        final int nb = b1 - b0;
+        for (int r = 0; r < count; r++) {
+            final int b = gramBin[r], at = r * stride;
+            for (int l = 0; l < L; l++) gramVec[at + l] = gramByParam[l * nb + b];
+        }
+        WeightedGram.addUpper(gramVec, stride, gramWeight, count, L, hMat);
     }
 
-    /** ∇c_b (derivatives of the bin's MC-statistics part at γ = 1) in local indices, into out[at ..]. */
-    private void mcGradient(int c, int b, double[] out, int at) {
+    /**
+     * ∇c_b of every bin of channel c into {@link #gramByParam} (row l: the derivatives by the
+     * channel's l-th parameter over its bins), a loop over the bins per term: the same sums, in the
+     * same order, as a pass over the samples bin by bin would make, in contiguous passes.
+     */
+    private void mcGradients(int c) {
         final int L = m.channelParams[c].length;
-        final int db = b - m.channelBinStart[c];
-        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
-        Arrays.fill(out, at, at + L, 0);
+        final int b0 = m.channelBinStart[c], nb = m.channelBinStart[c + 1] - b0;
+        final double[] shapeS = m.shapeS, shapeA = m.shapeA, out = gramByParam;
+        Arrays.fill(out, 0, L * nb, 0);
         for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
-            int e = m.sampleEntryStart[s] + db;
-            double bs = base[e];
-            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) out[at + m.mulLocal[k]] += bs * dC[k];
-            if (clipped[e]) continue;
-            double cs = sampleC[s];
-            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
-                int so = m.shapeCoeffStart[k] + db;
-                out[at + m.shapeLocal[k]] += cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
+            final int e0 = m.sampleEntryStart[s];
+            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
+                final int row = m.mulLocal[k] * nb;
+                final double d = dC[k];
+                for (int b = 0; b < nb; b++) out[row + b] += base[e0 + b] * d;
             }
-        }
-    }
-
-    /** Upper triangle of hMat += Σ_k weight_k v_k v_kᵀ over the {@link #FUSED} pending vectors. */
-    private void fusedUpdate(int L) {
-        final double[] v = pendingVec;
-        final int o1 = stride, o2 = 2 * stride, o3 = 3 * stride;
-        final double c0 = pendingWeight[0], c1 = pendingWeight[1], c2 = pendingWeight[2], c3 = pendingWeight[3];
-        for (int i = 0; i < L; i++) {
-            final double a0 = c0 * v[i], a1 = c1 * v[o1 + i], a2 = c2 * v[o2 + i], a3 = c3 * v[o3 + i];
-            if (a0 == 0 && a1 == 0 && a2 == 0 && a3 == 0) continue;
-            final int row = i * L;
-            for (int j = i; j < L; j++) {
-                hMat[row + j] += a0 * v[j] + a1 * v[o1 + j] + a2 * v[o2 + j] + a3 * v[o3 + j];
+            final double cs = sampleC[s];
+            final boolean anyClipped = sampleClipped[s];
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                final int row = m.shapeLocal[k] * nb, so = m.shapeCoeffStart[k];
+                final double p1 = shapeP[3 * k + 1];
+                if (!anyClipped) {
+                    for (int b = 0; b < nb; b++) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
+                } else {
+                    for (int b = 0; b < nb; b++) {
+                        if (!clipped[e0 + b]) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
+                    }
+                }
             }
         }
     }
