@@ -1,5 +1,7 @@
 package plumb.engine.inference;
 
+import org.apache.commons.math3.analysis.UnivariateFunction;
+import org.apache.commons.math3.analysis.solvers.BrentSolver;
 import org.apache.commons.math3.distribution.NormalDistribution;
 import org.apache.commons.math3.special.Erf;
 import plumb.engine.compile.CompiledModel;
@@ -12,7 +14,8 @@ import java.util.List;
  * Vitells, EPJ C 71 (2011) 1554, section 3.7 and eqs. 65–66; CLs: A. L. Read, J. Phys. G 28
  * (2002) 2693). σ comes from the Asimov data set at μ = 0 and is evaluated at each μ tested:
  * σ(μ)² = μ²/q_μ,A(μ), so every formula below needs only √q_μ,A = μ/σ. Each limit, observed and
- * each expected band, is its own root in μ found by {@link Roots} to 1e-5 relative.
+ * each expected band, is its own root in μ found by {@link Roots} to 1e-5 relative: secant steps whose second point
+ * is the limit the Gaussian model would give with the widths measured at the first.
  */
 public final class AsymptoticUpperLimit {
 
@@ -88,8 +91,9 @@ public final class AsymptoticUpperLimit {
         for (int k = 0; k < bands.length; k++) {
             int n = ExpectedBands.N[k];
             double target = bandTarget(n, cl);
-            bands[k] = Roots.decreasingRoot(mu -> target - Math.sqrt(asimov.qTilde(mu)), sigma * target, lo, hi,
-                    "the expected limit (" + bandName(n) + ")");
+            // second point: where the band would be with σ as measured at the first (μ/σ = target)
+            bands[k] = Roots.decreasingRoot(mu -> target - Math.sqrt(asimov.qTilde(mu)), sigma * target,
+                    mu -> mu * target / Math.sqrt(asimov.qTilde(mu)), lo, hi, "the expected limit (" + bandName(n) + ")");
             sigma = bands[k] / target;   // the next band's first guess uses σ where this one ended
         }
         double observedLimit = Double.NaN, muHat = Double.NaN;
@@ -97,13 +101,35 @@ public final class AsymptoticUpperLimit {
             muHat = observed.muHat();
             double lnAlpha = Math.log(1 - cl);
             double guess = Math.max(muHat, 0) + sigma * bandTarget(0, cl);
+            double from = Math.max(muHat, 0);
             observedLimit = Roots.decreasingRoot(mu -> Math.log(Math.max(Double.MIN_NORMAL,
-                    cls(observed.qTilde(mu), asimov.qTilde(mu)))) - lnAlpha, guess, lo, hi, "the observed limit");
+                    cls(observed.qTilde(mu), asimov.qTilde(mu)))) - lnAlpha, guess,
+                    mu -> gaussianLimit(observed.qTilde(mu), asimov.qTilde(mu), mu, from, hi, lnAlpha),
+                    lo, hi, "the observed limit");
         }
         int fits = asimov.fits() + (observed == null ? 0 : observed.fits());
         ExpectedBands none = ExpectedBands.missing();
         return new LimitResult(cl, "asymptotic", observedLimit, ExpectedBands.of(bands), Double.NaN, none, muHat,
                 List.of(), 0, 0, fits, (System.nanoTime() - t0) * 1e-9);
+    }
+
+    /**
+     * The observed limit if the widths measured at μ held everywhere: q̃ and q_A growing as
+     * (μ − μ̂)² and μ² with the values {@code q} and {@code qA} they have at μ (where q̃ is 0, the
+     * Asimov width stands in). The second point of the observed limit's secant search; NaN when
+     * the model gives no root in (μ̂, hi].
+     */
+    static double gaussianLimit(double q, double qA, double mu, double muHat, double hi, double lnAlpha) {
+        if (!(qA > 0) || !(mu > 0)) return Double.NaN;
+        double perMuA = qA / (mu * mu);
+        double perMu = q > 0 && mu > muHat ? q / ((mu - muHat) * (mu - muHat)) : perMuA;
+        UnivariateFunction model = x -> {
+            double d = Math.max(x - muHat, 0);
+            return Math.log(Math.max(Double.MIN_NORMAL, cls(perMu * d * d, perMuA * x * x))) - lnAlpha;
+        };
+        double a = Math.max(muHat, 0) + 1e-12 * hi;
+        if (!(a < hi) || !(model.value(a) > 0) || !(model.value(hi) < 0)) return Double.NaN;
+        return new BrentSolver(1e-12, 1e-14 * hi).solve(200, model, a, hi);
     }
 
     /**
