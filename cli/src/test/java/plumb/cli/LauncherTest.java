@@ -32,7 +32,13 @@ class LauncherTest {
     }
 
     private String[] launch() throws Exception {
-        ProcessBuilder pb = new ProcessBuilder("bash", dir.resolve("plumb").toString(), "--version");
+        return launch("--version");
+    }
+
+    private String[] launch(String... args) throws Exception {
+        java.util.List<String> command = new java.util.ArrayList<>(java.util.List.of("bash", dir.resolve("plumb").toString()));
+        command.addAll(java.util.List.of(args));
+        ProcessBuilder pb = new ProcessBuilder(command).directory(dir.toFile());
         pb.environment().put("PATH", dir.resolve("bin") + ":" + System.getenv("PATH"));
         pb.redirectOutput(dir.resolve("out.txt").toFile()).redirectError(dir.resolve("err.txt").toFile());
         Process p = pb.start();
@@ -121,5 +127,37 @@ class LauncherTest {
         String[] again = launch();
         assertEquals(4, Files.readAllLines(dir.resolve("trainings")).size(), "an archive older than the jar is remade");
         assertTrue(again[1].contains("SharedArchiveFile"), again[1]);
+    }
+
+    /**
+     * The quick compiler alone (-XX:TieredStopAtLevel=1) for a fit or check of model files under
+     * 1 MB; both compilers for other commands, random starts, a bigger file or standard input.
+     */
+    @Test
+    void shortRunsUseTheQuickCompilerOnly() throws Exception {
+        Path launcher = Path.of("..", "plumb");
+        assumeTrue(Files.isRegularFile(launcher), "run from the cli module");
+        Files.copy(launcher, dir.resolve("plumb"));
+        Files.writeString(dir.resolve("pom.xml"), "<project/>");
+        Files.createDirectories(dir.resolve("bin"));
+        Files.createDirectories(dir.resolve("cli/target"));
+        script(dir.resolve("bin/mvn"), "exit 0\n");
+        Files.writeString(dir.resolve("cli/target/plumb.jar"), "jar");
+        script(dir.resolve("bin/java"), "echo \"java $*\"\n");
+        Files.writeString(dir.resolve("small.json"), "{}");
+        try (var f = new java.io.RandomAccessFile(dir.resolve("big.json").toFile(), "rw")) {
+            f.setLength(2_000_000);
+        }
+        String quick = "-XX:TieredStopAtLevel=1";
+        assertTrue(launch("fit", "small.json")[1].contains(quick + " -jar"));
+        assertTrue(launch("check", "--strict", "small.json")[1].contains(quick));
+        assertTrue(launch("fit", "--intervals", "mu", "--json", "out.json", "small.json")[1].contains(quick));
+        for (String[] args : new String[][] {{"fit", "big.json"}, {"fit", "small.json", "big.json"},
+                {"fit", "--starts", "5", "small.json"}, {"fit", "--starts=5", "small.json"}, {"fit", "-"},
+                {"fit"}, {"inject", "small.json"}, {"limit", "small.json"}, {"--version"}}) {
+            String[] r = launch(args);
+            assertEquals("0", r[0], r[2]);
+            assertTrue(r[1].startsWith("java ") && !r[1].contains(quick), String.join(" ", args) + ": " + r[1]);
+        }
     }
 }
