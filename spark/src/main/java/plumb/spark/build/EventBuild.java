@@ -29,6 +29,7 @@ import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -48,6 +49,8 @@ public final class EventBuild {
     private final PrintWriter err;
     private final List<String> warnings = new ArrayList<>();
     private int views;
+    /** Per view, the expressions Spark's analysis resolved when they were checked, by their SQL. */
+    private final Map<String, Map<String, org.apache.spark.sql.catalyst.expressions.Expression>> analysed = new HashMap<>();
     /** The Parquet files behind each view (CSV views are not listed). */
     private final Map<String, List<String>> parquetFiles = new LinkedHashMap<>();
 
@@ -197,7 +200,7 @@ public final class EventBuild {
             progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
                     ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : "")
                     + (shifted.isEmpty() ? "" : ", " + shifted.size() + " shifted observable" + (shifted.size() > 1 ? "s" : "")));
-            HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view));
+            HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view), analysed.get(view));
             refuseBad(s.name(), regions, weights, sums, s.events().path());
             assembly.nominal(s, regions, job, sums, sums.flow());
             int entry = regions.size();
@@ -232,7 +235,7 @@ public final class EventBuild {
         if (dataView != null) {
             progress(++pass, passes, "data");
             HistogramJob job = new HistogramJob(dataRegions, observables(dataRegions), List.of("1"));
-            HistogramJob.Sums sums = job.run(spark, dataView, parquetFiles.get(dataView));
+            HistogramJob.Sums sums = job.run(spark, dataView, parquetFiles.get(dataView), analysed.get(dataView));
             refuseBadObservable("data", dataRegions, sums, spec.data().path());
             assembly.data(dataRegions, job, sums, sums.flow());
         }
@@ -251,7 +254,7 @@ public final class EventBuild {
 
     private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
         HistogramJob job = new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
-        HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view));
+        HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view), analysed.get(view));
         refuseBad(s.name() + " (" + path + ")", regions, List.of(s.weight().sql()), sums, path);
         return perRegion(job, sums);
     }
@@ -336,15 +339,19 @@ public final class EventBuild {
      * names its key.
      */
     private void checkAll(String view, List<Pending> checks) {
-        StructField[] fields;
+        List<String> sql = checks.stream().map(p -> p.expr().sql()).toList();
+        List<org.apache.spark.sql.catalyst.expressions.Expression> trees;
         try {
-            fields = spark.table(view).selectExpr(checks.stream().map(p -> p.expr().sql()).toArray(String[]::new))
-                    .schema().fields();
+            trees = BatchCompiler.analysed(spark.table(view), sql);
         } catch (Exception x) {   // analysed again one by one below
-            fields = null;
+            trees = null;
         }
-        if (fields != null && fields.length == checks.size()) {
-            for (int i = 0; i < fields.length; i++) checkType(checks.get(i), fields[i].dataType());
+        if (trees != null) {
+            Map<String, org.apache.spark.sql.catalyst.expressions.Expression> known = analysed.computeIfAbsent(view, v -> new HashMap<>());
+            for (int i = 0; i < trees.size(); i++) {
+                checkType(checks.get(i), trees.get(i).dataType());
+                known.put(sql.get(i), trees.get(i));   // the column-batch pass compiles these without a second analysis
+            }
             return;
         }
         for (Pending p : checks) check(view, p);

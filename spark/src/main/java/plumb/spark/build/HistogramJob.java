@@ -5,6 +5,7 @@ import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.catalyst.expressions.Expression;
 import plumb.spark.build.BuildSpec.Outside;
 import plumb.spark.build.BuildSpec.Region;
 
@@ -40,9 +41,11 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
 
     /**
      * {@code -Dplumb.build.rows=true}: every pass through Spark's SQL projection, as before the
-     * column batches (to compare the two paths' speed and numbers).
+     * column batches (to compare the two paths' speed and numbers; read at each pass).
      */
-    static final boolean ROWS_ONLY = Boolean.getBoolean("plumb.build.rows");
+    static boolean rowsOnly() {
+        return Boolean.getBoolean("plumb.build.rows");
+    }
 
     /** Every region once with the given observables, summing every weight. */
     HistogramJob(List<Region> regions, List<String> observables, List<String> weights) {
@@ -169,10 +172,15 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
      * whatever the batches do not evaluate.
      */
     Sums run(SparkSession spark, String table, List<String> parquetFiles) {
+        return run(spark, table, parquetFiles, null);
+    }
+
+    /** As above; {@code analysed}: trees of the expressions already resolved over the table, by SQL (may be null). */
+    Sums run(SparkSession spark, String table, List<String> parquetFiles, Map<String, Expression> analysed) {
         Map<String, Integer> distinct = new LinkedHashMap<>();
         Tally.Layout layout = layout(distinct);
-        if (parquetFiles != null && !ROWS_ONLY) {
-            ParquetPass.Program program = ParquetPass.compile(spark, table, this, distinct);
+        if (parquetFiles != null && !rowsOnly()) {
+            ParquetPass.Program program = ParquetPass.compile(spark, table, this, distinct, analysed);
             Sums direct = program == null ? null : ParquetPass.run(spark, parquetFiles, program, layout);
             if (direct != null) return direct;
         }

@@ -48,10 +48,12 @@ final class ParquetPass {
     }
 
     /**
-     * Compiles the job's expressions over {@code view} (one analysis by Spark for all of them);
-     * null when one of them is outside the subset.
+     * Compiles the job's expressions over {@code view}: the trees in {@code analysed} (by SQL;
+     * may be null) as they are, the others after one analysis by Spark; null when one of them is
+     * outside the subset.
      */
-    static Program compile(SparkSession spark, String view, HistogramJob job, Map<String, Integer> distinct) {
+    static Program compile(SparkSession spark, String view, HistogramJob job, Map<String, Integer> distinct,
+                           Map<String, Expression> analysed) {
         List<Region> regions = job.distinctRegions();
         List<String> sql = new ArrayList<>();
         for (Region r : regions) for (BuildSpec.Step s : r.steps()) sql.add(s.keep().sql());
@@ -60,7 +62,13 @@ final class ParquetPass {
         Map<String, BatchExpr.Column> columns = new LinkedHashMap<>();
         BatchCompiler compiler = new BatchCompiler(columns);
         try {
-            List<Expression> trees = BatchCompiler.analysed(spark.table(view), sql);
+            List<String> missing = sql.stream().filter(e -> analysed == null || !analysed.containsKey(e)).distinct().toList();
+            Map<String, Expression> known = new java.util.HashMap<>(analysed == null ? Map.of() : analysed);
+            if (!missing.isEmpty()) {
+                List<Expression> more = BatchCompiler.analysed(spark.table(view), missing);
+                for (int i = 0; i < missing.size(); i++) known.put(missing.get(i), more.get(i));
+            }
+            List<Expression> trees = sql.stream().map(known::get).toList();
             int k = 0;
             BatchExpr[][] steps = new BatchExpr[regions.size()][];
             for (int r = 0; r < regions.size(); r++) {
@@ -129,6 +137,7 @@ final class ParquetPass {
         for (BatchExpr c : columns) c.allocate(BATCH);
         for (BatchExpr r : roots) r.allocate(BATCH);
         int[][] depth = new int[program.steps().length][BATCH];
+        double[][] x = new double[program.observables().length][], w = new double[program.weights().length][];
         BatchExpr.Batch batch = new BatchExpr.Batch();
         VectorizedParquetRecordReader reader = new VectorizedParquetRecordReader(false, BATCH);
         try {
@@ -156,12 +165,25 @@ final class ParquetPass {
                     return tally;
                 }
                 for (int r = 0; r < depth.length; r++) depth(program.steps()[r], depth[r], n);
-                tally.add(n, depth, program.observables(), program.weights());
+                for (int o = 0; o < x.length; o++) x[o] = doubles(program.observables()[o], x[o], n);
+                for (int k = 0; k < w.length; k++) w[k] = doubles(program.weights()[k], w[k], n);
+                tally.add(n, depth, x, w);
             }
         } finally {
             reader.close();
         }
         return tally;
+    }
+
+    /**
+     * A number node's values as doubles with NaN where null: its own array when it holds doubles
+     * without nulls, else {@code buffer} (made when null) filled.
+     */
+    private static double[] doubles(BatchExpr e, double[] buffer, int n) {
+        if (e.kind == BatchExpr.Kind.DOUBLE && !e.anyNull) return e.d;
+        double[] out = buffer == null || buffer == e.d ? new double[BATCH] : buffer;
+        for (int i = 0; i < n; i++) out[i] = e.asDouble(i);
+        return out;
     }
 
     /** How many steps each event passes in a row (a null step fails, as in the row path). */

@@ -121,10 +121,10 @@ final class Tally implements Serializable {
      * as {@link #add(InternalRow)} so that a partition's sums do not depend on the path.
      *
      * @param depth       per distinct region, per event: the steps passed in a row
-     * @param observables the distinct observables (null: NaN)
-     * @param weights     the weights (null: NaN)
+     * @param observables the distinct observables per event (NaN where null)
+     * @param weights     the weights per event (NaN where null)
      */
-    void add(int n, int[][] depth, BatchExpr[] observables, BatchExpr[] weights) {
+    void add(int n, int[][] depth, double[][] observables, double[][] weights) {
         int regions = layout.steps().length, nw = layout.weights();
         int[] steps = layout.steps(), depthOf = layout.depthOf(), observableOf = layout.observableOf();
         int[] offsets = layout.offsets(), weightsUsed = layout.weightsUsed();
@@ -140,7 +140,7 @@ final class Tally implements Serializable {
                 selected |= d == steps[r];
             }
             if (!any) continue;
-            double w0 = weights[0].asDouble(i);
+            double w0 = weights[0][i];
             for (int r = 0; r < regions; r++) {
                 int d = depth[r][i];
                 double[] weighted = stepWeighted[r];
@@ -152,14 +152,14 @@ final class Tally implements Serializable {
             }
             if (!selected) continue;
             for (int k = 0; k < nw; k++) {
-                double v = k == 0 ? w0 : weights[k].asDouble(i);
+                double v = weights[k][i];
                 if (!Double.isFinite(v)) badWeight[k]++;
                 w[k] = v;
             }
             for (int e = 0; e < depthOf.length; e++) {
                 int r = depthOf[e];
                 if (depth[r][i] != steps[r]) continue;
-                double x = observables[observableOf[e]].asDouble(i);
+                double x = observables[observableOf[e]][i];
                 if (Double.isNaN(x)) {
                     badObservable[e]++;
                     continue;
