@@ -25,8 +25,10 @@ public final class DenseCholesky implements CholeskySolver {
     private final double[] factor;
     /** 1 / U_ii: multiplications instead of divisions in the solves. */
     private final double[] inverseDiagonal;
-    /** Work space for the inverse: U⁻¹, upper triangle, stride m. */
+    /** Work space for the inverse: (Uᵀ)⁻¹, lower triangle, stride m. */
     private final double[] work;
+    /** Unit weights of the Gram update in {@link #invert}. */
+    private final double[] ones;
     private int size;
     private boolean factored;
 
@@ -43,6 +45,8 @@ public final class DenseCholesky implements CholeskySolver {
         this.factor = new double[capacity * capacity];
         this.inverseDiagonal = new double[capacity];
         this.work = new double[capacity * capacity];
+        this.ones = new double[capacity];
+        java.util.Arrays.fill(ones, 1);
     }
 
     @Override
@@ -163,44 +167,70 @@ public final class DenseCholesky implements CholeskySolver {
         requireFactor();
         final int m = size;
         Checks.vectorArgument(inverse, m * m, "inverse");
-        // W = U⁻¹ (upper triangular), from the last row up: W_i = (e_i − Σ_{k>i} U_ik W_k) / U_ii.
-        for (int i = m - 1; i >= 0; i--) {
-            final int rowI = i * m;
-            for (int j = i; j < m; j++) work[rowI + j] = 0;
-            work[rowI + i] = 1;
-            for (int k = i + 1; k < m; k++) {
-                final double s = factor[rowI + k];
-                if (s == 0) continue;
-                final int rowK = k * m;
-                for (int j = k; j < m; j++) {
-                    work[rowI + j] -= s * work[rowK + j];
-                }
-            }
-            final double inv = inverseDiagonal[i];
-            for (int j = i; j < m; j++) work[rowI + j] *= inv;
-        }
-        // A⁻¹ = W Wᵀ: (A⁻¹)_ij = Σ_{k ≥ max(i,j)} W_ik W_jk, rows of W against rows of W, the
-        // result computed for j ≥ i and mirrored (exactly symmetric).
+        lowerInverse(factor, m, inverseDiagonal, work);
+        // A⁻¹ = UᵀU inverted = XᵀX with X = (Uᵀ)⁻¹: the Gram matrix of X's rows, upper triangle,
+        // then mirrored (exactly symmetric).
+        java.util.Arrays.fill(inverse, 0, m * m, 0);
+        WeightedGram.addUpperOfTriangularRows(work, m, ones, m, m, inverse);
         for (int i = 0; i < m; i++) {
             final int rowI = i * m;
-            for (int j = i; j < m; j++) {
-                final int rowJ = j * m;
-                double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-                int k = j;
-                for (; k + 3 < m; k += 4) {
-                    s0 += work[rowI + k] * work[rowJ + k];
-                    s1 += work[rowI + k + 1] * work[rowJ + k + 1];
-                    s2 += work[rowI + k + 2] * work[rowJ + k + 2];
-                    s3 += work[rowI + k + 3] * work[rowJ + k + 3];
-                }
-                for (; k < m; k++) s0 += work[rowI + k] * work[rowJ + k];
-                final double sum = (s0 + s1) + (s2 + s3);
-                inverse[rowI + j] = sum;
-                inverse[j * m + i] = sum;
-            }
+            for (int j = i + 1; j < m; j++) inverse[j * m + i] = inverse[rowI + j];
         }
     }
 
+    /** Rows of X finished together in {@link #lowerInverse}, and the width of its column tiles. */
+    private static final int BLOCK_ROWS = 16, BLOCK_COLUMNS = 128;
+
+    /**
+     * X = (Uᵀ)⁻¹, lower triangular, into x (row-major, stride m, zeros above the diagonal), from
+     * X_i = (e_i − Σ_{k<i} U_ki X_k) / U_ii. Blocked: for a block of {@link #BLOCK_ROWS} rows, the
+     * sum over the rows above the block is taken tile by tile of {@link #BLOCK_COLUMNS} columns,
+     * four rows k per pass, so each finished row passes through the cache once per block rather
+     * than once per row; then the rows within the block, one after the other.
+     */
+    static void lowerInverse(double[] u, int m, double[] invDiag, double[] x) {
+        java.util.Arrays.fill(x, 0, m * m, 0);
+        for (int i0 = 0; i0 < m; i0 += BLOCK_ROWS) {
+            final int i1 = Math.min(m, i0 + BLOCK_ROWS);
+            // rows k < i0 are zero beyond column k: a tile from j0 on needs the rows k ≥ j0
+            for (int j0 = 0; j0 < i0; j0 += BLOCK_COLUMNS) {
+                final int j1 = Math.min(i0, j0 + BLOCK_COLUMNS);
+                int k = j0;
+                for (; k + 3 < i0; k += 4) {
+                    final int r0 = k * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
+                    for (int i = i0; i < i1; i++) {
+                        final double s0 = u[r0 + i], s1 = u[r1 + i], s2 = u[r2 + i], s3 = u[r3 + i];
+                        if (s0 == 0 && s1 == 0 && s2 == 0 && s3 == 0) continue;
+                        final int rowI = i * m;
+                        for (int j = j0; j < j1; j++) {
+                            x[rowI + j] += s0 * x[r0 + j] + s1 * x[r1 + j] + s2 * x[r2 + j] + s3 * x[r3 + j];
+                        }
+                    }
+                }
+                for (; k < i0; k++) {
+                    final int rowK = k * m;
+                    for (int i = i0; i < i1; i++) {
+                        final double s = u[rowK + i];
+                        if (s == 0) continue;
+                        final int rowI = i * m;
+                        for (int j = j0; j < j1; j++) x[rowI + j] += s * x[rowK + j];
+                    }
+                }
+            }
+            for (int i = i0; i < i1; i++) {
+                final int rowI = i * m;
+                for (int k = i0; k < i; k++) {
+                    final double s = u[k * m + i];
+                    if (s == 0) continue;
+                    final int rowK = k * m;
+                    for (int j = 0; j <= k; j++) x[rowI + j] += s * x[rowK + j];
+                }
+                final double inv = invDiag[i];
+                for (int j = 0; j < i; j++) x[rowI + j] *= -inv;
+                x[rowI + i] = inv;
+            }
+        }
+    }
 
     private void requireFactor() {
         if (!factored) {

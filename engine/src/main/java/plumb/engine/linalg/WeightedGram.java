@@ -26,12 +26,26 @@ public final class WeightedGram {
      * r·stride + n), r &lt; rows: rows in groups of four from the first, then the remainder one by one.
      */
     public static void addUpper(double[] v, int stride, double[] w, int rows, int n, double[] c) {
-        final int grouped = rows - rows % 4;
+        update(v, stride, w, rows, n, c, false);
+    }
+
+    /**
+     * {@link #addUpper} for rows that are zero beyond their index (v_r[j] = 0 for j &gt; r, a lower
+     * triangular matrix by rows, zeros stored): a tile of columns from j₀ on skips the rows above
+     * j₀, which add nothing to it. Rows are grouped in fours from j₀ on.
+     */
+    public static void addUpperOfTriangularRows(double[] v, int stride, double[] w, int rows, int n, double[] c) {
+        update(v, stride, w, rows, n, c, true);
+    }
+
+    private static void update(double[] v, int stride, double[] w, int rows, int n, double[] c, boolean triangular) {
         for (int j0 = 0; j0 < n; j0 += TILE_COLUMNS) {
             final int j1 = Math.min(n, j0 + TILE_COLUMNS);
+            final int first = triangular ? Math.min(j0, rows) : 0;
+            final int grouped = rows - (rows - first) % 4;
             for (int i0 = 0; i0 < j1; i0 += TILE_ROWS) {
                 final int i1 = Math.min(j1, i0 + TILE_ROWS);
-                for (int r = 0; r < grouped; r += 4) {
+                for (int r = first; r < grouped; r += 4) {
                     tileOfFour(v, r * stride, stride, w, r, c, n, i0, i1, j0, j1);
                 }
                 for (int r = grouped; r < rows; r++) {

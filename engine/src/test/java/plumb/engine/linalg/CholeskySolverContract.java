@@ -130,12 +130,13 @@ abstract class CholeskySolverContract {
     }
 
     @ParameterizedTest
-    @ValueSource(ints = {1, 2, 5, 17, 40})
+    @ValueSource(ints = {1, 2, 5, 17, 40, 131, 300})
     void agreesWithCommonsMathOnRandomSpdMatrices(int m) {
         SplittableRandom random = new SplittableRandom(20240601L + m);
-        CholeskySolver solver = create(40);
+        CholeskySolver solver = create(300);
         for (int trial = 0; trial < 3; trial++) {
             double[] a = randomSpd(m, random);
+            if (trial == 2) blockPattern(a, m);
             double[] b = new double[m];
             for (int i = 0; i < m; i++) {
                 b[i] = random.nextDouble(-1, 1);
@@ -169,6 +170,23 @@ abstract class CholeskySolverContract {
                     assertEquals(inverse[i * m + j], inverse[j * m + i], 0.0); // exactly symmetric
                 }
             }
+        }
+    }
+
+    /**
+     * Zeros between blocks of 30 among all but the last 10 variables (the pattern of a likelihood's
+     * Hessian: channel parameters and global ones), kept positive definite by a dominant diagonal.
+     */
+    private static void blockPattern(double[] a, int m) {
+        for (int i = 0; i < m; i++) {
+            for (int j = 0; j < m; j++) {
+                if (i < m - 10 && j < m - 10 && i / 30 != j / 30) a[i * m + j] = 0;
+            }
+        }
+        for (int i = 0; i < m; i++) {
+            double sum = 0;
+            for (int j = 0; j < m; j++) if (j != i) sum += Math.abs(a[i * m + j]);
+            a[i * m + i] = sum + 1;
         }
     }
 
