@@ -539,8 +539,9 @@ abstract class BatchExpr implements Serializable {
                 else for (int i = 0; i < n; i++) d[i] = (double) a.l[i];
                 return;
             }
+            // int: lo < v < hi (truncation then fits); bigint: lo <= v < hi (−2⁶³ itself is a double)
             double lo = bits == 32 ? -2147483649.0 : -9223372036854775808.0;
-            double hi = bits == 32 ? 2147483648.0 : 9223372036854775808.0;   // both exclusive but lo of bigint
+            double hi = bits == 32 ? 2147483648.0 : 9223372036854775808.0;
             for (int i = 0; i < n; i++) {
                 if (isNull(i)) {
                     l[i] = 0;
