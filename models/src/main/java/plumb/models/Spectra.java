@@ -104,6 +104,16 @@ final class Spectra {
         return out;
     }
 
+    /**
+     * {@code y} (in place; returned) set to 0 wherever {@code nominal} is 0: a template without
+     * events has no variation either. Otherwise a shifted peak's tail would give a bin with no
+     * nominal yield a variation on one side only, and the clip max(0, ·) a kink at θ = 0.
+     */
+    static double[] emptyWhere(double[] nominal, double[] y) {
+        for (int b = 0; b < y.length; b++) if (nominal[b] == 0) y[b] = 0;
+        return y;
+    }
+
     static double sum(double[] y) {
         double s = 0;
         for (int b = 0; b < y.length; b++) s += y[b];

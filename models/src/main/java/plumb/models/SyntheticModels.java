@@ -267,8 +267,8 @@ public final class SyntheticModels {
                 double[] up = shifted(c, s, size, altShape);
                 double[] down = sides == Sides.ONE_SIDED ? n.clone() : shifted(c, s, -size * downRatio, altShape);
                 // The norm part, if any, carries the change of total: the shape keeps the nominal total.
-                shape = new Variation.ShapeEffect(Spectra.round(Spectra.sameTotal(down, n)),
-                        Spectra.round(Spectra.sameTotal(up, n)));
+                shape = new Variation.ShapeEffect(Spectra.emptyWhere(n, Spectra.round(Spectra.sameTotal(down, n))),
+                        Spectra.emptyWhere(n, Spectra.round(Spectra.sameTotal(up, n))));
             }
             variations.get(c).get(s).add(new Variation(name, norm, shape, null, null));
         }

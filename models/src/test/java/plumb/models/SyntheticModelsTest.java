@@ -113,6 +113,27 @@ class SyntheticModelsTest {
         }
     }
 
+    @Test
+    void noVariationWhereTheNominalIsEmpty() {
+        // The signal peak's far tails round to 0; its shifted and widened variations must not
+        // give those bins events on one side (a kink of the clip at θ = 0 in every such bin).
+        int empty = 0;
+        for (Channel ch : SyntheticModels.generate(6, 200, 4, 60, SEED).channels()) {
+            for (Sample s : ch.samples()) {
+                for (Variation v : s.variations()) {
+                    if (v.shape() == null) continue;
+                    for (int b = 0; b < s.yields().length; b++) {
+                        if (s.yields()[b] != 0) continue;
+                        empty++;
+                        assertEquals(0.0, v.shape().up()[b], ch.name() + "/" + s.name() + "/" + v.parameter() + " bin " + b);
+                        assertEquals(0.0, v.shape().down()[b], ch.name() + "/" + s.name() + "/" + v.parameter() + " bin " + b);
+                    }
+                }
+            }
+        }
+        assertTrue(empty > 0, "the model has empty signal tails to check");
+    }
+
     private static void assertAllNonNegative(double[] y, String where) {
         for (double v : y) assertTrue(Double.isFinite(v) && v >= 0, where);
     }
