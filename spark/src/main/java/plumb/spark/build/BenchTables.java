@@ -45,15 +45,22 @@ import java.util.concurrent.Future;
  * it would only cost CPU when writing and when reading.
  *
  * <p>A manifest written last ({@value #MANIFEST}) lists the parameters and every file with its
- * size: a folder whose manifest matches is used as it is, anything else is generated again.
+ * size: a folder whose manifest matches is used as it is, anything else is generated again (a
+ * run stopped half-way is resumed: {@link #ensure}).
  */
 final class BenchTables {
 
     static final String MANIFEST = "tables-manifest.txt";
+    /** Present while a dataset is being written: its header. */
+    static final String UNDERWAY = "tables-underway.txt";
     /** Changes whenever the numbers generated for the same parameters change. */
     static final int GENERATOR_VERSION = 1;
-    /** Events per file at most: ~190 MB, above Spark's split size (two tasks each), few files to list. */
-    static final long EVENTS_PER_FILE = 1_000_000;
+    /**
+     * Events per file at most: ~47 MB, one row group (Parquet's default row group is 128 MB). The
+     * build reads a file per task: 10⁷ events make 4 files a sample, 10⁸ events 40, so both cores
+     * have work in every sample's pass; Spark's own scan packs several such files into a task.
+     */
+    static final long EVENTS_PER_FILE = 250_000;
 
     final long events;
     final int samples;
@@ -136,29 +143,43 @@ final class BenchTables {
     }
 
     /**
-     * Makes {@code dir} hold this dataset: nothing to do when it is there already; otherwise the
-     * manifest and the Parquet files of earlier datasets in the sample folders are removed and
-     * every file is written on {@code threads} threads. True when files were written.
+     * Makes {@code dir} hold this dataset: nothing to do when it is there already. Otherwise the
+     * files are written on {@code threads} threads, after a marker with the header
+     * ({@value #UNDERWAY}): a run that stops half-way leaves it, and the next run with the same
+     * parameters keeps the files already complete (a file gets its name only once written) and
+     * writes the rest. Without a matching marker, the manifest and the Parquet files of earlier
+     * datasets in the sample folders are removed first. True when files were written.
      */
     boolean ensure(Path dir, int threads) throws IOException {
         if (present(dir)) return false;
+        Files.createDirectories(dir);
         Files.deleteIfExists(dir.resolve(MANIFEST));
+        Path underway = dir.resolve(UNDERWAY);
+        boolean resume = Files.isRegularFile(underway) && Files.readString(underway).equals(header());
         for (int s = 0; s < Math.max(samples, 64); s++) {
             Path folder = dir.resolve("s" + s);
             if (!Files.isDirectory(folder)) continue;
             try (DirectoryStream<Path> old = Files.newDirectoryStream(folder, "{part-*.parquet,.part-*.writing}")) {
-                for (Path p : old) Files.delete(p);
+                for (Path p : old) {
+                    boolean keep = resume && s < samples && p.getFileName().toString().startsWith("part-")
+                            && isFileOfThisDataset(dir, s, p);
+                    if (!keep) Files.delete(p);
+                }
             }
         }
-        List<int[]> jobs = new ArrayList<>();
+        Files.writeString(underway, header());
+        List<int[]> jobs = new ArrayList<>(), missing = new ArrayList<>();
         for (int s = 0; s < samples; s++) {
             Files.createDirectories(dir.resolve("s" + s));
-            for (int f = 0; f < files(s); f++) jobs.add(new int[] {s, f});
+            for (int f = 0; f < files(s); f++) {
+                jobs.add(new int[] {s, f});
+                if (!Files.isRegularFile(file(dir, s, f))) missing.add(new int[] {s, f});
+            }
         }
         ExecutorService pool = Executors.newFixedThreadPool(Math.max(1, threads));
         try {
             List<Future<?>> done = new ArrayList<>();
-            for (int[] j : jobs) done.add(pool.submit(() -> write(dir, j[0], j[1], CompressionCodecName.UNCOMPRESSED)));
+            for (int[] j : missing) done.add(pool.submit(() -> write(dir, j[0], j[1], CompressionCodecName.UNCOMPRESSED)));
             for (Future<?> d : done) d.get();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
@@ -176,7 +197,13 @@ final class BenchTables {
         Path tmp = dir.resolve("." + MANIFEST + ".writing");
         Files.writeString(tmp, m);
         Files.move(tmp, dir.resolve(MANIFEST), StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
+        Files.delete(underway);
         return true;
+    }
+
+    private boolean isFileOfThisDataset(Path dir, int s, Path p) {
+        for (int f = 0; f < files(s); f++) if (file(dir, s, f).equals(p)) return true;
+        return false;
     }
 
     /** Writes file {@code f} of sample {@code s} under a hidden name, then renames it. */

@@ -61,15 +61,12 @@ public final class EventBuild {
     }
 
     /** The command's entry (called by the command line): opens Spark on the request's master, builds, closes. */
-    // "try": the runner is opened for its side effect, the Spark context that the session below
-    // is built on, and closed at the end of the block; the body need not name it
-    @SuppressWarnings("try")
     public static BuildOutcome run(BuildRequest request, PrintWriter out, PrintWriter err) {
         BuildSpec spec = BuildSpecReader.read(request.spec());
         err.printf(Locale.ROOT, "build: starting Spark (%s)%n", request.master());
         err.flush();
         try (SparkRunner runner = SparkRunner.open(request.master(), request.timeoutSeconds())) {
-            SparkSession spark = SparkSession.builder().getOrCreate();
+            SparkSession spark = BuildSession.of(runner);
             return build(spec, spark, request.out(), out, err);
         }
     }

@@ -103,6 +103,38 @@ class BenchTablesTest {
         }
     }
 
+    /** A run stopped half-way: the next keeps the complete files of the same parameters and writes the rest. */
+    @Test
+    void resumesAnInterruptedRun() throws IOException {
+        BenchTables t = new BenchTables(600, 2, 1, 8, 100);   // 3 files a sample
+        Path whole = dir.resolve("whole"), cut = dir.resolve("cut");
+        t.ensure(whole, 2);
+        assertTrue(t.ensure(cut, 2));
+        // as if stopped after two files: the marker back, the manifest and the other files gone
+        Files.writeString(cut.resolve(BenchTables.UNDERWAY), t.header());
+        Files.delete(cut.resolve(BenchTables.MANIFEST));
+        for (int s = 0; s < 2; s++) for (int f = 0; f < 3; f++) if (s == 1 || f > 1) Files.delete(BenchTables.file(cut, s, f));
+        long kept = Files.getLastModifiedTime(BenchTables.file(cut, 0, 0)).toMillis();
+        Files.setLastModifiedTime(BenchTables.file(cut, 0, 0), java.nio.file.attribute.FileTime.fromMillis(kept - 60_000));
+        assertTrue(t.ensure(cut, 2));
+        assertEquals(kept - 60_000, Files.getLastModifiedTime(BenchTables.file(cut, 0, 0)).toMillis(), "kept, not written again");
+        assertFalse(Files.exists(cut.resolve(BenchTables.UNDERWAY)));
+        assertEquals(Files.readString(whole.resolve(BenchTables.MANIFEST)), Files.readString(cut.resolve(BenchTables.MANIFEST)));
+        for (int s = 0; s < 2; s++) {
+            for (int f = 0; f < 3; f++) {
+                assertArrayEquals(Files.readAllBytes(BenchTables.file(whole, s, f)), Files.readAllBytes(BenchTables.file(cut, s, f)));
+            }
+        }
+        // a marker of other parameters keeps nothing
+        BenchTables other = new BenchTables(600, 2, 1, 9, 100);
+        Files.writeString(cut.resolve(BenchTables.UNDERWAY), t.header());
+        Files.delete(cut.resolve(BenchTables.MANIFEST));
+        assertTrue(other.ensure(cut, 2));
+        assertTrue(other.present(cut));
+        assertFalse(java.util.Arrays.equals(Files.readAllBytes(BenchTables.file(whole, 0, 0)),
+                Files.readAllBytes(BenchTables.file(cut, 0, 0))));
+    }
+
     /** Rows of a file as read by Parquet's example reader (n_ph as a double). */
     static List<double[]> read(Path file, int columns) throws IOException {
         List<double[]> rows = new ArrayList<>();

@@ -39,7 +39,11 @@ class BuildSpeedTest {
         Path spec = Files.writeString(dir.resolve("build.json"), BuildSpeed.spec(2));
         BuildOutcome outcome;
         try (SparkRunner runner = SparkRunner.open("local[2]", 600)) {   // generous: the machine running the tests may be busy
-            outcome = EventBuild.build(BuildSpecReader.read(spec), BuildSession.of(runner), dir.resolve("model.json"),
+            org.apache.spark.sql.SparkSession spark = BuildSession.of(runner);
+            assertEquals("2", spark.conf().get("spark.sql.shuffle.partitions"), "one shuffle partition per core of local[2]");
+            assertEquals("false", spark.conf().get("spark.sql.adaptive.enabled"));
+            assertEquals(String.valueOf(BuildSession.LISTED_ON_DRIVER), spark.conf().get("spark.sql.sources.parallelPartitionDiscovery.threshold"));
+            outcome = EventBuild.build(BuildSpecReader.read(spec), spark, dir.resolve("model.json"),
                     new PrintWriter(new StringWriter()), new PrintWriter(new StringWriter()));
         }
         Model model = ModelReader.read(dir.resolve("model.json"));
