@@ -1002,17 +1002,12 @@ public final class BinnedNll implements Objective {
 
     /** Upper triangle of hMat += f · v vᵀ. */
     private void rankOne(double[] v, double f, int L) {
-        rankOne(v, 0, f, L);
-    }
-
-    /** Upper triangle of hMat += f · v vᵀ, v read from v[at .. at + L). */
-    private void rankOne(double[] v, int at, double f, int L) {
         if (f == 0) return;
         for (int i = 0; i < L; i++) {
-            double vi = f * v[at + i];
+            double vi = f * v[i];
             if (vi == 0) continue;
             final int row = i * L;
-            for (int j = i; j < L; j++) hMat[row + j] += vi * v[at + j];
+            for (int j = i; j < L; j++) hMat[row + j] += vi * v[j];
         }
     }
 

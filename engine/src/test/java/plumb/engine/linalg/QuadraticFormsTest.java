@@ -87,7 +87,7 @@ class QuadraticFormsTest {
     }
 
     @Test
-    void refusesVectorsLongerThanItsWorkSpace() {
+    void refusesVectorsLongerThanItsCapacity() {
         assertThrows(IllegalArgumentException.class,
                 () -> new QuadraticForms(3).symmetric(new double[16], 4, new double[4], 4, 1, new double[1]));
     }
