@@ -64,7 +64,7 @@ public final class BuildSpeed {
         }
         long n = Long.parseLong(args[0]);
         Path dir = Path.of(args[1]);
-        long boundEvents = args.length > 2 ? Long.parseLong(args[2]) : Math.min(n, 10_000_000L);
+        long boundEvents = Math.min(n, args.length > 2 ? Long.parseLong(args[2]) : 10_000_000L);   // the bound takes events of the tables
         Files.createDirectories(dir);
         BenchTables tables = new BenchTables(n, SAMPLES, VARIATIONS, SEED);
         int threads = Runtime.getRuntime().availableProcessors();
