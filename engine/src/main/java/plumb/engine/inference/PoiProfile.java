@@ -36,6 +36,7 @@ public final class PoiProfile {
         this.m = m;
         this.fitter = new Fitter(m, data, settings, held, heldValues);
         fitter.computeErrors(false);   // conditional fits: −ln L and values only
+        fitter.computeChecks(false);   // the best fit's errors serve the bracket and the warm starts only
         this.what = what;
     }
 
