@@ -29,13 +29,14 @@ class ExitOneRuleTest {
     @TempDir
     Path dir;
 
-    /** Two free factors on one sample next to the signal: the best fit does not converge. */
+    /** A free factor on a sample with no yield in any bin: nothing fixes it, and the best fit does not converge. */
     private Path failingModel() throws IOException {
         Path p = dir.resolve("failing.json");
         Files.writeString(p, "{\"format\": \"plumb-model/1\", \"name\": \"failing\", \"poi\": \"mu\", \"channels\": ["
                 + "{\"name\": \"sr\", \"edges\": [0, 1, 2, 3], \"observed\": [12, 20, 9], \"samples\": ["
                 + "{\"name\": \"sig\", \"yields\": [1, 4, 1], \"factors\": [\"mu\"]},"
-                + "{\"name\": \"bkg\", \"yields\": [10, 15, 8], \"factors\": [\"a\", \"b\"]}]}]}");
+                + "{\"name\": \"bkg\", \"yields\": [10, 15, 8], \"factors\": [\"a\"]},"
+                + "{\"name\": \"ghost\", \"yields\": [0, 0, 0], \"factors\": [\"b\"]}]}]}");
         return p;
     }
 

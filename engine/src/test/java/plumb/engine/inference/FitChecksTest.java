@@ -28,6 +28,21 @@ class FitChecksTest {
     }
 
     @Test
+    void twoFactorsOfOneSampleNextToASignalAreFlaggedWhereverTheFitStops() {
+        // the flat direction a·b = const ends with a residual curvature of order the stopping
+        // gradient; the check must still name it
+        String ch = "{\"name\": \"sr\", \"edges\": [0, 1, 2, 3], \"observed\": [12, 20, 9], \"samples\": ["
+                + "{\"name\": \"sig\", \"yields\": [1, 4, 1], \"factors\": [\"mu\"]},"
+                + "{\"name\": \"bkg\", \"yields\": [10, 15, 8], \"factors\": [\"a\", \"b\"]}]}";
+        CompiledModel m = model(ch, "\"poi\": \"mu\", ");
+        FitResult r = fit(ch, "\"poi\": \"mu\", ");
+        assertTrue(r.converged(), r.status().toString());
+        assertTrue(r.checks().nearSingular(), "smallest eigenvalue " + r.checks().smallestEigenvalue());
+        String[] named = Arrays.stream(r.checks().degenerate()).mapToObj(i -> m.parameterNames(i)).sorted().toArray(String[]::new);
+        assertArrayEquals(new String[] {"a", "b"}, named);
+    }
+
+    @Test
     void twoFactorsOfOneSampleMakeANearSingularHessianNamingBoth() {
         String ch = "{\"name\": \"sr\", \"edges\": [0, 1, 2, 3], \"observed\": [12, 20, 9], \"samples\": ["
                 + "{\"name\": \"bkg\", \"yields\": [10, 15, 8], \"factors\": [\"a\", \"b\"]}]}";
