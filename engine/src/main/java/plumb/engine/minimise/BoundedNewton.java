@@ -9,6 +9,10 @@ package plumb.engine.minimise;
  * when the Newton decrement gᵀH⁻¹g of that free set is below {@link MinimiserOptions#tolerance()}.
  * Otherwise the step is taken on the face it can follow (free variables on a bound whose step
  * points outward are dropped and the system re-solved). Where the Hessian is not positive definite,
+ * the objective's positive semidefinite curvature form ({@link Objective#valueGradientCurvature},
+ * the Gauss–Newton form of a likelihood) takes its place at that point and at the following ones,
+ * until its Newton decrement falls below {@link #SWITCH_TO_EXACT}; the exact Hessian is then asked
+ * for again, and always decides convergence. Where the matrix used is still not positive definite,
  * Levenberg damping λ·diag(H) is added and λ raised tenfold until Cholesky succeeds. A backtracking
  * line search along the projected path x(α) = clip(x + α·d) accepts the first α meeting Armijo's
  * condition; if none does, λ is raised a hundredfold and the search repeated. λ falls tenfold after
@@ -26,8 +30,17 @@ public final class BoundedNewton extends BoxMinimiser {
     private static final double LAMBDA_START = 1e-3;
     private static final double LAMBDA_MAX = 1e12;
 
+    /**
+     * In the curvature form, the Newton decrement below which the next point gets the exact
+     * Hessian again.
+     */
+    static final double SWITCH_TO_EXACT = 1;
+
     private final double[] step;
     private double alphaAccepted;
+    /** Whether h holds the objective's curvature form (not its Hessian), and whether the next evaluations ask for it. */
+    private boolean hIsCurvature;
+    private boolean useCurvature;
 
     /** A minimiser for objectives of the given dimension with {@link MinimiserOptions#defaults()}. */
     public BoundedNewton(int dimension) {
@@ -54,18 +67,42 @@ public final class BoundedNewton extends BoxMinimiser {
             decrement = Double.NaN;
             return MinimumStatus.NON_FINITE;
         }
+        hIsCurvature = false;
+        useCurvature = false;
+        boolean curvatureAllowed = true;
         double lambda = 0;
         boolean hessianFirst = true;
         while (true) {
-            final int k = system.selectFree(box, x, g);
-            final boolean newtonDefinite = k == 0 || system.factor(h, 0);
+            int k = system.selectFree(box, x, g);
+            boolean newtonDefinite = k == 0 || system.factor(h, 0);
+            if (!newtonDefinite && !hIsCurvature && curvatureAllowed) {
+                // Indefinite Hessian: the objective's positive semidefinite curvature form at the
+                // same point instead of damping (same f and g).
+                if (outOfBudget()) {
+                    return MinimumStatus.MAX_EVALUATIONS;
+                }
+                f = evaluateCurvature(x, g, h);
+                hIsCurvature = true;
+                k = system.selectFree(box, x, g);
+                newtonDefinite = k == 0 || system.factor(h, 0);
+            }
             decrement = k == 0 ? 0 : newtonDefinite ? system.solve(g) : Double.NaN;
             if (newtonDefinite && decrement < options.tolerance()) {
-                return finishFactored(true);
+                if (!hIsCurvature) {
+                    return finishFactored(true);
+                }
+                // Converged on the curvature form: the exact Hessian has the last word here.
+                if (!exactAtX()) {
+                    return MinimumStatus.MAX_EVALUATIONS;
+                }
+                curvatureAllowed = false;
+                continue;
             }
             if (iterations >= iterationLimit) {
-                return MinimumStatus.MAX_ITERATIONS;
+                return exactAtX() ? MinimumStatus.MAX_ITERATIONS : MinimumStatus.MAX_EVALUATIONS;
             }
+            // Near the minimum the exact Hessian converges faster: ask for it at the next point.
+            useCurvature = hIsCurvature && !(newtonDefinite && decrement < SWITCH_TO_EXACT);
             final double previous = f;
             double lam = newtonDefinite ? 0 : Math.max(lambda, LAMBDA_START);
             boolean reuseFactor = newtonDefinite;
@@ -87,7 +124,7 @@ public final class BoundedNewton extends BoxMinimiser {
                     accepted = true;
                     break;
                 }
-                if (newtonDefinite && decrement <= options.fallbackTolerance()) {
+                if (newtonDefinite && decrement <= options.fallbackTolerance() && !hIsCurvature) {
                     // f cannot be lowered at machine precision and the point is within the
                     // fallback tolerance of the minimum of its quadratic model.
                     return finish();
@@ -95,17 +132,38 @@ public final class BoundedNewton extends BoxMinimiser {
                 lam = lam == 0 ? LAMBDA_START : lam * 100;
             }
             if (!accepted) {
-                return MinimumStatus.LINE_SEARCH_FAILED;
+                return exactAtX() ? MinimumStatus.LINE_SEARCH_FAILED : MinimumStatus.MAX_EVALUATIONS;
             }
             iterations++;
+            hIsCurvature = useCurvature;
+            curvatureAllowed = true;
             final boolean fullStep = alphaAccepted == 1;
             hessianFirst = fullStep;
             lambda = fullStep ? (lam < 1e-8 ? 0 : lam * 0.1) : lam;
             if (previous - f <= 4 * Math.ulp(Math.max(1.0, Math.abs(f)))
-                    && newtonDefinite && decrement <= options.fallbackTolerance()) {
+                    && newtonDefinite && decrement <= options.fallbackTolerance() && !hIsCurvature) {
                 return finish();
             }
         }
+    }
+
+    /** Puts the exact Hessian at x into h if it holds the curvature form; false when out of evaluations. */
+    private boolean exactAtX() {
+        if (!hIsCurvature) {
+            return true;
+        }
+        if (outOfBudget()) {
+            return false;
+        }
+        f = evaluateAll(x, g, h);
+        hIsCurvature = false;
+        useCurvature = false;
+        return true;
+    }
+
+    /** f, gradient and the matrix the next steps use: the curvature form or the exact Hessian. */
+    private double evaluateMatrix(double[] at, double[] gradient, double[] matrix) {
+        return useCurvature ? evaluateCurvature(at, gradient, matrix) : evaluateAll(at, gradient, matrix);
     }
 
     /**
@@ -178,13 +236,13 @@ public final class BoundedNewton extends BoxMinimiser {
                 return BUDGET;
             }
             final boolean full = hessianFirst && trial == 0;
-            double ft = full ? evaluateAll(xt, gt, ht) : evaluateValue(xt);
+            double ft = full ? evaluateMatrix(xt, gt, ht) : evaluateValue(xt);
             boolean ok = ft < f && ft <= f + ARMIJO * slope && (!full || finitePoint(ft, gt, ht));
             if (ok && !full) {
                 if (outOfBudget()) {
                     return BUDGET;
                 }
-                ft = evaluateAll(xt, gt, ht);
+                ft = evaluateMatrix(xt, gt, ht);
                 ok = ft < f && finitePoint(ft, gt, ht);
             }
             if (ok) {

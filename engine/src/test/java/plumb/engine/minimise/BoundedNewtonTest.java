@@ -193,6 +193,72 @@ class BoundedNewtonTest {
         assertEquals(r.x()[0], r.x()[1], 1e-6);
     }
 
+    /**
+     * f = (x² − 1)² + (y − x)² as a sum of squared residuals r = (x² − 1, y − x): its Gauss–Newton
+     * form 2JᵀJ, J = [[2x, 0], [−1, 1]] (common practice), is positive semidefinite everywhere.
+     */
+    private static Analytic squaresWithCurvatureForm(int[] curvatureCalls) {
+        return new Analytic(2) {
+            @Override
+            double compute(double[] x, double[] g, double[] h) {
+                final double u = x[0] * x[0] - 1;
+                g[0] = 4 * x[0] * u - 2 * (x[1] - x[0]);
+                g[1] = 2 * (x[1] - x[0]);
+                h[0] = 12 * x[0] * x[0] - 4 + 2;
+                h[1] = -2;
+                h[2] = -2;
+                h[3] = 2;
+                return u * u + (x[1] - x[0]) * (x[1] - x[0]);
+            }
+
+            @Override
+            public double valueGradientCurvature(double[] x, double[] g, double[] c) {
+                curvatureCalls[0]++;
+                double f = compute(x, g, c);
+                c[0] = 2 * (4 * x[0] * x[0] + 1);
+                c[1] = -2;
+                c[2] = -2;
+                c[3] = 2;
+                return f;
+            }
+
+            @Override
+            int calls() {
+                return super.calls() + curvatureCalls[0];
+            }
+        };
+    }
+
+    @Test
+    void takesTheCurvatureFormWhereTheHessianIsIndefinite() {
+        int[] curvatureCalls = {0};
+        Analytic f = squaresWithCurvatureForm(curvatureCalls);
+        MinimumResult r = new BoundedNewton(2).minimise(f, new double[] {0.1, 0}, filled(2, -3), filled(2, 3));
+        assertTrue(r.converged(), r.status().toString());
+        // Minima 0 at ±(1, 1) (by inspection).
+        assertEquals(0.0, r.value(), 1e-10);
+        assertEquals(1.0, Math.abs(r.x()[0]), 1e-6);
+        assertEquals(r.x()[0], r.x()[1], 1e-6);
+        assertTrue(curvatureCalls[0] > 0, "the indefinite start asks for the curvature form");
+        // The result carries the exact Hessian at the minimum, not the curvature form.
+        double[] g = new double[2];
+        double[] h = new double[4];
+        f.compute(r.x(), g, h);
+        assertArrayEquals(h, r.hessian(), 0.0);
+        assertEquals(f.calls(), r.evaluations());
+    }
+
+    @Test
+    void neverAsksTheCurvatureFormWhileTheHessianIsPositiveDefinite() {
+        int[] curvatureCalls = {0};
+        Analytic f = squaresWithCurvatureForm(curvatureCalls);
+        // Near (1, 1) the Hessian [[12x² − 2, −2], [−2, 2]] is positive definite: plain Newton.
+        MinimumResult r = new BoundedNewton(2).minimise(f, new double[] {1.3, 0.8}, filled(2, -3), filled(2, 3));
+        assertTrue(r.converged(), r.status().toString());
+        assertEquals(0, curvatureCalls[0]);
+        assertArrayEquals(new double[] {1, 1}, r.x(), 1e-6);
+    }
+
     @Test
     void reportsANonFiniteObjectiveWithoutThrowing() {
         Analytic f = new Analytic(3) {
