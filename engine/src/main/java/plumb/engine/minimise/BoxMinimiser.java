@@ -177,19 +177,11 @@ abstract class BoxMinimiser implements Minimiser {
             return null;
         }
         final int k = system.size;
-        final double[] covariance = new double[n * n];
-        if (k == 0) {
-            return covariance;
-        }
         final double[] inverse = new double[k * k];
-        system.invert(inverse);
-        for (int a = 0; a < k; a++) {
-            final int row = system.index[a] * n;
-            for (int b = 0; b < k; b++) {
-                covariance[row + system.index[b]] = inverse[a * k + b];
-            }
+        if (k > 0) {
+            system.invert(inverse);
         }
-        return covariance;
+        return MinimumResult.scattered(inverse, system.index, k, n);
     }
 
     /** Whether {@link #h} holds the Hessian at the current x (a quasi-Newton x may be ahead). */

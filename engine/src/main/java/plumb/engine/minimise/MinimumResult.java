@@ -70,6 +70,11 @@ public record MinimumResult(MinimumStatus status, double[] x, double value, doub
         }
         final double[] inverse = new double[k * k];
         cholesky.invert(inverse);
+        return scattered(inverse, index, k, n);
+    }
+
+    /** The k·k inverse over the variables {@code index[0..k)} as an n·n matrix, zero elsewhere. */
+    static double[] scattered(double[] inverse, int[] index, int k, int n) {
         final double[] covariance = new double[n * n];
         for (int a = 0; a < k; a++) {
             final int row = index[a] * n;
