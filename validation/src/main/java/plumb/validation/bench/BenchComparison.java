@@ -1,0 +1,234 @@
+package plumb.validation.bench;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Iterator;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeSet;
+
+/**
+ * The table of {@code bench-compare}: the same JMH benchmarks run with an older and a newer
+ * benchmarks jar, one row per benchmark and parameter set, the two scores with JMH's errors and
+ * their ratio new/old. Reads a plan file, one benchmark a line:
+ * {@code NAME<TAB>OLD.json<TAB>NEW.json}, each file JMH's JSON result of that benchmark's run
+ * ({@code -rf json -rff FILE}), or {@code -} where that jar has no such benchmark. A run that left
+ * no result (the benchmark threw) shows as failed. Scores of time modes are put in the newer
+ * run's unit when the older one reported another.
+ */
+public final class BenchComparison {
+
+    private static final ObjectMapper JSON = new ObjectMapper();
+
+    /** One score of a JMH result file. */
+    record Score(String benchmark, String mode, Map<String, String> params, double score, double error, String unit) {
+    }
+
+    /** One line of the table; {@code note} says what stands in for a missing score or a missing parameter. */
+    record Row(String benchmark, String params, String mode, String old, String recent, String ratio, String note) {
+    }
+
+    private BenchComparison() {
+    }
+
+    /** {@code BenchComparison PLAN OLD_LABEL NEW_LABEL}: prints the table to standard output. */
+    public static void main(String[] args) throws IOException {
+        if (args.length != 3) {
+            System.err.println("usage: BenchComparison PLAN OLD_LABEL NEW_LABEL");
+            System.exit(2);
+        }
+        print(rows(Path.of(args[0])), args[1], args[2], System.out);
+    }
+
+    /** The rows of every benchmark of the plan file, in its order. */
+    static List<Row> rows(Path plan) throws IOException {
+        List<Row> rows = new ArrayList<>();
+        for (String line : Files.readAllLines(plan, StandardCharsets.UTF_8)) {
+            if (line.isBlank()) continue;
+            String[] f = line.split("\t");
+            if (f.length != 3) throw new IllegalArgumentException(plan + ": expected NAME, OLD and NEW separated by tabs: " + line);
+            rows.addAll(compare(f[0], scores(f[1], f[0]), scores(f[2], f[0])));
+        }
+        return rows;
+    }
+
+    /** The scores of one benchmark from its result file; null where the jar has no such benchmark ("-"). */
+    static List<Score> scores(String file, String benchmark) throws IOException {
+        if (file.equals("-")) return null;
+        Path path = Path.of(file);
+        List<Score> out = new ArrayList<>();
+        if (!Files.isRegularFile(path) || Files.size(path) == 0) return out;
+        for (JsonNode r : JSON.readTree(path.toFile())) {
+            if (!r.path("benchmark").asText().equals(benchmark)) continue;
+            Map<String, String> params = new LinkedHashMap<>();
+            for (Iterator<Map.Entry<String, JsonNode>> it = r.path("params").properties().iterator(); it.hasNext(); ) {
+                Map.Entry<String, JsonNode> p = it.next();
+                params.put(p.getKey(), p.getValue().asText());
+            }
+            JsonNode m = r.path("primaryMetric");
+            out.add(new Score(benchmark, r.path("mode").asText(), params, number(m.path("score")),
+                    number(m.path("scoreError")), m.path("scoreUnit").asText()));
+        }
+        return out;
+    }
+
+    /** JMH writes "NaN" as a string where it has no error (fewer than two iterations). */
+    private static double number(JsonNode n) {
+        return n.isNumber() ? n.asDouble() : n.isTextual() ? parse(n.asText()) : Double.NaN;
+    }
+
+    private static double parse(String s) {
+        try {
+            return Double.parseDouble(s);
+        } catch (NumberFormatException e) {
+            return Double.NaN;
+        }
+    }
+
+    /**
+     * Rows of one benchmark: each newer score beside the older score of the same mode and the same
+     * values of the parameters both have; a parameter only the newer run has is named in the note.
+     */
+    static List<Row> compare(String benchmark, List<Score> old, List<Score> recent) {
+        String name = shortName(benchmark);
+        List<Row> rows = new ArrayList<>();
+        if (recent == null || recent.isEmpty()) {
+            String missing = recent == null ? "not in new jar" : "failed (no result)";
+            if (old == null || old.isEmpty()) {
+                rows.add(new Row(name, "", "", old == null ? "not in old jar" : "failed (no result)", missing, "", ""));
+            } else {
+                for (Score o : old) rows.add(new Row(name, params(o.params()), o.mode(), cell(o, o.unit()), missing, "", ""));
+            }
+            return rows;
+        }
+        Set<String> oldKeys = new TreeSet<>();
+        if (old != null) for (Score o : old) oldKeys.addAll(o.params().keySet());
+        List<Score> unmatched = old == null ? new ArrayList<>() : new ArrayList<>(old);
+        for (Score n : recent) {
+            String params = params(n.params());
+            if (old == null) {
+                rows.add(new Row(name, params, n.mode(), "not in old jar", cell(n, n.unit()), "", ""));
+                continue;
+            }
+            if (old.isEmpty()) {
+                rows.add(new Row(name, params, n.mode(), "failed (no result)", cell(n, n.unit()), "", ""));
+                continue;
+            }
+            Set<String> newOnly = new TreeSet<>(n.params().keySet());
+            newOnly.removeAll(oldKeys);
+            String note = newOnly.isEmpty() ? "" : "old jar has no parameter " + String.join(", ", newOnly);
+            Score o = match(n, old);
+            if (o == null) {
+                rows.add(new Row(name, params, n.mode(), "no such parameters in old jar", cell(n, n.unit()), "", note));
+                continue;
+            }
+            unmatched.remove(o);
+            double oldScore = inUnit(o.score(), o.unit(), n.unit());
+            double oldError = inUnit(o.error(), o.unit(), n.unit());
+            String oldCell = Double.isNaN(oldScore) ? cell(o, o.unit()) : cell(oldScore, oldError, n.unit());
+            String ratio = Double.isNaN(oldScore) ? "" : String.format(Locale.ROOT, "%.2f", n.score() / oldScore);
+            rows.add(new Row(name, params, n.mode(), oldCell, cell(n, n.unit()), ratio, note));
+        }
+        for (Score o : unmatched) {
+            rows.add(new Row(name, params(o.params()), o.mode(), cell(o, o.unit()), "no such parameters in new jar", "", ""));
+        }
+        return rows;
+    }
+
+    /** The older score of the same mode whose parameters agree with the newer one's on every parameter both have. */
+    private static Score match(Score n, List<Score> old) {
+        for (Score o : old) {
+            if (!o.mode().equals(n.mode())) continue;
+            boolean same = true;
+            for (Map.Entry<String, String> p : o.params().entrySet()) {
+                String v = n.params().get(p.getKey());
+                same &= v == null || v.equals(p.getValue());
+            }
+            if (same) return o;
+        }
+        return null;
+    }
+
+    /** "FitBenchmark.newtonFit" of "plumb.validation.bench.FitBenchmark.newtonFit". */
+    static String shortName(String benchmark) {
+        int method = benchmark.lastIndexOf('.');
+        int type = method > 0 ? benchmark.lastIndexOf('.', method - 1) : -1;
+        return benchmark.substring(type + 1);
+    }
+
+    private static String params(Map<String, String> params) {
+        List<String> kv = new ArrayList<>();
+        for (Map.Entry<String, String> p : params.entrySet()) kv.add(p.getKey() + "=" + p.getValue());
+        return String.join(" ", kv);
+    }
+
+    private static String cell(Score s, String unit) {
+        return cell(s.score(), s.error(), unit);
+    }
+
+    /** "1.86 ± 0.21 ms/op", three significant digits; no error where JMH has none. */
+    static String cell(double score, double error, String unit) {
+        String s = significant(score);
+        if (!Double.isNaN(error)) s += " ± " + significant(error);
+        return s + " " + unit;
+    }
+
+    static String significant(double v) {
+        if (Double.isNaN(v) || Double.isInfinite(v)) return String.valueOf(v);
+        if (v == 0) return "0";
+        double a = Math.abs(v);
+        if (a >= 1e5 || a < 1e-3) return String.format(Locale.ROOT, "%.2e", v);
+        int decimals = Math.max(0, 2 - (int) Math.floor(Math.log10(a)));
+        return String.format(Locale.ROOT, "%." + decimals + "f", v);
+    }
+
+    /** A time-per-operation value in another time unit ("us/op" to "ms/op"); NaN where the units do not convert. */
+    static double inUnit(double value, String from, String to) {
+        if (from.equals(to)) return value;
+        double f = seconds(from), t = seconds(to);
+        return Double.isNaN(f) || Double.isNaN(t) ? Double.NaN : value * f / t;
+    }
+
+    private static double seconds(String unit) {
+        return switch (unit) {
+            case "ns/op" -> 1e-9;
+            case "us/op" -> 1e-6;
+            case "ms/op" -> 1e-3;
+            case "s/op" -> 1;
+            case "min/op" -> 60;
+            default -> Double.NaN;
+        };
+    }
+
+    /** The table with aligned columns, headed by the two labels. */
+    static void print(List<Row> rows, String oldLabel, String newLabel, PrintStream out) {
+        String[] head = {"benchmark", "params", "mode", "old " + oldLabel, "new " + newLabel, "new/old", ""};
+        List<String[]> cells = new ArrayList<>();
+        cells.add(head);
+        for (Row r : rows) cells.add(new String[] {r.benchmark(), r.params(), r.mode(), r.old(), r.recent(), r.ratio(), r.note()});
+        int[] width = new int[head.length];
+        for (String[] c : cells) {
+            for (int i = 0; i < c.length; i++) width[i] = Math.max(width[i], c[i].length());
+        }
+        for (String[] c : cells) {
+            StringBuilder line = new StringBuilder();
+            for (int i = 0; i < c.length; i++) {
+                boolean right = i >= 3 && i <= 5;
+                String pad = " ".repeat(width[i] - c[i].length());
+                line.append(right ? pad + c[i] : c[i] + (i < c.length - 1 ? pad : "")).append(i < c.length - 1 ? "  " : "");
+            }
+            out.println(line.toString().stripTrailing());
+        }
+        out.println("new/old: ratio of the scores (per operation: below 1 the new jar is faster); ± is JMH's 99.9 % error");
+    }
+}
