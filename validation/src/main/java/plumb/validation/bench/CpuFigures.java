@@ -3,7 +3,10 @@ package plumb.validation.bench;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.inference.*;
 import plumb.engine.likelihood.DataSet;
+import java.io.File;
+import java.io.IOException;
 import java.lang.management.*;
+import java.nio.file.Files;
 
 /**
  * CPU-time figures of the small-model and large-model work, for a machine too busy for JMH's wall
@@ -20,6 +23,33 @@ public final class CpuFigures {
 
     static ThreadMXBean tm = ManagementFactory.getThreadMXBean();
     static double cpu() { return tm.getCurrentThreadCpuTime() * 1e-9; }
+
+    static double processCpu() {
+        return ((com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean()).getProcessCpuTime() * 1e-9;
+    }
+
+    /**
+     * CPU seconds of the JIT compiler's threads so far (Linux: from /proc/self/task, where their
+     * names start with "C1 Compiler" or "C2 Compiler"); NaN where that is not readable.
+     */
+    static double jitCpu() {
+        File[] tasks = new File("/proc/self/task").listFiles();
+        if (tasks == null) return Double.NaN;
+        long ticks = 0;
+        for (File t : tasks) {
+            try {
+                String stat = Files.readString(new File(t, "stat").toPath());
+                String name = stat.substring(stat.indexOf('(') + 1, stat.lastIndexOf(')'));
+                if (!name.startsWith("C1 Compiler") && !name.startsWith("C2 Compiler")) continue;
+                String[] f = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
+                ticks += Long.parseLong(f[11]) + Long.parseLong(f[12]); // utime, stime
+            } catch (IOException | RuntimeException gone) {
+                // a thread that ended meanwhile
+            }
+        }
+        return ticks / 100.0; // clock ticks of 10 ms (USER_HZ)
+    }
+
     public static void main(String[] a) throws Exception {
         String what = a[0];
         int reps = Integer.parseInt(a[1]);
@@ -69,13 +99,16 @@ public final class CpuFigures {
             double[] point = toys.generatingPoint(1, false).values();
             int threads = Integer.parseInt(a[2]);
             long seed = 0;
-            for (int round = 0; round < 4; round++) {
+            // 8 rounds: the JIT compiler keeps compiling through the first ~5,000 toys; on two
+            // cores a second worker thread competes with it, one thread leaves it the free core
+            for (int round = 0; round < 8; round++) {
                 long w0 = System.nanoTime();
-                double c0 = ((com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean()).getProcessCpuTime() * 1e-9;
+                double c0 = processCpu(), j0 = jitCpu();
                 ToyFit[] fits = toys.run(point, ++seed, true, 0, reps, threads, null);
-                double c1 = ((com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean()).getProcessCpuTime() * 1e-9;
+                double c1 = processCpu(), j1 = jitCpu();
                 double s = 0; for (ToyFit t : fits) s += t.poi();
-                System.out.printf("inject %d toys %d threads: wall %.2f s, process cpu %.2f s (mean mu %.9f)%n", reps, threads, (System.nanoTime() - w0) * 1e-9, c1 - c0, s / reps);
+                System.out.printf("inject %d toys %d threads: wall %.2f s, process cpu %.2f s, of it JIT compiler %.2f s (mean mu %.9f)%n",
+                        reps, threads, (System.nanoTime() - w0) * 1e-9, c1 - c0, j1 - j0, s / reps);
             }
         } else if (what.equals("rank")) {
             CompiledModel m = BenchModels.compiled(a[2]);
