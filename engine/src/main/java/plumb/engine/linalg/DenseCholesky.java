@@ -19,6 +19,11 @@ public final class DenseCholesky implements CholeskySolver {
 
     /** Rows per panel: a panel of a 2,000-parameter problem (16 × 16 KB) stays in L2. */
     private static final int PANEL = 16;
+    /**
+     * Fewest rows below a panel, and fewest rows of the inverse, worth a second thread: a
+     * 384-row remainder is about 1 ms of work per panel, against tens of µs to hand half of it over.
+     */
+    static final int PARALLEL_ROWS = 384;
 
     private final int capacity;
     /** U = Lᵀ in the upper triangle, row stride = size of the current factor; lower part unused. */
@@ -109,29 +114,43 @@ public final class DenseCholesky implements CholeskySolver {
                     }
                 }
             }
-            // The rows below: row i −= Σ_k U_ki · row k over the panel, four rows k per pass.
-            for (int i = k1; i < m; i++) {
-                final int rowI = i * m;
-                int k = k0;
-                for (; k + 3 < k1; k += 4) {
-                    final int r0 = k * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
-                    final double s0 = u[r0 + i], s1 = u[r1 + i], s2 = u[r2 + i], s3 = u[r3 + i];
-                    if (s0 == 0 && s1 == 0 && s2 == 0 && s3 == 0) continue;
-                    for (int j = i; j < m; j++) {
-                        u[rowI + j] -= s0 * u[r0 + j] + s1 * u[r1 + j] + s2 * u[r2 + j] + s3 * u[r3 + j];
-                    }
-                }
-                for (; k < k1; k++) {
-                    final int rowK = k * m;
-                    final double s = u[rowK + i];
-                    if (s == 0) continue;
-                    for (int j = i; j < m; j++) {
-                        u[rowI + j] -= s * u[rowK + j];
-                    }
-                }
+            // The rows below: row i −= Σ_k U_ki · row k over the panel, four rows k per pass. Each
+            // row on its own, so a large remainder is split between two threads (equal work: a
+            // row's cost falls with its index), with the same sums.
+            final int rows = m - k1;
+            if (rows >= PARALLEL_ROWS) {
+                final int mid = m - (int) (rows / Math.sqrt(2));
+                final int from = k0, to = k1;
+                TwoWay.run(() -> updateRows(u, m, from, to, k1, mid), () -> updateRows(u, m, from, to, mid, m));
+            } else {
+                updateRows(u, m, k0, k1, k1, m);
             }
         }
         return true;
+    }
+
+    /** Rows [i0, i1) −= the panel [k0, k1)'s rows times their multipliers U_ki, four k per pass. */
+    private static void updateRows(double[] u, int m, int k0, int k1, int i0, int i1) {
+        for (int i = i0; i < i1; i++) {
+            final int rowI = i * m;
+            int k = k0;
+            for (; k + 3 < k1; k += 4) {
+                final int r0 = k * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
+                final double s0 = u[r0 + i], s1 = u[r1 + i], s2 = u[r2 + i], s3 = u[r3 + i];
+                if (s0 == 0 && s1 == 0 && s2 == 0 && s3 == 0) continue;
+                for (int j = i; j < m; j++) {
+                    u[rowI + j] -= s0 * u[r0 + j] + s1 * u[r1 + j] + s2 * u[r2 + j] + s3 * u[r3 + j];
+                }
+            }
+            for (; k < k1; k++) {
+                final int rowK = k * m;
+                final double s = u[rowK + i];
+                if (s == 0) continue;
+                for (int j = i; j < m; j++) {
+                    u[rowI + j] -= s * u[rowK + j];
+                }
+            }
+        }
     }
 
     @Override
@@ -171,7 +190,14 @@ public final class DenseCholesky implements CholeskySolver {
         // A⁻¹ = UᵀU inverted = XᵀX with X = (Uᵀ)⁻¹: the Gram matrix of X's rows, upper triangle,
         // then mirrored (exactly symmetric).
         java.util.Arrays.fill(inverse, 0, m * m, 0);
-        WeightedGram.addUpperOfTriangularRows(work, m, ones, m, m, inverse);
+        if (m >= PARALLEL_ROWS) {
+            // columns of the Gram matrix split in two of equal work: column j costs ≈ j·(m − j)
+            final int split = tileSplit(m, WeightedGram.TILE_COLUMNS, j -> (double) j * (m - j));
+            TwoWay.run(() -> WeightedGram.addUpperOfTriangularRows(work, m, ones, m, m, inverse, 0, split),
+                    () -> WeightedGram.addUpperOfTriangularRows(work, m, ones, m, m, inverse, split, m));
+        } else {
+            WeightedGram.addUpperOfTriangularRows(work, m, ones, m, m, inverse);
+        }
         for (int i = 0; i < m; i++) {
             final int rowI = i * m;
             for (int j = i + 1; j < m; j++) inverse[j * m + i] = inverse[rowI + j];
@@ -192,30 +218,14 @@ public final class DenseCholesky implements CholeskySolver {
         java.util.Arrays.fill(x, 0, m * m, 0);
         for (int i0 = 0; i0 < m; i0 += BLOCK_ROWS) {
             final int i1 = Math.min(m, i0 + BLOCK_ROWS);
-            // rows k < i0 are zero beyond column k: a tile from j0 on needs the rows k ≥ j0
-            for (int j0 = 0; j0 < i0; j0 += BLOCK_COLUMNS) {
-                final int j1 = Math.min(i0, j0 + BLOCK_COLUMNS);
-                int k = j0;
-                for (; k + 3 < i0; k += 4) {
-                    final int r0 = k * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
-                    for (int i = i0; i < i1; i++) {
-                        final double s0 = u[r0 + i], s1 = u[r1 + i], s2 = u[r2 + i], s3 = u[r3 + i];
-                        if (s0 == 0 && s1 == 0 && s2 == 0 && s3 == 0) continue;
-                        final int rowI = i * m;
-                        for (int j = j0; j < j1; j++) {
-                            x[rowI + j] += s0 * x[r0 + j] + s1 * x[r1 + j] + s2 * x[r2 + j] + s3 * x[r3 + j];
-                        }
-                    }
-                }
-                for (; k < i0; k++) {
-                    final int rowK = k * m;
-                    for (int i = i0; i < i1; i++) {
-                        final double s = u[rowK + i];
-                        if (s == 0) continue;
-                        final int rowI = i * m;
-                        for (int j = j0; j < j1; j++) x[rowI + j] += s * x[rowK + j];
-                    }
-                }
+            // rows k < i0 are zero beyond column k: a tile from j0 on needs the rows k ≥ j0. Tiles
+            // are independent: many of them are split between two threads (column j costs i0 − j).
+            if (i0 >= PARALLEL_ROWS) {
+                final int from = i0, to = i1;
+                final int split = tileSplit(i0, BLOCK_COLUMNS, j -> from - j);
+                TwoWay.run(() -> aboveBlock(u, m, x, from, to, 0, split), () -> aboveBlock(u, m, x, from, to, split, from));
+            } else {
+                aboveBlock(u, m, x, i0, i1, 0, i0);
             }
             for (int i = i0; i < i1; i++) {
                 final int rowI = i * m;
@@ -230,6 +240,52 @@ public final class DenseCholesky implements CholeskySolver {
                 x[rowI + i] = inv;
             }
         }
+    }
+
+    /**
+     * Rows [i0, i1) of X += Σ_{k<i0} U_ki · row k of X, over the column tiles from {@code jFrom}
+     * (a tile start) to {@code jTo}.
+     */
+    private static void aboveBlock(double[] u, int m, double[] x, int i0, int i1, int jFrom, int jTo) {
+        for (int j0 = jFrom; j0 < jTo; j0 += BLOCK_COLUMNS) {
+            final int j1 = Math.min(jTo, j0 + BLOCK_COLUMNS);
+            int k = j0;
+            for (; k + 3 < i0; k += 4) {
+                final int r0 = k * m, r1 = r0 + m, r2 = r1 + m, r3 = r2 + m;
+                for (int i = i0; i < i1; i++) {
+                    final double s0 = u[r0 + i], s1 = u[r1 + i], s2 = u[r2 + i], s3 = u[r3 + i];
+                    if (s0 == 0 && s1 == 0 && s2 == 0 && s3 == 0) continue;
+                    final int rowI = i * m;
+                    for (int j = j0; j < j1; j++) {
+                        x[rowI + j] += s0 * x[r0 + j] + s1 * x[r1 + j] + s2 * x[r2 + j] + s3 * x[r3 + j];
+                    }
+                }
+            }
+            for (; k < i0; k++) {
+                final int rowK = k * m;
+                for (int i = i0; i < i1; i++) {
+                    final double s = u[rowK + i];
+                    if (s == 0) continue;
+                    final int rowI = i * m;
+                    for (int j = j0; j < j1; j++) x[rowI + j] += s * x[rowK + j];
+                }
+            }
+        }
+    }
+
+    /**
+     * The multiple of {@code tile} in [0, n] that splits columns [0, n) into two parts of about
+     * equal total cost, column j costing {@code cost(j)}.
+     */
+    static int tileSplit(int n, int tile, java.util.function.IntToDoubleFunction cost) {
+        double total = 0;
+        for (int j = 0; j < n; j++) total += cost.applyAsDouble(j);
+        double sum = 0;
+        for (int j0 = 0; j0 < n; j0 += tile) {
+            for (int j = j0; j < Math.min(n, j0 + tile); j++) sum += cost.applyAsDouble(j);
+            if (sum >= total / 2) return Math.min(n, j0 + tile);
+        }
+        return n;
     }
 
     private void requireFactor() {

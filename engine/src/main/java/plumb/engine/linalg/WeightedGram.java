@@ -35,12 +35,27 @@ public final class WeightedGram {
      * j₀, which add nothing to it. Rows are grouped in fours from j₀ on.
      */
     public static void addUpperOfTriangularRows(double[] v, int stride, double[] w, int rows, int n, double[] c) {
-        update(v, stride, w, rows, n, c, true);
+        update(v, stride, w, rows, n, c, true, 0, n);
+    }
+
+    /**
+     * {@link #addUpperOfTriangularRows} for the columns [from, to) of C only, {@code from} a
+     * multiple of {@link #TILE_COLUMNS}: the same sums for those entries, so ranges can be split
+     * between threads.
+     */
+    static void addUpperOfTriangularRows(double[] v, int stride, double[] w, int rows, int n, double[] c,
+                                         int from, int to) {
+        update(v, stride, w, rows, n, c, true, from, to);
     }
 
     private static void update(double[] v, int stride, double[] w, int rows, int n, double[] c, boolean triangular) {
-        for (int j0 = 0; j0 < n; j0 += TILE_COLUMNS) {
-            final int j1 = Math.min(n, j0 + TILE_COLUMNS);
+        update(v, stride, w, rows, n, c, triangular, 0, n);
+    }
+
+    private static void update(double[] v, int stride, double[] w, int rows, int n, double[] c, boolean triangular,
+                               int from, int to) {
+        for (int j0 = from; j0 < to; j0 += TILE_COLUMNS) {
+            final int j1 = Math.min(to, j0 + TILE_COLUMNS);
             final int first = triangular ? Math.min(j0, rows) : 0;
             final int grouped = rows - (rows - first) % 4;
             for (int i0 = 0; i0 < j1; i0 += TILE_ROWS) {

@@ -130,10 +130,11 @@ abstract class CholeskySolverContract {
     }
 
     @ParameterizedTest
-    @ValueSource(ints = {1, 2, 5, 17, 40, 131, 300})
+    @ValueSource(ints = {1, 2, 5, 17, 40, 131, 300, 700})
     void agreesWithCommonsMathOnRandomSpdMatrices(int m) {
+        // 700: large enough that DenseCholesky splits its factor and inverse between two threads
         SplittableRandom random = new SplittableRandom(20240601L + m);
-        CholeskySolver solver = create(300);
+        CholeskySolver solver = create(Math.max(300, m));
         for (int trial = 0; trial < 3; trial++) {
             double[] a = randomSpd(m, random);
             if (trial == 2) blockPattern(a, m);
