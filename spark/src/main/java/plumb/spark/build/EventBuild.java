@@ -173,32 +173,53 @@ public final class EventBuild {
             regionChecks(checks, dataRegions, spec.data().path());
             checkAll(dataView, checks);
         }
+        // Every pass is planned first and run in one go (the Parquet ones in one Spark job, so
+        // the cores never wait for the end of one table's pass), then the sums are used in order.
+        List<HistogramJob.Pass> planned = new ArrayList<>();
+        Map<SampleSpec, HistogramJob> nominalJobs = new LinkedHashMap<>();
         for (SampleSpec s : spec.samples()) {
             String view = nominal.get(s);
             List<Region> regions = assembly.regions(s);
-            List<String> weights = new ArrayList<>();
-            weights.add(s.weight().sql());
-            for (VariationSpec v : s.variations()) {
-                if (v.source() != Source.WEIGHTS) continue;
-                if (v.up() != null) weights.add(v.up().sql());
-                if (v.down() != null) weights.add(v.down().sql());
-            }
+            List<String> weights = weights(s);
             // observable-based variations ride along on the same pass: the same table, the same selection
             HistogramJob job = new HistogramJob(regions, observables(regions), weights);
-            List<Expr> shifted = new ArrayList<>();
+            int shifted = 0;
             for (VariationSpec v : s.variations()) {
                 if (v.source() != Source.OBSERVABLE) continue;
                 for (Expr side : new Expr[] {v.up(), v.down()}) {
                     if (side == null) continue;
                     job = job.plus(assembly.regions(s, v), side.sql());
-                    shifted.add(side);
+                    shifted++;
                 }
             }
             progress(++pass, passes, "sample " + s.name() + ": nominal" + (weights.size() > 1
                     ? " and " + (weights.size() - 1) + " weight variation" + (weights.size() > 2 ? "s" : "") : "")
-                    + (shifted.isEmpty() ? "" : ", " + shifted.size() + " shifted observable" + (shifted.size() > 1 ? "s" : "")));
-            HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view), analysed.get(view));
-            refuseBad(s.name(), regions, weights, sums, s.events().path());
+                    + (shifted == 0 ? "" : ", " + shifted + " shifted observable" + (shifted > 1 ? "s" : "")));
+            nominalJobs.put(s, job);
+            planned.add(pass(job, view));
+            for (VariationSpec v : s.variations()) {
+                if (v.source() != Source.EVENTS) continue;
+                if (v.upEvents() != null) {
+                    progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " up (events)");
+                    planned.add(pass(tableJob(s, assembly.regions(s, v)), alternative.get(v.upEvents())));
+                }
+                if (v.downEvents() != null) {
+                    progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " down (events)");
+                    planned.add(pass(tableJob(s, assembly.regions(s, v)), alternative.get(v.downEvents())));
+                }
+            }
+        }
+        if (dataView != null) {
+            progress(++pass, passes, "data");
+            planned.add(pass(new HistogramJob(dataRegions, observables(dataRegions), List.of("1")), dataView));
+        }
+        List<HistogramJob.Sums> results = HistogramJob.runAll(spark, planned);
+        int next = 0;
+        for (SampleSpec s : spec.samples()) {
+            List<Region> regions = assembly.regions(s);
+            HistogramJob job = nominalJobs.get(s);
+            HistogramJob.Sums sums = results.get(next++);
+            refuseBad(s.name(), regions, weights(s), sums, s.events().path());
             assembly.nominal(s, regions, job, sums, sums.flow());
             int entry = regions.size();
             for (VariationSpec v : s.variations()) {
@@ -217,26 +238,36 @@ public final class EventBuild {
                 } else if (v.source() == Source.EVENTS) {
                     List<Region> vr = assembly.regions(s, v);
                     double[][] up = null, down = null;
-                    if (v.upEvents() != null) {
-                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " up (events)");
-                        up = tablePass(s, alternative.get(v.upEvents()), vr, v.upEvents().path());
-                    }
+                    if (v.upEvents() != null) up = tableSums(s, planned.get(next).job(), results.get(next++), vr, v.upEvents().path());
                     if (v.downEvents() != null) {
-                        progress(++pass, passes, "sample " + s.name() + ": " + v.parameter() + " down (events)");
-                        down = tablePass(s, alternative.get(v.downEvents()), vr, v.downEvents().path());
+                        down = tableSums(s, planned.get(next).job(), results.get(next++), vr, v.downEvents().path());
                     }
                     assembly.variation(s, v, vr, up, down);
                 }
             }
         }
         if (dataView != null) {
-            progress(++pass, passes, "data");
-            HistogramJob job = new HistogramJob(dataRegions, observables(dataRegions), List.of("1"));
-            HistogramJob.Sums sums = job.run(spark, dataView, parquetFiles.get(dataView), analysed.get(dataView));
+            HistogramJob.Sums sums = results.get(next);
             refuseBadObservable("data", dataRegions, sums, spec.data().path());
-            assembly.data(dataRegions, job, sums, sums.flow());
+            assembly.data(dataRegions, planned.get(next).job(), sums, sums.flow());
         }
         return assembly;
+    }
+
+    /** The weights a sample's nominal pass sums: its weight, then up and down of each weight-based variation. */
+    private static List<String> weights(SampleSpec s) {
+        List<String> weights = new ArrayList<>();
+        weights.add(s.weight().sql());
+        for (VariationSpec v : s.variations()) {
+            if (v.source() != Source.WEIGHTS) continue;
+            if (v.up() != null) weights.add(v.up().sql());
+            if (v.down() != null) weights.add(v.down().sql());
+        }
+        return weights;
+    }
+
+    private HistogramJob.Pass pass(HistogramJob job, String view) {
+        return new HistogramJob.Pass(job, view, parquetFiles.get(view), analysed.get(view));
     }
 
     /** The histograms of one side of an observable variation: entries {@code from ..} of the sample's pass. */
@@ -249,9 +280,12 @@ public final class EventBuild {
         return out;
     }
 
-    private double[][] tablePass(SampleSpec s, String view, List<Region> regions, String path) {
-        HistogramJob job = new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
-        HistogramJob.Sums sums = job.run(spark, view, parquetFiles.get(view), analysed.get(view));
+    /** The pass over a table-based variation's tables: the sample's regions, its nominal weight. */
+    private static HistogramJob tableJob(SampleSpec s, List<Region> regions) {
+        return new HistogramJob(regions, observables(regions), List.of(s.weight().sql()));
+    }
+
+    private double[][] tableSums(SampleSpec s, HistogramJob job, HistogramJob.Sums sums, List<Region> regions, String path) {
         refuseBad(s.name() + " (" + path + ")", regions, List.of(s.weight().sql()), sums, path);
         return perRegion(job, sums);
     }

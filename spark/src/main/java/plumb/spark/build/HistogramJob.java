@@ -177,13 +177,55 @@ record HistogramJob(List<Region> regions, List<String> observables, List<String>
 
     /** As above; {@code analysed}: trees of the expressions already resolved over the table, by SQL (may be null). */
     Sums run(SparkSession spark, String table, List<String> parquetFiles, Map<String, Expression> analysed) {
-        Map<String, Integer> distinct = new LinkedHashMap<>();
-        Tally.Layout layout = layout(distinct);
-        if (parquetFiles != null && !rowsOnly()) {
-            ParquetPass.Program program = ParquetPass.compile(spark, table, this, distinct, analysed);
-            Sums direct = program == null ? null : ParquetPass.run(spark, parquetFiles, program, layout);
-            if (direct != null) return direct;
+        return runAll(spark, List.of(new Pass(this, table, parquetFiles, analysed))).get(0);
+    }
+
+    /**
+     * One pass of a build: the job, its table (a temporary view), the view's Parquet files (null
+     * when they are not Parquet) and the trees of its expressions already analysed (may be null).
+     */
+    record Pass(HistogramJob job, String table, List<String> parquetFiles, Map<String, Expression> analysed) {
+    }
+
+    /**
+     * Runs passes together: those over Parquet whose expressions compile to column batches in one
+     * Spark job ({@link ParquetPass#runAll}), then, one by one in order, the others through the
+     * row path. The sums of each pass, in the order given.
+     */
+    static List<Sums> runAll(SparkSession spark, List<Pass> passes) {
+        List<Sums> out = new ArrayList<>();
+        List<Map<String, Integer>> distinct = new ArrayList<>();
+        List<Tally.Layout> layouts = new ArrayList<>();
+        List<ParquetPass.Input> batched = new ArrayList<>();
+        List<Integer> batchedPass = new ArrayList<>();
+        for (int i = 0; i < passes.size(); i++) {
+            Pass p = passes.get(i);
+            Map<String, Integer> d = new LinkedHashMap<>();
+            Tally.Layout layout = p.job().layout(d);
+            distinct.add(d);
+            layouts.add(layout);
+            out.add(null);
+            if (p.parquetFiles() == null || rowsOnly()) continue;
+            ParquetPass.Program program = ParquetPass.compile(spark, p.table(), p.job(), d, p.analysed());
+            if (program == null) continue;
+            batched.add(new ParquetPass.Input(p.parquetFiles(), program, layout));
+            batchedPass.add(i);
         }
+        if (!batched.isEmpty()) {
+            List<Sums> direct = ParquetPass.runAll(spark, batched);
+            for (int k = 0; k < direct.size(); k++) out.set(batchedPass.get(k), direct.get(k));
+        }
+        for (int i = 0; i < passes.size(); i++) {
+            if (out.get(i) == null) {
+                Pass p = passes.get(i);
+                out.set(i, p.job().rows(spark, p.table(), layouts.get(i), distinct.get(i)));
+            }
+        }
+        return out;
+    }
+
+    /** The pass through Spark's SQL projection, row by row. */
+    private Sums rows(SparkSession spark, String table, Tally.Layout layout, Map<String, Integer> distinct) {
         Dataset<Row> projected = spark.sql(sql(table, layout, distinct));
         // Spark's internal rows straight from the compiled projection: no conversion into Row objects per event.
         JavaRDD<InternalRow> rows = ((org.apache.spark.sql.classic.Dataset<Row>) projected).queryExecution().toRdd().toJavaRDD();

@@ -1,9 +1,21 @@
 package plumb.spark.build;
 
+import org.apache.hadoop.conf.Configuration;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.mapreduce.TaskAttemptID;
+import org.apache.hadoop.mapred.FileSplit;
+import org.apache.hadoop.mapreduce.task.TaskAttemptContextImpl;
 import org.apache.spark.api.java.JavaSparkContext;
+import org.apache.spark.broadcast.Broadcast;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.catalyst.expressions.Expression;
+import org.apache.spark.sql.execution.datasources.parquet.ParquetReadSupport;
 import org.apache.spark.sql.execution.datasources.parquet.VectorizedParquetRecordReader;
+import org.apache.spark.sql.internal.SQLConf;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructType;
+import org.apache.spark.util.SerializableConfiguration;
 import org.apache.spark.sql.vectorized.ColumnVector;
 import org.apache.spark.sql.vectorized.ColumnarBatch;
 import plumb.spark.build.BuildSpec.Region;
@@ -101,35 +113,132 @@ final class ParquetPass {
         return e;
     }
 
-    /**
-     * Runs the program over the files, one Spark task per file; the sums in file order, or null
-     * when a task refused its events or failed.
-     */
-    static HistogramJob.Sums run(SparkSession spark, List<String> files, Program program, Tally.Layout layout) {
-        List<Tally> parts;
-        try {
-            parts = JavaSparkContext.fromSparkContext(spark.sparkContext())
-                    .parallelize(files, files.size())
-                    .map(file -> tally(file, program, layout))
-                    .collect();
-        } catch (RuntimeException e) {   // reading failed: the row path reads again and says why in Spark's words
-            return null;
-        }
-        Tally total = new Tally(layout);
-        for (Tally t : parts) {
-            if (t.refused != null) return null;
-            total.merge(t);   // in file order: the same sums on every run
-        }
-        PASSES.incrementAndGet();
-        return total.sums();
+    /** One pass to run: its Parquet files in order, its compiled program and its layout. */
+    record Input(List<String> files, Program program, Tally.Layout layout) {
     }
 
-    /** One task: the tally of one file. */
-    static Tally tally(String file, Program program, Tally.Layout layout) throws IOException {
+    /**
+     * Runs one pass (see {@link #runAll}): the sums, or null when a task refused its events or
+     * the reading failed.
+     */
+    static HistogramJob.Sums run(SparkSession spark, List<String> files, Program program, Tally.Layout layout) {
+        return runAll(spark, List.of(new Input(files, program, layout))).get(0);
+    }
+
+    /**
+     * Runs every pass in ONE Spark job, so that the cores stay busy from the first table to the
+     * last instead of idling at the end of each pass. The files are cut into tasks by
+     * {@link TaskPlan} (whole row groups, about {@link TaskPlan#TASK_BYTES} of the columns read
+     * per task); each task sums its ranges in order into one tally, and the driver adds the
+     * tasks' tallies of each pass in order. The cut depends on the files alone, not on the
+     * number of cores: a build gives the same numbers on every run and any cluster. Per pass the
+     * sums, or null where a task refused its events; when the job fails, each pass is tried
+     * once more on its own, so that one unreadable table sends only itself to the row path.
+     */
+    static List<HistogramJob.Sums> runAll(SparkSession spark, List<Input> inputs) {
+        return runAll(spark, inputs, TaskPlan.TASK_BYTES);
+    }
+
+    /** As above, with tasks of {@code taskBytes} (tests cut files into more tasks). */
+    static List<HistogramJob.Sums> runAll(SparkSession spark, List<Input> inputs, long taskBytes) {
+        List<HistogramJob.Sums> out = new ArrayList<>();
+        List<TaskPlan.Task> tasks;
+        try {
+            tasks = TaskPlan.tasks(spark.sparkContext().hadoopConfiguration(), inputs, taskBytes);
+        } catch (IOException | RuntimeException e) {   // a footer that cannot be read: the row path says why
+            for (int i = 0; i < inputs.size(); i++) out.add(null);
+            return out;
+        }
+        List<Tally> parts;
+        try {
+            parts = collect(spark, inputs, tasks);
+        } catch (Exception e) {   // reading failed (Spark's exceptions are checked ones in Java's eyes): the row path reads again and says why in Spark's words
+            if (inputs.size() == 1) {
+                out.add(null);
+                return out;
+            }
+            for (Input in : inputs) out.add(runAll(spark, List.of(in), taskBytes).get(0));
+            return out;
+        }
+        Tally[] totals = new Tally[inputs.size()];
+        boolean[] refused = new boolean[inputs.size()];
+        for (int i = 0; i < totals.length; i++) totals[i] = new Tally(inputs.get(i).layout());
+        for (int t = 0; t < tasks.size(); t++) {   // in task order: the same sums on every run
+            int pass = tasks.get(t).pass();
+            if (parts.get(t).refused != null) refused[pass] = true;
+            else totals[pass].merge(parts.get(t));
+        }
+        for (int i = 0; i < totals.length; i++) {
+            if (refused[i]) {
+                out.add(null);
+            } else {
+                PASSES.incrementAndGet();
+                out.add(totals[i].sums());
+            }
+        }
+        return out;
+    }
+
+    /** The Spark job: one task per planned task, its tally back in the same order. */
+    private static List<Tally> collect(SparkSession spark, List<Input> inputs, List<TaskPlan.Task> tasks) {
+        JavaSparkContext sc = JavaSparkContext.fromSparkContext(spark.sparkContext());
+        Program[] programs = inputs.stream().map(Input::program).toArray(Program[]::new);
+        Tally.Layout[] layouts = inputs.stream().map(Input::layout).toArray(Tally.Layout[]::new);
+        String[] schemas = inputs.stream().map(in -> requested(in.program()).json()).toArray(String[]::new);
+        // The driver's Hadoop settings, shipped once per job and read once per executor (parsing
+        // Hadoop's default XML files per file cost more than reading a small file's footer).
+        Broadcast<SerializableConfiguration> conf = sc.broadcast(new SerializableConfiguration(readerConf(spark)));
+        JOBS.incrementAndGet();
+        return sc.parallelize(tasks, Math.max(1, tasks.size()))
+                .map(task -> tally(task, programs[task.pass()], layouts[task.pass()],
+                        taskConf(conf.value().value(), schemas[task.pass()])))
+                .collect();
+    }
+
+    /** Jobs run by {@link #runAll} in this process (tests check that a build's passes share one). */
+    static final java.util.concurrent.atomic.AtomicLong JOBS = new java.util.concurrent.atomic.AtomicLong();
+
+    /**
+     * The reader's Hadoop settings: the session's, with those Spark's Parquet scan sets for its
+     * own reader (binary is not text, INT96 is not a timestamp, names match whatever their case).
+     */
+    static Configuration readerConf(SparkSession spark) {
+        Configuration c = new Configuration(spark.sparkContext().hadoopConfiguration());
+        c.set("parquet.read.support.class", ParquetReadSupport.class.getName());
+        c.setBoolean(SQLConf.PARQUET_BINARY_AS_STRING().key(), false);
+        c.setBoolean(SQLConf.PARQUET_INT96_AS_TIMESTAMP().key(), false);
+        c.setBoolean(SQLConf.CASE_SENSITIVE().key(), false);
+        c.setBoolean(SQLConf.PARQUET_INFER_TIMESTAMP_NTZ_ENABLED().key(), false);
+        c.setBoolean(SQLConf.LEGACY_PARQUET_NANOS_AS_LONG().key(), false);
+        return c;
+    }
+
+    /** A task's own copy of the shared settings, with the columns its pass reads (a copy, not a parse). */
+    static Configuration taskConf(Configuration shared, String requestedSchema) {
+        Configuration c = new Configuration(shared);
+        c.set(ParquetReadSupport.SPARK_ROW_REQUESTED_SCHEMA(), requestedSchema);
+        return c;
+    }
+
+    /** The columns the program reads, with the types it was compiled for. */
+    static StructType requested(Program program) {
+        StructType t = new StructType();
+        for (BatchExpr.Column c : program.columns()) {
+            DataType type = switch (c.kind) {
+                case DOUBLE -> DataTypes.DoubleType;
+                case LONG -> c.bits == 32 ? DataTypes.IntegerType : DataTypes.LongType;
+                case BOOL -> DataTypes.BooleanType;
+            };
+            t = t.add(c.name, type, true);
+        }
+        return t;
+    }
+
+    /** One task: the tally of its ranges, summed in order. */
+    static Tally tally(TaskPlan.Task task, Program program, Tally.Layout layout, Configuration conf)
+            throws IOException, InterruptedException {
         Tally tally = new Tally(layout);
         BatchExpr.Column[] columns = program.columns();
-        List<String> names = new ArrayList<>();
-        for (BatchExpr.Column c : columns) names.add(c.name);
         List<BatchExpr> roots = new ArrayList<>();
         for (BatchExpr[] s : program.steps()) roots.addAll(List.of(s));
         roots.addAll(List.of(program.observables()));
@@ -139,38 +248,43 @@ final class ParquetPass {
         int[][] depth = new int[program.steps().length][BATCH];
         double[][] x = new double[program.observables().length][], w = new double[program.weights().length][];
         BatchExpr.Batch batch = new BatchExpr.Batch();
-        VectorizedParquetRecordReader reader = new VectorizedParquetRecordReader(false, BATCH);
-        try {
-            reader.initialize(file, names);
-            ColumnarBatch read = reader.resultBatch();
-            for (int j = 0; j < columns.length; j++) {
-                BatchExpr.Column c = columns[j];
-                try {
-                    BatchExpr.Kind kind = BatchCompiler.kind(read.column(j).dataType());
-                    if (kind != c.kind || BatchCompiler.bits(read.column(j).dataType()) != c.bits) {
-                        tally.refused = "column " + c.name + " has another type in " + file;
+        TaskAttemptContextImpl context = new TaskAttemptContextImpl(conf, new TaskAttemptID());
+        for (TaskPlan.Range range : task.ranges()) {
+            String file = range.file();
+            VectorizedParquetRecordReader reader = new VectorizedParquetRecordReader(false, BATCH);
+            try {
+                reader.initialize(new FileSplit(new Path(file), range.start(), range.end() - range.start(), new String[0]),
+                        context);
+                ColumnarBatch read = reader.resultBatch();
+                for (int j = 0; j < columns.length; j++) {
+                    BatchExpr.Column c = columns[j];
+                    try {
+                        BatchExpr.Kind kind = BatchCompiler.kind(read.column(j).dataType());
+                        if (kind != c.kind || BatchCompiler.bits(read.column(j).dataType()) != c.bits) {
+                            tally.refused = "column " + c.name + " has another type in " + file;
+                        }
+                    } catch (BatchCompiler.Unsupported e) {
+                        tally.refused = "column " + c.name + ": " + e.getMessage();
                     }
-                } catch (BatchCompiler.Unsupported e) {
-                    tally.refused = "column " + c.name + ": " + e.getMessage();
                 }
-            }
-            if (tally.refused != null) return tally;
-            while (reader.nextBatch()) {
-                int n = read.numRows();
-                for (int j = 0; j < columns.length; j++) load(read.column(j), columns[j], n);
-                batch.n = n;
-                for (BatchExpr r : roots) r.eval(batch);
-                if (batch.refused != null) {
-                    tally.refused = batch.refused;
-                    return tally;
+                if (tally.refused != null) return tally;
+                while (reader.nextBatch()) {
+                    int n = read.numRows();
+                    for (int j = 0; j < columns.length; j++) load(read.column(j), columns[j], n);
+                    batch.n = n;
+                    for (BatchExpr r : roots) r.eval(batch);
+                    if (batch.refused != null) {
+                        tally.refused = batch.refused;
+                        return tally;
+                    }
+                    for (int r = 0; r < depth.length; r++) depth(program.steps()[r], depth[r], n);
+                    for (int o = 0; o < x.length; o++) x[o] = doubles(program.observables()[o], x[o], n);
+                    for (int k = 0; k < w.length; k++) w[k] = doubles(program.weights()[k], w[k], n);
+                    tally.add(n, depth, x, w);
                 }
-                for (int r = 0; r < depth.length; r++) depth(program.steps()[r], depth[r], n);
-                for (int o = 0; o < x.length; o++) x[o] = doubles(program.observables()[o], x[o], n);
-                for (int k = 0; k < w.length; k++) w[k] = doubles(program.weights()[k], w[k], n);
-                tally.add(n, depth, x, w);
+            } finally {
+                reader.close();
             }
-        } finally {
-            reader.close();
         }
         return tally;
     }

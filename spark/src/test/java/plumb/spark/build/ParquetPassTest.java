@@ -155,6 +155,96 @@ class ParquetPassTest {
         }
     }
 
+    /** The row groups of each file, read from the footers. */
+    static int[] rowGroups(List<String> files) throws IOException {
+        int[] out = new int[files.size()];
+        for (int f = 0; f < out.length; f++) {
+            try (var r = org.apache.parquet.hadoop.ParquetFileReader.open(org.apache.parquet.hadoop.util.HadoopInputFile.fromPath(
+                    new org.apache.hadoop.fs.Path(files.get(f)), spark.sparkContext().hadoopConfiguration()))) {
+                out[f] = r.getFooter().getBlocks().size();
+            }
+        }
+        return out;
+    }
+
+    static ParquetPass.Input input(HistogramJob job, String view, List<String> files) {
+        Map<String, Integer> distinct = new java.util.LinkedHashMap<>();
+        Tally.Layout layout = job.layout(distinct);
+        ParquetPass.Program program = ParquetPass.compile(spark, view, job, distinct, null);
+        assertTrue(program != null, "the job compiles to column batches");
+        return new ParquetPass.Input(files, program, layout);
+    }
+
+    static void assertIdentical(HistogramJob.Sums a, HistogramJob.Sums b, String what) {
+        assertArrayEquals(a.entries(), b.entries(), what);
+        assertArrayEquals(a.badWeights(), b.badWeights(), what);
+        assertArrayEquals(a.badObservable(), b.badObservable(), what);
+        for (int k = 0; k < a.sums().length; k++) {
+            assertArrayEquals(a.sums()[k], b.sums()[k], 0.0, what + ": Σw of weight " + k);
+            assertArrayEquals(a.squares()[k], b.squares()[k], 0.0, what + ": Σw² of weight " + k);
+        }
+        for (int r = 0; r < a.flow().raw().length; r++) {
+            assertArrayEquals(a.flow().raw()[r], b.flow().raw()[r], what);
+            assertArrayEquals(a.flow().weighted()[r], b.flow().weighted()[r], 0.0, what);
+        }
+    }
+
+    @Test
+    void filesCutIntoRowGroupTasksGiveTheSameSumsInOneJobOnOneOrTwoCores() throws IOException {
+        // three files of several row groups each (Parquet's writer closes a group every ~16 KB here)
+        SplittableRandom rng = new SplittableRandom(23);
+        List<Row> rows = new ArrayList<>();
+        for (int i = 0; i < 30_000; i++) {
+            double wv = 0.5 + rng.nextDouble();
+            rows.add(RowFactory.create(95 + 50 * rng.nextDouble(), rng.nextInt(4), rng.nextDouble() * 0.5, wv,
+                    wv * (0.9 + 0.2 * rng.nextDouble()), rng.nextLong(-5, 5), (float) rng.nextDouble()));
+        }
+        Path out = dir.resolve("groups");
+        spark.createDataFrame(rows, SCHEMA).repartition(3).write().option("parquet.block.size", 16 * 1024)
+                .option("parquet.page.size", 4 * 1024).parquet(out.toString());
+        List<String> files = new ArrayList<>();
+        try (var s = Files.list(out)) {
+            s.filter(p -> p.getFileName().toString().endsWith(".parquet")).sorted().forEach(p -> files.add(p.toUri().toString()));
+        }
+        int[] groups = rowGroups(files);
+        for (int g : groups) assertTrue(g >= 4, "several row groups per file: " + java.util.Arrays.toString(groups));
+        String view = view(files);
+        ParquetPass.Input a = input(job("w"), view, files);
+        ParquetPass.Input b = input(job("coalesce(w_alt, 1.5)"), view, files);
+
+        // one task per row group against one task for everything, read in one sequence
+        List<TaskPlan.Task> perGroup = TaskPlan.tasks(spark.sparkContext().hadoopConfiguration(), List.of(a), 1);
+        assertEquals(java.util.Arrays.stream(groups).sum(), perGroup.size(), "a task per row group");
+        HistogramJob.Sums split = ParquetPass.runAll(spark, List.of(a), 1).get(0);
+        HistogramJob.Sums whole = ParquetPass.runAll(spark, List.of(a), Long.MAX_VALUE).get(0);
+        assertSameSums(whole, split);
+        assertSameSums(job("w").run(spark, view, null), split);   // and the row path's numbers
+
+        // two passes in one job: each the sums of its own job, bit for bit, with a task per ~50 KB
+        long jobs = ParquetPass.JOBS.get();
+        List<HistogramJob.Sums> both = ParquetPass.runAll(spark, List.of(a, b), 50_000);
+        assertEquals(jobs + 1, ParquetPass.JOBS.get(), "one Spark job for both passes");
+        assertIdentical(ParquetPass.runAll(spark, List.of(a), 50_000).get(0), both.get(0), "pass a");
+        assertIdentical(ParquetPass.runAll(spark, List.of(b), 50_000).get(0), both.get(1), "pass b");
+
+        // the same tasks run one after the other in this thread (one core) and by Spark on two cores
+        List<TaskPlan.Task> tasks = TaskPlan.tasks(spark.sparkContext().hadoopConfiguration(), List.of(a, b), 50_000);
+        assertTrue(tasks.size() > 2 * files.size(), tasks.size() + " tasks");
+        Tally[] one = {new Tally(a.layout()), new Tally(b.layout())};
+        org.apache.hadoop.conf.Configuration shared = ParquetPass.readerConf(spark);
+        for (TaskPlan.Task t : tasks) {
+            ParquetPass.Input in = t.pass() == 0 ? a : b;
+            try {
+                one[t.pass()].merge(ParquetPass.tally(t, in.program(), in.layout(),
+                        ParquetPass.taskConf(shared, ParquetPass.requested(in.program()).json())));
+            } catch (InterruptedException e) {
+                throw new AssertionError(e);
+            }
+        }
+        assertIdentical(one[0].sums(), both.get(0), "pass a on one core");
+        assertIdentical(one[1].sums(), both.get(1), "pass b on one core");
+    }
+
     @Test
     void expressionsOutsideTheSubsetGoThroughTheRowPath() throws IOException {
         List<String> files = table("fallback", 22, 3_000);
@@ -182,9 +272,10 @@ class ParquetPassTest {
         }
         Path pqSpec = Files.writeString(pq.resolve("build.json"), Files.readString(csvSpec).replace(".csv", ".parquet"));
         BuildOutcome fromCsv = build(csvSpec, csv.resolve("model.json"));
-        long before = ParquetPass.PASSES.get();
+        long before = ParquetPass.PASSES.get(), jobs = ParquetPass.JOBS.get();
         BuildOutcome fromParquet = build(pqSpec, pq.resolve("model.json"));
         assertEquals(before + 4, ParquetPass.PASSES.get(), "sig, bkg, the alternative tables and the data over column batches");
+        assertEquals(jobs + 1, ParquetPass.JOBS.get(), "the four passes in one Spark job");
         ObjectMapper json = new ObjectMapper();
         assertJsonClose(json.readTree(fromCsv.model().toFile()), json.readTree(fromParquet.model().toFile()), "model");
         assertEquals(fromCsv.cutFlow().size(), fromParquet.cutFlow().size());
