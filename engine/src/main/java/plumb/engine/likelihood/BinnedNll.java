@@ -6,6 +6,8 @@ import plumb.engine.compile.NormInterpolation;
 import plumb.engine.compile.ShapeInterpolation;
 import plumb.engine.linalg.QuadraticForms;
 import plumb.engine.linalg.WeightedGram;
+import plumb.engine.minimise.HingedObjective;
+import plumb.engine.minimise.Hinges;
 import plumb.engine.minimise.Objective;
 
 import java.util.Arrays;
@@ -28,7 +30,7 @@ import java.util.Arrays;
  * <p>Not thread-safe: one instance per thread; all work arrays are allocated here, none per
  * evaluation.
  */
-public final class BinnedNll implements Objective {
+public final class BinnedNll implements HingedObjective {
 
     /** Floor of a channel's expectation in a bin (docs/model-format.md). */
     public static final double NU_FLOOR = 1e-10;
@@ -62,6 +64,11 @@ public final class BinnedNll implements Objective {
     private final double[] gammaValue; // per γ
     private final boolean[] gammaInterior; // solved and inside its range: Schur term applies
     private final double[] tmp3 = new double[3];
+    /** Work arrays of {@link #hingesAlong}: one sample's u_e and ∇u_eᵀd, one entry's sparse ∇u_e. */
+    private final double[] hingeU;
+    private final double[] hingeAlong;
+    private final int[] hingeIndex;
+    private final double[] hingeValue;
     private final double[] prefix;
     private final double[] suffix;
     private final double[] hvec;
@@ -172,6 +179,15 @@ public final class BinnedNll implements Objective {
         sampleT = new double[m.nSamples];
         shapeDBase = new double[m.shapeParam.length];
         shapeU2 = new double[m.shapeParam.length];
+        int mostEntries = 0, mostShapes = 0;
+        for (int s = 0; s < m.nSamples; s++) {
+            mostEntries = Math.max(mostEntries, m.sampleEntryStart[s + 1] - m.sampleEntryStart[s]);
+            mostShapes = Math.max(mostShapes, m.sampleShapeStart[s + 1] - m.sampleShapeStart[s]);
+        }
+        hingeU = new double[mostEntries];
+        hingeAlong = new double[mostEntries];
+        hingeIndex = new int[mostShapes];
+        hingeValue = new double[mostShapes];
     }
 
     public CompiledModel model() {
@@ -386,6 +402,62 @@ public final class BinnedNll implements Objective {
             }
         }
         return found;
+    }
+
+    /**
+     * The clip kinks a step crosses ({@link HingedObjective}): entries whose unclipped yield
+     * u_e = n_e + Σ shape terms changes sign between x and x + d (to first order), with slope
+     * a_e = ∂(−ln L)/∂base_e = C_s·(1 − n_b/ν_b)·γ_b &gt; 0 (with γ at its conditional minimum in the
+     * profiled layout: the envelope theorem) and gradient ∇u_e over the model parameters. Channels
+     * the data leave out have a_e = 0 and are skipped.
+     */
+    @Override
+    public void hingesAlong(double[] x, double[] d, Hinges out) {
+        boolean slopesAtX = false;
+        for (int s = 0; s < m.nSamples; s++) {
+            final int c = m.sampleChannel[s];
+            final int k0 = m.sampleShapeStart[s], k1 = m.sampleShapeStart[s + 1];
+            if (!data.channelIncluded()[c] || k0 == k1) continue;
+            final int e0 = m.sampleEntryStart[s], len = m.sampleEntryStart[s + 1] - e0;
+            System.arraycopy(m.nominalYield, e0, hingeU, 0, len);
+            Arrays.fill(hingeAlong, 0, len, 0);
+            for (int k = k0; k < k1; k++) {
+                final int p = m.shapeParam[k], so = m.shapeCoeffStart[k];
+                ShapeInterpolation.evaluate(m.shapeMode[k], x[p], tmp3);
+                final double t = x[p], pv = tmp3[0], p1 = tmp3[1], dp = d[p];
+                for (int b = 0; b < len; b++) {
+                    hingeU[b] += m.shapeS[so + b] * t + m.shapeA[so + b] * pv;
+                    hingeAlong[b] += (m.shapeS[so + b] + m.shapeA[so + b] * p1) * dp;
+                }
+            }
+            for (int b = 0; b < len; b++) {
+                final double u = hingeU[b];
+                if ((u >= 0) == (u + hingeAlong[b] >= 0) || out.contains(e0 + b)) continue;
+                if (!slopesAtX) {
+                    evaluate(x, null, null, explicitGamma); // w, γ and C_s at x
+                    slopesAtX = true;
+                }
+                final int bin = m.channelBinStart[c] + b;
+                final double a = sampleC[s] * (m.sampleMcStat[s] ? wGamma[bin] : w[bin]);
+                if (!(a > 0)) continue; // a ridge: crossing it only helps the step
+                int nz = 0;
+                for (int k = k0; k < k1; k++) {
+                    final int p = m.shapeParam[k], so = m.shapeCoeffStart[k];
+                    ShapeInterpolation.evaluate(m.shapeMode[k], x[p], tmp3);
+                    final double v = m.shapeS[so + b] + m.shapeA[so + b] * tmp3[1];
+                    if (v == 0) continue;
+                    int at = 0;
+                    while (at < nz && hingeIndex[at] != p) at++;
+                    if (at == nz) {
+                        hingeIndex[nz] = p;
+                        hingeValue[nz++] = v;
+                    } else {
+                        hingeValue[at] += v;
+                    }
+                }
+                out.add(e0 + b, u, a, hingeIndex, hingeValue, nz);
+            }
+        }
     }
 
     /** Whether some shape term of sample s changes its yield in the bin (else no kink can sit there). */

@@ -38,6 +38,8 @@ public final class BoundedNewton extends BoxMinimiser {
 
     private final double[] step;
     private double alphaAccepted;
+    /** The step that sees the hinges it crosses, for a {@link HingedObjective}; null for others. */
+    private HingeStep hingeStep;
     /** Whether h holds the objective's curvature form (not its Hessian), and whether the next evaluations ask for it. */
     private boolean hIsCurvature;
     private boolean useCurvature;
@@ -69,9 +71,16 @@ public final class BoundedNewton extends BoxMinimiser {
         }
         hIsCurvature = false;
         useCurvature = false;
+        final HingedObjective hinged = objective instanceof HingedObjective o ? o : null;
+        if (hinged != null && hingeStep == null) {
+            hingeStep = new HingeStep(n);
+        }
         boolean curvatureAllowed = true;
+        // Once a step has met hinges, the next ones look for them before their first trial.
+        boolean hingesSeen = false;
         double lambda = 0;
         boolean hessianFirst = true;
+        iteration:
         while (true) {
             int k = system.selectFree(box, x, g);
             boolean newtonDefinite = k == 0 || system.factor(h, 0);
@@ -107,6 +116,7 @@ public final class BoundedNewton extends BoxMinimiser {
             double lam = newtonDefinite ? 0 : Math.max(lambda, LAMBDA_START);
             boolean reuseFactor = newtonDefinite;
             boolean accepted = false;
+            boolean onHinges = false;
             while (lam <= LAMBDA_MAX) {
                 if (!reuseFactor) {
                     system.selectFree(box, x, g);
@@ -116,7 +126,31 @@ public final class BoundedNewton extends BoxMinimiser {
                 if (lam < 0) {
                     break;
                 }
-                final int outcome = lineSearch(hessianFirst);
+                // An undamped step whose full length is refused may have crossed into hinge valleys.
+                final boolean hingesMayMatter = hinged != null && lam == 0;
+                final boolean hingesFirst = hingesMayMatter && hingesSeen;
+                int outcome = hingesFirst ? FIRST_REFUSED : lineSearch(hessianFirst, hingesMayMatter);
+                if (outcome == FIRST_REFUSED) {
+                    if (hingeStep.apply(hinged, system, x, g, step)) {
+                        onHinges = true;
+                        hingesSeen = true;
+                        decrement = hingeStep.decrement;
+                        if (decrement < options.tolerance()) {
+                            // A minimum on the kinks of the hinges the step would cross.
+                            if (!hIsCurvature) {
+                                return finishOnHinges(k);
+                            }
+                            if (!exactAtX()) {
+                                return MinimumStatus.MAX_EVALUATIONS;
+                            }
+                            curvatureAllowed = false;
+                            continue iteration;
+                        }
+                        outcome = lineSearch(hessianFirst, false);
+                    } else {
+                        outcome = hingesFirst ? lineSearch(hessianFirst, false) : lineSearchOn();
+                    }
+                }
                 if (outcome == BUDGET) {
                     return MinimumStatus.MAX_EVALUATIONS;
                 }
@@ -127,7 +161,7 @@ public final class BoundedNewton extends BoxMinimiser {
                 if (newtonDefinite && decrement <= options.fallbackTolerance() && !hIsCurvature) {
                     // f cannot be lowered at machine precision and the point is within the
                     // fallback tolerance of the minimum of its quadratic model.
-                    return finish();
+                    return onHinges ? finishOnHinges(-1) : finish();
                 }
                 lam = lam == 0 ? LAMBDA_START : lam * 100;
             }
@@ -142,9 +176,21 @@ public final class BoundedNewton extends BoxMinimiser {
             lambda = fullStep ? (lam < 1e-8 ? 0 : lam * 0.1) : lam;
             if (previous - f <= 4 * Math.ulp(Math.max(1.0, Math.abs(f)))
                     && newtonDefinite && decrement <= options.fallbackTolerance() && !hIsCurvature) {
-                return finish();
+                return onHinges ? finishOnHinges(-1) : finish();
             }
         }
+    }
+
+    /**
+     * {@link #finish()} for a point stopped on hinge kinks, keeping the hinge model's decrement:
+     * {@link MinimumStatus#CONVERGED_AT_KINK} when the Hessian checks pass. {@code free} is the size
+     * of the free set selected at x when the system still holds its undamped factor, else −1.
+     */
+    private MinimumStatus finishOnHinges(int free) {
+        final double hingeDecrement = decrement;
+        final MinimumStatus status = free >= 0 && system.size == free ? finishFactored(true) : finish();
+        decrement = hingeDecrement;
+        return status == MinimumStatus.CONVERGED ? MinimumStatus.CONVERGED_AT_KINK : status;
     }
 
     /** Puts the exact Hessian at x into h if it holds the curvature form; false when out of evaluations. */
@@ -215,19 +261,37 @@ public final class BoundedNewton extends BoxMinimiser {
     private static final int ACCEPTED = 1;
     private static final int FAILED = 0;
     private static final int BUDGET = -1;
+    /** The full step was refused and the search paused there ({@link #lineSearchOn()} goes on). */
+    private static final int FIRST_REFUSED = 2;
+
+    /** Where a paused line search stands: the next trial and its α. */
+    private int searchTrial;
+    private double searchAlpha;
 
     /**
      * Backtracks along x(α) = clip(x + α·step) from α = 1 until f(x(α)) ≤ f + c·gᵀ(x(α) − x) and
      * f(x(α)) < f. Steps are shortened by safeguarded quadratic interpolation (factor in
      * [0.1, 0.5]), or by 4 after a non-finite value.
      */
-    private int lineSearch(boolean hessianFirst) {
+    private int lineSearch(boolean hessianFirst, boolean pauseAfterFirst) {
+        searchTrial = 0;
+        searchAlpha = 1;
+        return search(hessianFirst, pauseAfterFirst);
+    }
+
+    /** Goes on with a line search paused after its first trial. */
+    private int lineSearchOn() {
+        return search(false, false);
+    }
+
+    private int search(boolean hessianFirst, boolean pauseAfterFirst) {
         double slope0 = 0;
         for (int i = 0; i < n; i++) {
             slope0 += g[i] * step[i];
         }
-        double alpha = 1;
-        for (int trial = 0; trial < MAX_BACKTRACKS; trial++) {
+        for (; searchTrial < MAX_BACKTRACKS; searchTrial++) {
+            final int trial = searchTrial;
+            final double alpha = searchAlpha;
             final double slope = trialPoint(step, alpha);
             if (Double.isNaN(slope)) {
                 return FAILED;
@@ -250,7 +314,11 @@ public final class BoundedNewton extends BoxMinimiser {
                 alphaAccepted = alpha;
                 return ACCEPTED;
             }
-            alpha = nextAlpha(alpha, ft, slope0);
+            searchAlpha = nextAlpha(alpha, ft, slope0);
+            if (pauseAfterFirst && trial == 0) {
+                searchTrial = 1;
+                return FIRST_REFUSED;
+            }
         }
         return FAILED;
     }

@@ -73,7 +73,7 @@ abstract class BoxMinimiser implements Minimiser {
         try {
             covarianceFactored = false;
             MinimumStatus status = attempt();
-            if (status == MinimumStatus.CONVERGED || status == MinimumStatus.MAX_EVALUATIONS
+            if (status.isMinimum() || status == MinimumStatus.MAX_EVALUATIONS
                     || !options.restart()) {
                 return returned(result(status));
             }
@@ -98,7 +98,7 @@ abstract class BoxMinimiser implements Minimiser {
 
     private MinimumResult returned(MinimumResult r) {
         lastResult = r;
-        lastFactored = covarianceFactored && r.status() == MinimumStatus.CONVERGED;
+        lastFactored = covarianceFactored && r.status().isMinimum();
         return r;
     }
 
