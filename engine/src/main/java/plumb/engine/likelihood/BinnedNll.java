@@ -5,6 +5,7 @@ import plumb.engine.compile.ConstraintType;
 import plumb.engine.compile.NormInterpolation;
 import plumb.engine.compile.ShapeInterpolation;
 import plumb.engine.linalg.QuadraticForms;
+import plumb.engine.linalg.TwoWay;
 import plumb.engine.linalg.WeightedGram;
 import plumb.engine.minimise.HingedObjective;
 import plumb.engine.minimise.Hinges;
@@ -34,6 +35,13 @@ public final class BinnedNll implements HingedObjective {
 
     /** Floor of a channel's expectation in a bin (docs/model-format.md). */
     public static final double NU_FLOOR = 1e-10;
+
+    /**
+     * Least Σ_c bins_c · L_c² (L_c: parameters acting on channel c) for which the Hessian's channel
+     * blocks are made two at a time on two threads: about 10 ms of work, far above the cost of
+     * handing one over. Small models (the toys' medium and large ones) stay on one thread.
+     */
+    static final double PARALLEL_WORK = 2e7;
 
     private final CompiledModel model;
     /** The model's arrays, read by the loops below. */
@@ -71,21 +79,17 @@ public final class BinnedNll implements HingedObjective {
     private final double[] hingeValue;
     private final double[] prefix;
     private final double[] suffix;
-    private final double[] hvec;
-    private final double[] gLoc;
-    private final double[] gcLoc;
-    private final double[] hLoc;
-    private final double[] hMat;
     private final double[] extended;
     private final double[] extendedGrad;
     /** Channels whose samples all take part in the MC-statistics term: their Hessian is one rank-one term per bin. */
     private final boolean[] channelAllMc;
-    /** Vectors ∇c_b (local indices, stride maxLocal) and weights of a channel's bins, for one {@link WeightedGram} update. */
-    private final double[] gramVec;
-    private final double[] gramWeight;
-    /** The same vectors for every bin of the channel, by parameter: row l holds ∂c_b/∂θ_l over the bins. */
-    private final double[] gramByParam;
-    private final int[] gramBin;
+    /** Most multiplicative terms of a sample, and most bins of a channel whose samples all take part in the MC-statistics term. */
+    private final int maxMul, mostBins;
+    /** Work space of the channel blocks of the Hessian: one, or two when they are made on two threads. */
+    private final ChannelBlock first;
+    private ChannelBlock second;
+    /** Whether the channel blocks are big enough to be made two at a time ({@link #PARALLEL_WORK}). */
+    private boolean parallelBlocks;
     /** Per-sample T_s and per-shape-term sums kept from the gradient pass for the Hessian. */
     private final double[] sampleT;
     private final double[] shapeDBase;
@@ -146,19 +150,15 @@ public final class BinnedNll implements HingedObjective {
         wGamma = new double[m.nBins];
         gammaValue = new double[m.nGamma];
         gammaInterior = new boolean[m.nGamma];
-        int maxMul = 0;
+        int mostMul = 0;
         for (int s = 0; s < m.nSamples; s++) {
-            maxMul = Math.max(maxMul, m.sampleMulStart[s + 1] - m.sampleMulStart[s]);
+            mostMul = Math.max(mostMul, m.sampleMulStart[s + 1] - m.sampleMulStart[s]);
         }
+        maxMul = mostMul;
         prefix = new double[maxMul + 1];
         suffix = new double[maxMul + 1];
-        hvec = new double[maxMul + 1];
         int maxLocal = 0;
         for (int[] p : m.channelParams) maxLocal = Math.max(maxLocal, p.length);
-        gLoc = new double[maxLocal];
-        gcLoc = new double[maxLocal];
-        hLoc = new double[maxLocal];
-        hMat = new double[maxLocal * maxLocal];
         extended = new double[m.nAll];
         extendedGrad = new double[m.nAll];
         channelAllMc = new boolean[m.nChannels];
@@ -168,14 +168,16 @@ public final class BinnedNll implements HingedObjective {
             channelAllMc[c] = all;
         }
         stride = maxLocal;
-        int mostBins = 0;
+        int most = 0;
+        double work = 0;
         for (int c = 0; c < m.nChannels; c++) {
-            if (channelAllMc[c]) mostBins = Math.max(mostBins, m.channelBinStart[c + 1] - m.channelBinStart[c]);
+            int bins = m.channelBinStart[c + 1] - m.channelBinStart[c], L = m.channelParams[c].length;
+            if (channelAllMc[c]) most = Math.max(most, bins);
+            work += (double) bins * L * L;
         }
-        gramVec = new double[mostBins * maxLocal];
-        gramWeight = new double[mostBins];
-        gramByParam = new double[mostBins * maxLocal];
-        gramBin = new int[mostBins];
+        mostBins = most;
+        first = new ChannelBlock();
+        parallelBlocks = m.nChannels > 1 && work >= PARALLEL_WORK;
         sampleT = new double[m.nSamples];
         shapeDBase = new double[m.shapeParam.length];
         shapeU2 = new double[m.shapeParam.length];
@@ -188,6 +190,11 @@ public final class BinnedNll implements HingedObjective {
         hingeAlong = new double[mostEntries];
         hingeIndex = new int[mostShapes];
         hingeValue = new double[mostShapes];
+    }
+
+    /** Makes the channel blocks two at a time whatever the model's size (tests: the Hessian must not change). */
+    void blocksOnTwoThreads(boolean on) {
+        parallelBlocks = on && m.nChannels > 1;
     }
 
     public CompiledModel model() {
@@ -515,20 +522,7 @@ public final class BinnedNll implements HingedObjective {
 
         if (grad != null) {
             gradientTerms(grad, hess != null, explicit);
-            if (hess != null) {
-                for (int c = 0; c < m.nChannels; c++) {
-                    if (!data.channelIncluded()[c]) continue;
-                    // The channel's block over its own parameters (upper triangle of hMat), added
-                    // to the Hessian once: the scattered writes stay within a block in cache.
-                    int L = m.channelParams[c].length;
-                    Arrays.fill(hMat, 0, L * L, 0);
-                    if (!gaussNewton) {
-                        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
-                    }
-                    binOuterProducts(c, hess, hs, explicit);
-                    scatter(m.channelParams[c], hess, hs);
-                }
-            }
+            if (hess != null) channelBlocks(hess, hs, explicit);
         }
         return nll;
     }
@@ -769,237 +763,316 @@ public final class BinnedNll implements HingedObjective {
     }
 
     /**
-     * The Hessian terms of sample s that need only its sums from {@link #gradientTerms}, into the
-     * upper triangle of hMat (its channel's local indices): shape-term curvature, shape × norm
-     * terms, and T_s · ∂²C_s.
+     * Each channel's block over its own parameters (upper triangle of a block's work matrix), added
+     * to the Hessian once: the scattered writes stay within a block in cache. On a big model two
+     * channels at a time, one per thread; the blocks are added in channel order either way, so
+     * the Hessian is bit for bit the same.
      */
-    private void sampleSecondDerivatives(int s) {
-        final int L = m.channelParams[m.sampleChannel[s]].length;
-        final double cs = sampleC[s];
-        final int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
-        for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
-            int a = m.shapeLocal[k];
-            hMat[a * L + a] += cs * shapeU2[k] * shapeP[3 * k + 2];
-            double dBase = shapeDBase[k];
-            for (int l = mulFrom; l < mulTo; l++) {
-                int b = m.mulLocal[l];
-                double v = dBase * dC[l];
-                // the pair (θ_k, θ_l) and its mirror: one upper entry, or twice the diagonal
-                if (a == b) hMat[a * L + a] += 2 * v;
-                else hMat[Math.min(a, b) * L + Math.max(a, b)] += v;
+    private void channelBlocks(double[] hess, int hs, boolean explicit) {
+        final boolean[] included = data.channelIncluded();
+        if (!parallelBlocks) {
+            for (int c = 0; c < m.nChannels; c++) {
+                if (!included[c]) continue;
+                first.make(c, hess, hs, explicit);
+                first.scatter(m.channelParams[c], hess, hs);
             }
+            return;
         }
-        mulSecondDerivatives(s, sampleT[s], L);
+        if (second == null) second = new ChannelBlock();
+        int c = 0;
+        while (true) {
+            while (c < m.nChannels && !included[c]) c++;
+            int d = c + 1;
+            while (d < m.nChannels && !included[d]) d++;
+            if (c >= m.nChannels) return;
+            if (d >= m.nChannels) {
+                first.make(c, hess, hs, explicit);
+                first.scatter(m.channelParams[c], hess, hs);
+                return;
+            }
+            final int one = c, other = d;
+            TwoWay.run(() -> first.make(one, hess, hs, explicit), () -> second.make(other, hess, hs, explicit));
+            first.scatter(m.channelParams[one], hess, hs);
+            second.scatter(m.channelParams[other], hess, hs);
+            c = d + 1;
+        }
     }
 
     /**
-     * T_s · ∂²C_s/∂θ_k∂θ_l over the sample's multiplicative terms, without division, into the
-     * upper triangle of hMat: each ordered pair (k, l) whose local indices are in order, the
-     * mirror pair supplying the rest.
+     * Work space and code of one channel's block of the Hessian. It reads the evaluation's arrays
+     * and writes only its own, except the explicit layout's γ entries and the sinks of
+     * {@link #gammaBlocks}, which belong to the channel's own bins: two blocks of different
+     * channels can be made at the same time.
      */
-    private void mulSecondDerivatives(int s, double t, int L) {
-        int from = m.sampleMulStart[s], len = m.sampleMulStart[s + 1] - from;
-        boolean anyZero = false;
-        for (int j = 0; j < len; j++) anyZero |= mulValue[3 * (from + j)] == 0;
-        if (!anyZero) {
-            // No factor is zero: ∂²C/∂k∂l = C r_k r_l with r = g'/g, and C g_k''/g_k on the
-            // diagonal, one pass instead of a product per pair.
-            double tc = t * sampleC[s];
-            for (int j = 0; j < len; j++) hvec[j] = mulValue[3 * (from + j) + 1] / mulValue[3 * (from + j)];
+    private final class ChannelBlock {
+        private final double[] hvec = new double[maxMul + 1];
+        private final double[] prefix = new double[maxMul + 1];
+        private final double[] suffix = new double[maxMul + 1];
+        private final double[] gLoc = new double[stride];
+        private final double[] gcLoc = new double[stride];
+        private final double[] hLoc = new double[stride];
+        private final double[] hMat = new double[stride * stride];
+        /** Vectors ∇c_b (local indices, stride maxLocal) and weights of a channel's bins, for one {@link WeightedGram} update. */
+        private final double[] gramVec = new double[mostBins * stride];
+        private final double[] gramWeight = new double[mostBins];
+        /** The same vectors for every bin of the channel, by parameter: row l holds ∂c_b/∂θ_l over the bins. */
+        private final double[] gramByParam = new double[mostBins * stride];
+        private final int[] gramBin = new int[mostBins];
+
+        /** Channel c's block into hMat (upper triangle, stride L). */
+        void make(int c, double[] hess, int hs, boolean explicit) {
+            int L = m.channelParams[c].length;
+            Arrays.fill(hMat, 0, L * L, 0);
+            if (!gaussNewton) {
+                for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) sampleSecondDerivatives(s);
+            }
+            binOuterProducts(c, hess, hs, explicit);
+        }
+
+        /**
+         * The Hessian terms of sample s that need only its sums from {@link #gradientTerms}, into the
+         * upper triangle of hMat (its channel's local indices): shape-term curvature, shape × norm
+         * terms, and T_s · ∂²C_s.
+         */
+        private void sampleSecondDerivatives(int s) {
+            final int L = m.channelParams[m.sampleChannel[s]].length;
+            final double cs = sampleC[s];
+            final int mulFrom = m.sampleMulStart[s], mulTo = m.sampleMulStart[s + 1];
+            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                int a = m.shapeLocal[k];
+                hMat[a * L + a] += cs * shapeU2[k] * shapeP[3 * k + 2];
+                double dBase = shapeDBase[k];
+                for (int l = mulFrom; l < mulTo; l++) {
+                    int b = m.mulLocal[l];
+                    double v = dBase * dC[l];
+                    // the pair (θ_k, θ_l) and its mirror: one upper entry, or twice the diagonal
+                    if (a == b) hMat[a * L + a] += 2 * v;
+                    else hMat[Math.min(a, b) * L + Math.max(a, b)] += v;
+                }
+            }
+            mulSecondDerivatives(s, sampleT[s], L);
+        }
+
+        /**
+         * T_s · ∂²C_s/∂θ_k∂θ_l over the sample's multiplicative terms, without division, into the
+         * upper triangle of hMat: each ordered pair (k, l) whose local indices are in order, the
+         * mirror pair supplying the rest.
+         */
+        private void mulSecondDerivatives(int s, double t, int L) {
+            int from = m.sampleMulStart[s], len = m.sampleMulStart[s + 1] - from;
+            boolean anyZero = false;
+            for (int j = 0; j < len; j++) anyZero |= mulValue[3 * (from + j)] == 0;
+            if (!anyZero) {
+                // No factor is zero: ∂²C/∂k∂l = C r_k r_l with r = g'/g, and C g_k''/g_k on the
+                // diagonal, one pass instead of a product per pair.
+                double tc = t * sampleC[s];
+                for (int j = 0; j < len; j++) hvec[j] = mulValue[3 * (from + j) + 1] / mulValue[3 * (from + j)];
+                for (int k = 0; k < len; k++) {
+                    int ak = m.mulLocal[from + k];
+                    double rk = tc * hvec[k];
+                    for (int l = 0; l < len; l++) {
+                        int al = m.mulLocal[from + l];
+                        if (al < ak) continue;
+                        hMat[ak * L + al] += l == k ? tc * mulValue[3 * (from + k) + 2] / mulValue[3 * (from + k)] : rk * hvec[l];
+                    }
+                }
+                return;
+            }
             for (int k = 0; k < len; k++) {
                 int ak = m.mulLocal[from + k];
-                double rk = tc * hvec[k];
+                // h_j = g_j with term k replaced by its derivative; ∂²C/∂k∂l = g_l' Π_{j≠l} h_j.
+                for (int j = 0; j < len; j++) hvec[j] = j == k ? mulValue[3 * (from + j) + 1] : mulValue[3 * (from + j)];
+                prefix[0] = 1;
+                for (int j = 0; j < len; j++) prefix[j + 1] = prefix[j] * hvec[j];
+                suffix[len] = 1;
+                for (int j = len - 1; j >= 0; j--) suffix[j] = suffix[j + 1] * hvec[j];
                 for (int l = 0; l < len; l++) {
                     int al = m.mulLocal[from + l];
                     if (al < ak) continue;
-                    hMat[ak * L + al] += l == k ? tc * mulValue[3 * (from + k) + 2] / mulValue[3 * (from + k)] : rk * hvec[l];
+                    double d2;
+                    if (l == k) {
+                        d2 = mulValue[3 * (from + k) + 2] * productWithout(from, len, k);
+                    } else {
+                        d2 = mulValue[3 * (from + l) + 1] * prefix[l] * suffix[l + 1];
+                    }
+                    hMat[ak * L + al] += t * d2;
                 }
             }
-            return;
         }
-        for (int k = 0; k < len; k++) {
-            int ak = m.mulLocal[from + k];
-            // h_j = g_j with term k replaced by its derivative; ∂²C/∂k∂l = g_l' Π_{j≠l} h_j.
-            for (int j = 0; j < len; j++) hvec[j] = j == k ? mulValue[3 * (from + j) + 1] : mulValue[3 * (from + j)];
-            prefix[0] = 1;
-            for (int j = 0; j < len; j++) prefix[j + 1] = prefix[j] * hvec[j];
-            suffix[len] = 1;
-            for (int j = len - 1; j >= 0; j--) suffix[j] = suffix[j + 1] * hvec[j];
-            for (int l = 0; l < len; l++) {
-                int al = m.mulLocal[from + l];
-                if (al < ak) continue;
-                double d2;
-                if (l == k) {
-                    d2 = mulValue[3 * (from + k) + 2] * productWithout(from, len, k);
-                } else {
-                    d2 = mulValue[3 * (from + l) + 1] * prefix[l] * suffix[l + 1];
-                }
-                hMat[ak * L + al] += t * d2;
+
+        private double productWithout(int from, int len, int k) {
+            double p = 1;
+            for (int j = 0; j < len; j++) if (j != k) p *= mulValue[3 * (from + j)];
+            return p;
+        }
+
+        /**
+         * Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ over the channel's bins, into hMat in the channel's local parameter
+         * indices, minus the Schur terms of the profiled γ_b (profiled layout) or plus the γ rows and
+         * columns (explicit layout).
+         */
+        private void binOuterProducts(int c, double[] hess, int n, boolean explicit) {
+            if (!explicit && channelAllMc[c]) {
+                allMcOuterProducts(c, hess, n);
+                return;
             }
-        }
-    }
-
-    private double productWithout(int from, int len, int k) {
-        double p = 1;
-        for (int j = 0; j < len; j++) if (j != k) p *= mulValue[3 * (from + j)];
-        return p;
-    }
-
-    /**
-     * Σ_b (n_b/ν_b²) ∇ν_b ∇ν_bᵀ over the channel's bins, into hMat in the channel's local parameter
-     * indices, minus the Schur terms of the profiled γ_b (profiled layout) or plus the γ rows and
-     * columns (explicit layout).
-     */
-    private void binOuterProducts(int c, double[] hess, int n, boolean explicit) {
-        if (!explicit && channelAllMc[c]) {
-            allMcOuterProducts(c, hess, n);
-            return;
-        }
-        final int[] local = m.channelParams[c];
-        final int L = local.length;
-        final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        for (int b = b0; b < b1; b++) {
-            double qb = q[b];
-            double wb = gaussNewton ? 0 : w[b];
-            if (qb == 0 && wb == 0) continue;
-            binGradients(c, b);
-            rankOne(gLoc, qb, L);
-            int g = m.binGamma[b];
-            if (g < 0) continue;
-            double cb = cPart[b];
-            for (int i = 0; i < L; i++) hLoc[i] = wb * gcLoc[i] + qb * cb * gLoc[i];
-            int gi = m.nParams + g;
-            if (explicit && sinkCurvature != null) {
-                sinkCurvature[g] += qb * cb * cb;
-                System.arraycopy(hLoc, 0, sinkMixed, g * stride, L);
-            } else if (explicit) {
-                hess[gi * n + gi] += qb * cb * cb;
-                for (int i = 0; i < L; i++) {
-                    int p = local[i];
-                    hess[p * n + gi] += hLoc[i];
-                    hess[gi * n + p] += hLoc[i];
-                }
-            } else if (gammaInterior[g]) {
-                double hgg = qb * cb * cb + constraintCurvature(gi, gammaValue[g]);
-                if (hgg > 0) rankOne(hLoc, -1 / hgg, L);
-            }
-        }
-    }
-
-    /**
-     * {@link #binOuterProducts} for a channel whose samples all take part in the MC-statistics term
-     * (profiled layout). Then ∇ν_b = γ_b ∇c_b and the mixed derivative h_b = (w_b + q_b c_b γ_b) ∇c_b,
-     * so the bin's two rank-one terms q_b ∇ν∇νᵀ − h_b h_bᵀ / H_γγ are one,
-     * [q_b γ_b² − (w_b + q_b c_b γ_b)² / H_γγ] ∇c_b ∇c_bᵀ, with the cancellation in a scalar. The
-     * channel's block then is Vᵀ·diag(weights)·V over its bins, summed by {@link WeightedGram} (four bins per pass, cache-blocked).
-     */
-    private void allMcOuterProducts(int c, double[] hess, int n) {
-        final int[] local = m.channelParams[c];
-        final int L = local.length;
-        final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
-        int count = 0;
-        for (int b = b0; b < b1; b++) {
-            double qb = q[b];
-            double wb = gaussNewton ? 0 : w[b];
-            if (qb == 0 && wb == 0) continue;
-            double gammaB = binGammaValue[b];
-            double weight = qb * gammaB * gammaB;
-            int g = m.binGamma[b];
-            if (g >= 0 && gammaInterior[g]) {
+            final int[] local = m.channelParams[c];
+            final int L = local.length;
+            final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+            for (int b = b0; b < b1; b++) {
+                double qb = q[b];
+                double wb = gaussNewton ? 0 : w[b];
+                if (qb == 0 && wb == 0) continue;
+                binGradients(c, b);
+                rankOne(gLoc, qb, L);
+                int g = m.binGamma[b];
+                if (g < 0) continue;
                 double cb = cPart[b];
-                double hgg = qb * cb * cb + constraintCurvature(m.nParams + g, gammaValue[g]);
-                if (hgg > 0) {
-                    double kappa = wb + qb * cb * gammaB;
-                    weight -= kappa * kappa / hgg;
+                for (int i = 0; i < L; i++) hLoc[i] = wb * gcLoc[i] + qb * cb * gLoc[i];
+                int gi = m.nParams + g;
+                if (explicit && sinkCurvature != null) {
+                    sinkCurvature[g] += qb * cb * cb;
+                    System.arraycopy(hLoc, 0, sinkMixed, g * stride, L);
+                } else if (explicit) {
+                    hess[gi * n + gi] += qb * cb * cb;
+                    for (int i = 0; i < L; i++) {
+                        int p = local[i];
+                        hess[p * n + gi] += hLoc[i];
+                        hess[gi * n + p] += hLoc[i];
+                    }
+                } else if (gammaInterior[g]) {
+                    double hgg = qb * cb * cb + constraintCurvature(gi, gammaValue[g]);
+                    if (hgg > 0) rankOne(hLoc, -1 / hgg, L);
                 }
             }
-            if (weight == 0) continue;
-            gramBin[count] = b - b0;
-            gramWeight[count++] = weight;
         }
-        if (count == 0) return;
-        mcGradients(c);
-        // one row per bin kept, as the Gram update reads them
-        final int nb = b1 - b0;
-        for (int r = 0; r < count; r++) {
-            final int b = gramBin[r], at = r * stride;
-            for (int l = 0; l < L; l++) gramVec[at + l] = gramByParam[l * nb + b];
-        }
-        WeightedGram.addUpper(gramVec, stride, gramWeight, count, L, hMat);
-    }
 
-    /**
-     * ∇c_b of every bin of channel c into {@link #gramByParam} (row l: the derivatives by the
-     * channel's l-th parameter over its bins), a loop over the bins per term: the same sums, in the
-     * same order, as a pass over the samples bin by bin would make, in contiguous passes.
-     */
-    private void mcGradients(int c) {
-        final int L = m.channelParams[c].length;
-        final int b0 = m.channelBinStart[c], nb = m.channelBinStart[c + 1] - b0;
-        final double[] shapeS = m.shapeS, shapeA = m.shapeA, out = gramByParam;
-        Arrays.fill(out, 0, L * nb, 0);
-        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
-            final int e0 = m.sampleEntryStart[s];
-            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
-                final int row = m.mulLocal[k] * nb;
-                final double d = dC[k];
-                for (int b = 0; b < nb; b++) out[row + b] += base[e0 + b] * d;
+        /**
+         * {@link #binOuterProducts} for a channel whose samples all take part in the MC-statistics term
+         * (profiled layout). Then ∇ν_b = γ_b ∇c_b and the mixed derivative h_b = (w_b + q_b c_b γ_b) ∇c_b,
+         * so the bin's two rank-one terms q_b ∇ν∇νᵀ − h_b h_bᵀ / H_γγ are one,
+         * [q_b γ_b² − (w_b + q_b c_b γ_b)² / H_γγ] ∇c_b ∇c_bᵀ, with the cancellation in a scalar. The
+         * channel's block then is Vᵀ·diag(weights)·V over its bins, summed by {@link WeightedGram} (four bins per pass, cache-blocked).
+         */
+        private void allMcOuterProducts(int c, double[] hess, int n) {
+            final int[] local = m.channelParams[c];
+            final int L = local.length;
+            final int b0 = m.channelBinStart[c], b1 = m.channelBinStart[c + 1];
+            int count = 0;
+            for (int b = b0; b < b1; b++) {
+                double qb = q[b];
+                double wb = gaussNewton ? 0 : w[b];
+                if (qb == 0 && wb == 0) continue;
+                double gammaB = binGammaValue[b];
+                double weight = qb * gammaB * gammaB;
+                int g = m.binGamma[b];
+                if (g >= 0 && gammaInterior[g]) {
+                    double cb = cPart[b];
+                    double hgg = qb * cb * cb + constraintCurvature(m.nParams + g, gammaValue[g]);
+                    if (hgg > 0) {
+                        double kappa = wb + qb * cb * gammaB;
+                        weight -= kappa * kappa / hgg;
+                    }
+                }
+                if (weight == 0) continue;
+                gramBin[count] = b - b0;
+                gramWeight[count++] = weight;
             }
-            final double cs = sampleC[s];
-            final boolean anyClipped = sampleClipped[s];
-            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
-                final int row = m.shapeLocal[k] * nb, so = m.shapeCoeffStart[k];
-                final double p1 = shapeP[3 * k + 1];
-                if (!anyClipped) {
-                    for (int b = 0; b < nb; b++) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
-                } else {
-                    for (int b = 0; b < nb; b++) {
-                        if (!clipped[e0 + b]) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
+            if (count == 0) return;
+            mcGradients(c);
+            // one row per bin kept, as the Gram update reads them
+            final int nb = b1 - b0;
+            for (int r = 0; r < count; r++) {
+                final int b = gramBin[r], at = r * stride;
+                for (int l = 0; l < L; l++) gramVec[at + l] = gramByParam[l * nb + b];
+            }
+            WeightedGram.addUpper(gramVec, stride, gramWeight, count, L, hMat);
+        }
+
+        /**
+         * ∇c_b of every bin of channel c into {@link #gramByParam} (row l: the derivatives by the
+         * channel's l-th parameter over its bins), a loop over the bins per term: the same sums, in the
+         * same order, as a pass over the samples bin by bin would make, in contiguous passes.
+         */
+        private void mcGradients(int c) {
+            final int L = m.channelParams[c].length;
+            final int b0 = m.channelBinStart[c], nb = m.channelBinStart[c + 1] - b0;
+            final double[] shapeS = m.shapeS, shapeA = m.shapeA, out = gramByParam;
+            Arrays.fill(out, 0, L * nb, 0);
+            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+                final int e0 = m.sampleEntryStart[s];
+                for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
+                    final int row = m.mulLocal[k] * nb;
+                    final double d = dC[k];
+                    for (int b = 0; b < nb; b++) out[row + b] += base[e0 + b] * d;
+                }
+                final double cs = sampleC[s];
+                final boolean anyClipped = sampleClipped[s];
+                for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                    final int row = m.shapeLocal[k] * nb, so = m.shapeCoeffStart[k];
+                    final double p1 = shapeP[3 * k + 1];
+                    if (!anyClipped) {
+                        for (int b = 0; b < nb; b++) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
+                    } else {
+                        for (int b = 0; b < nb; b++) {
+                            if (!clipped[e0 + b]) out[row + b] += cs * (shapeS[so + b] + shapeA[so + b] * p1);
+                        }
                     }
                 }
             }
         }
-    }
 
-    /** hess += the symmetric block held in hMat's upper triangle, at the channel's parameters. */
-    private void scatter(int[] local, double[] hess, int n) {
-        final int L = local.length;
-        for (int i = 0; i < L; i++) {
-            int pi = local[i];
-            for (int j = i; j < L; j++) {
-                double v = hMat[i * L + j];
-                int pj = local[j];
-                hess[pi * n + pj] += v;
-                if (i != j) hess[pj * n + pi] += v;
+        /** hess += the symmetric block held in hMat's upper triangle, at the channel's parameters. */
+        private void scatter(int[] local, double[] hess, int n) {
+            final int L = local.length;
+            for (int i = 0; i < L; i++) {
+                int pi = local[i];
+                for (int j = i; j < L; j++) {
+                    double v = hMat[i * L + j];
+                    int pj = local[j];
+                    hess[pi * n + pj] += v;
+                    if (i != j) hess[pj * n + pi] += v;
+                }
             }
         }
-    }
 
-    /** Fills gLoc with ∇ν_b and gcLoc with ∇c_b (c_b: the part γ_b scales) in local indices. */
-    private void binGradients(int c, int b) {
-        final int L = m.channelParams[c].length;
-        final int b0 = m.channelBinStart[c];
-        final double[] shapeS = m.shapeS, shapeA = m.shapeA;
-        Arrays.fill(gLoc, 0, L, 0);
-        Arrays.fill(gcLoc, 0, L, 0);
-        double gammaB = binGammaValue[b];
-        for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
-            boolean mc = m.sampleMcStat[s];
-            int e = m.sampleEntryStart[s] + (b - b0);
-            double bs = base[e];
-            double scale = mc ? gammaB : 1;
-            for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
-                double d = bs * dC[k];
-                gLoc[m.mulLocal[k]] += scale * d;
-                if (mc) gcLoc[m.mulLocal[k]] += d;
+        /** Fills gLoc with ∇ν_b and gcLoc with ∇c_b (c_b: the part γ_b scales) in local indices. */
+        private void binGradients(int c, int b) {
+            final int L = m.channelParams[c].length;
+            final int b0 = m.channelBinStart[c];
+            final double[] shapeS = m.shapeS, shapeA = m.shapeA;
+            Arrays.fill(gLoc, 0, L, 0);
+            Arrays.fill(gcLoc, 0, L, 0);
+            double gammaB = binGammaValue[b];
+            for (int s = channelSampleStart[c]; s < channelSampleStart[c + 1]; s++) {
+                boolean mc = m.sampleMcStat[s];
+                int e = m.sampleEntryStart[s] + (b - b0);
+                double bs = base[e];
+                double scale = mc ? gammaB : 1;
+                for (int k = m.sampleMulStart[s]; k < m.sampleMulStart[s + 1]; k++) {
+                    double d = bs * dC[k];
+                    gLoc[m.mulLocal[k]] += scale * d;
+                    if (mc) gcLoc[m.mulLocal[k]] += d;
+                }
+                if (clipped[e]) continue;
+                double cs = sampleC[s];
+                for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
+                    int so = m.shapeCoeffStart[k] + (b - b0);
+                    double d = cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
+                    gLoc[m.shapeLocal[k]] += scale * d;
+                    if (mc) gcLoc[m.shapeLocal[k]] += d;
+                }
             }
-            if (clipped[e]) continue;
-            double cs = sampleC[s];
-            for (int k = m.sampleShapeStart[s]; k < m.sampleShapeStart[s + 1]; k++) {
-                int so = m.shapeCoeffStart[k] + (b - b0);
-                double d = cs * (shapeS[so] + shapeA[so] * shapeP[3 * k + 1]);
-                gLoc[m.shapeLocal[k]] += scale * d;
-                if (mc) gcLoc[m.shapeLocal[k]] += d;
+        }
+
+        /** Upper triangle of hMat += f · v vᵀ. */
+        private void rankOne(double[] v, double f, int L) {
+            if (f == 0) return;
+            for (int i = 0; i < L; i++) {
+                double vi = f * v[i];
+                if (vi == 0) continue;
+                final int row = i * L;
+                for (int j = i; j < L; j++) hMat[row + j] += vi * v[j];
             }
         }
     }
@@ -1055,9 +1128,9 @@ public final class BinnedNll implements HingedObjective {
                 }
                 out[g] = 1 / d;
                 if (!included) continue;
-                binGradients(c, b);
+                first.binGradients(c, b);
                 final int at = count * L;
-                for (int i = 0; i < L; i++) vectors[at + i] = w[b] * gcLoc[i] + q[b] * cb * gLoc[i];
+                for (int i = 0; i < L; i++) vectors[at + i] = w[b] * first.gcLoc[i] + q[b] * cb * first.gLoc[i];
                 bins[count++] = b;
             }
             if (count == 0) continue;
@@ -1069,17 +1142,6 @@ public final class BinnedNll implements HingedObjective {
                 double d = q[b] * cb * cb + constraintCurvature(nP + g, gammaValue[g]);
                 out[g] = 1 / d + quads[k] / (d * d);
             }
-        }
-    }
-
-    /** Upper triangle of hMat += f · v vᵀ. */
-    private void rankOne(double[] v, double f, int L) {
-        if (f == 0) return;
-        for (int i = 0; i < L; i++) {
-            double vi = f * v[i];
-            if (vi == 0) continue;
-            final int row = i * L;
-            for (int j = i; j < L; j++) hMat[row + j] += vi * v[j];
         }
     }
 
