@@ -11,8 +11,10 @@ import java.io.Serializable;
  * <p>Where Spark would raise an error or where the result is not reproduced bit for bit (integer
  * overflow, a float outside an integer's range, a division by zero in ANSI mode) a node does not
  * guess: it sets {@link Batch#refused} and the caller goes back to Spark's own evaluation. Nodes
- * evaluate every event (Spark skips the branches a CASE does not take), so such a refusal may come
- * from an event Spark would not have evaluated; it only costs the time of the other path.
+ * evaluate every event they are given (only the events that need a weight, see
+ * {@link BatchTally}, but both branches of a CASE, where Spark evaluates the one taken), so such a
+ * refusal may come from an event Spark would not have evaluated; it only costs the time of the
+ * other path.
  */
 abstract class BatchExpr implements Serializable {
 
@@ -366,16 +368,12 @@ abstract class BatchExpr implements Serializable {
             a.eval(batch);
             c.eval(batch);
             int n = batch.n;
-            for (int i = 0; i < n; i++) {
-                int cmp = a.kind == Kind.DOUBLE ? compareDoubles(a.d[i], c.d[i])
-                        : a.kind == Kind.LONG ? Long.compare(a.l[i], c.l[i]) : Boolean.compare(a.b[i], c.b[i]);
-                b[i] = switch (op) {
-                    case EQ, EQ_NULL_SAFE -> cmp == 0;
-                    case LT -> cmp < 0;
-                    case LE -> cmp <= 0;
-                    case GT -> cmp > 0;
-                    case GE -> cmp >= 0;
-                };
+            switch (a.kind) {
+                case DOUBLE -> doubles(a.d, c.d, n);
+                case LONG -> longs(a.l, c.l, n);
+                case BOOL -> {
+                    for (int i = 0; i < n; i++) b[i] = test(Boolean.compare(a.b[i], c.b[i]));
+                }
             }
             if (op != Compare.EQ_NULL_SAFE) {
                 nullsOf(n, a, c);
@@ -389,8 +387,42 @@ abstract class BatchExpr implements Serializable {
             }
         }
 
-        static int compareDoubles(double x, double y) {
-            return x == y ? 0 : Double.compare(x, y);
+        private boolean test(int cmp) {
+            return switch (op) {
+                case EQ, EQ_NULL_SAFE -> cmp == 0;
+                case LT -> cmp < 0;
+                case LE -> cmp <= 0;
+                case GT -> cmp > 0;
+                case GE -> cmp >= 0;
+            };
+        }
+
+        /**
+         * Doubles in Spark's order, one loop per operator without branches on the values: x < y
+         * holds when it holds in Java or when y alone is NaN; x ≤ y when it holds in Java or when
+         * y is NaN; x = y when it holds in Java or when both are NaN (Java's comparisons already
+         * take −0.0 as 0.0).
+         */
+        private void doubles(double[] x, double[] y, int n) {
+            boolean[] out = b;
+            switch (op) {
+                case LT -> { for (int i = 0; i < n; i++) out[i] = x[i] < y[i] | (y[i] != y[i] & x[i] == x[i]); }
+                case LE -> { for (int i = 0; i < n; i++) out[i] = x[i] <= y[i] | y[i] != y[i]; }
+                case GT -> { for (int i = 0; i < n; i++) out[i] = y[i] < x[i] | (x[i] != x[i] & y[i] == y[i]); }
+                case GE -> { for (int i = 0; i < n; i++) out[i] = y[i] <= x[i] | x[i] != x[i]; }
+                case EQ, EQ_NULL_SAFE -> { for (int i = 0; i < n; i++) out[i] = x[i] == y[i] | (x[i] != x[i] & y[i] != y[i]); }
+            }
+        }
+
+        private void longs(long[] x, long[] y, int n) {
+            boolean[] out = b;
+            switch (op) {
+                case LT -> { for (int i = 0; i < n; i++) out[i] = x[i] < y[i]; }
+                case LE -> { for (int i = 0; i < n; i++) out[i] = x[i] <= y[i]; }
+                case GT -> { for (int i = 0; i < n; i++) out[i] = x[i] > y[i]; }
+                case GE -> { for (int i = 0; i < n; i++) out[i] = x[i] >= y[i]; }
+                case EQ, EQ_NULL_SAFE -> { for (int i = 0; i < n; i++) out[i] = x[i] == y[i]; }
+            }
         }
     }
 

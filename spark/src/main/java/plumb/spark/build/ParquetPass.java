@@ -16,7 +16,6 @@ import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.types.DataTypes;
 import org.apache.spark.sql.types.StructType;
 import org.apache.spark.util.SerializableConfiguration;
-import org.apache.spark.sql.vectorized.ColumnVector;
 import org.apache.spark.sql.vectorized.ColumnarBatch;
 import plumb.spark.build.BuildSpec.Region;
 
@@ -239,15 +238,7 @@ final class ParquetPass {
             throws IOException, InterruptedException {
         Tally tally = new Tally(layout);
         BatchExpr.Column[] columns = program.columns();
-        List<BatchExpr> roots = new ArrayList<>();
-        for (BatchExpr[] s : program.steps()) roots.addAll(List.of(s));
-        roots.addAll(List.of(program.observables()));
-        roots.addAll(List.of(program.weights()));
-        for (BatchExpr c : columns) c.allocate(BATCH);
-        for (BatchExpr r : roots) r.allocate(BATCH);
-        int[][] depth = new int[program.steps().length][BATCH];
-        double[][] x = new double[program.observables().length][], w = new double[program.weights().length][];
-        BatchExpr.Batch batch = new BatchExpr.Batch();
+        BatchTally loop = new BatchTally(program, tally, BATCH);
         TaskAttemptContextImpl context = new TaskAttemptContextImpl(conf, new TaskAttemptID());
         for (TaskPlan.Range range : task.ranges()) {
             String file = range.file();
@@ -269,68 +260,13 @@ final class ParquetPass {
                 }
                 if (tally.refused != null) return tally;
                 while (reader.nextBatch()) {
-                    int n = read.numRows();
-                    for (int j = 0; j < columns.length; j++) load(read.column(j), columns[j], n);
-                    batch.n = n;
-                    for (BatchExpr r : roots) r.eval(batch);
-                    if (batch.refused != null) {
-                        tally.refused = batch.refused;
-                        return tally;
-                    }
-                    for (int r = 0; r < depth.length; r++) depth(program.steps()[r], depth[r], n);
-                    for (int o = 0; o < x.length; o++) x[o] = doubles(program.observables()[o], x[o], n);
-                    for (int k = 0; k < w.length; k++) w[k] = doubles(program.weights()[k], w[k], n);
-                    tally.add(n, depth, x, w);
+                    tally.refused = loop.add(read);
+                    if (tally.refused != null) return tally;
                 }
             } finally {
                 reader.close();
             }
         }
         return tally;
-    }
-
-    /**
-     * A number node's values as doubles with NaN where null: its own array when it holds doubles
-     * without nulls, else {@code buffer} (made when null) filled.
-     */
-    private static double[] doubles(BatchExpr e, double[] buffer, int n) {
-        if (e.kind == BatchExpr.Kind.DOUBLE && !e.anyNull) return e.d;
-        double[] out = buffer == null || buffer == e.d ? new double[BATCH] : buffer;
-        for (int i = 0; i < n; i++) out[i] = e.asDouble(i);
-        return out;
-    }
-
-    /** How many steps each event passes in a row (a null step fails, as in the row path). */
-    private static void depth(BatchExpr[] steps, int[] out, int n) {
-        java.util.Arrays.fill(out, 0, n, steps.length);
-        for (int k = steps.length - 1; k >= 0; k--) {
-            BatchExpr s = steps[k];
-            for (int i = 0; i < n; i++) if (!s.isTrue(i)) out[i] = k;
-        }
-    }
-
-    /** Copies one column of the batch into its node's arrays (zero where null). */
-    private static void load(ColumnVector v, BatchExpr.Column c, int n) {
-        boolean nulls = v.hasNull();
-        c.anyNull = nulls;
-        switch (c.kind) {
-            case DOUBLE -> { for (int i = 0; i < n; i++) c.d[i] = v.getDouble(i); }
-            case LONG -> {
-                if (c.bits == 32) for (int i = 0; i < n; i++) c.l[i] = v.getInt(i);
-                else for (int i = 0; i < n; i++) c.l[i] = v.getLong(i);
-            }
-            case BOOL -> { for (int i = 0; i < n; i++) c.b[i] = v.getBoolean(i); }
-        }
-        if (!nulls) return;
-        for (int i = 0; i < n; i++) {
-            boolean isNull = v.isNullAt(i);
-            c.nul[i] = isNull;
-            if (!isNull) continue;
-            switch (c.kind) {
-                case DOUBLE -> c.d[i] = 0;
-                case LONG -> c.l[i] = 0;
-                case BOOL -> c.b[i] = false;
-            }
-        }
     }
 }

@@ -41,6 +41,8 @@ final class Tally implements Serializable {
     private final double[][] stepWeighted;  // [distinct region][step], cumulative
     private final long[][] stepRaw;
     private transient double[] w;           // one event's weights
+    /** The exponent bits of a double: all set for ±∞ and NaN. */
+    private static final long EXPONENT = 0x7ff0000000000000L;
     /** Set when the batch evaluation refused a table (see {@link BatchExpr}): these numbers are then not used. */
     String refused;
 
@@ -117,49 +119,84 @@ final class Tally implements Serializable {
     }
 
     /**
-     * The events of one batch evaluated by {@link ParquetPass}, in the same order of operations
-     * as {@link #add(InternalRow)} so that a partition's sums do not depend on the path.
+     * The cut flow of some events of a batch evaluated by {@link ParquetPass}: each event that
+     * passes the first step of some region. With {@link #fill} the same additions in the same
+     * order as {@link #add(InternalRow)} (each sum grows event by event in the order of the
+     * events), so a partition's sums do not depend on the path.
      *
-     * @param depth       per distinct region, per event: the steps passed in a row
-     * @param observables the distinct observables per event (NaN where null)
-     * @param weights     the weights per event (NaN where null)
+     * @param m     the number of events
+     * @param rows  event j's row in the batch (null: row j)
+     * @param depth per distinct region, per row of the batch: the steps passed in a row
+     * @param w0    the first weight of event j (NaN where null)
      */
-    void add(int n, int[][] depth, double[][] observables, double[][] weights) {
-        int regions = layout.steps().length, nw = layout.weights();
+    // Without branches on the events: where an event did not pass a step, +0.0 is added, which
+    // leaves the sum as it was (a sum that starts at +0.0 never becomes −0.0, the one value that
+    // +0.0 would change), so the sums are those of the row path bit for bit.
+    void flow(int m, int[] rows, int[][] depth, double[] w0) {
+        for (int r = 0; r < depth.length; r++) {
+            int[] dr = depth[r];
+            double[] weighted = stepWeighted[r];
+            long[] raw = stepRaw[r];
+            int k = 0;
+            for (; k + 1 < weighted.length; k += 2) {   // two steps at a time: two sums in flight
+                double s0 = weighted[k], s1 = weighted[k + 1];
+                long n0 = 0, n1 = 0;
+                for (int j = 0; j < m; j++) {
+                    int d = dr[rows == null ? j : rows[j]];
+                    long bits = Double.doubleToRawLongBits(w0[j]);
+                    int past0 = (k - d) >> 31, past1 = (k + 1 - d) >> 31;   // −1 where the event passed the step, else 0
+                    s0 += Double.longBitsToDouble(bits & past0);
+                    s1 += Double.longBitsToDouble(bits & past1);
+                    n0 -= past0;
+                    n1 -= past1;
+                }
+                weighted[k] = s0;
+                weighted[k + 1] = s1;
+                raw[k] += n0;
+                raw[k + 1] += n1;
+            }
+            for (; k < weighted.length; k++) {
+                double s0 = weighted[k];
+                long n0 = 0;
+                for (int j = 0; j < m; j++) {
+                    int past0 = (k - dr[rows == null ? j : rows[j]]) >> 31;
+                    s0 += Double.longBitsToDouble(Double.doubleToRawLongBits(w0[j]) & past0);
+                    n0 -= past0;
+                }
+                weighted[k] = s0;
+                raw[k] += n0;
+            }
+        }
+    }
+
+    /**
+     * The histograms of some events of a batch evaluated by {@link ParquetPass}: each event
+     * selected by some region (see {@link #flow}).
+     *
+     * @param m           the number of events
+     * @param rows        event j's row in the batch (null: row j)
+     * @param depth       per distinct region, per row of the batch: the steps passed in a row
+     * @param observables the distinct observables of event j (NaN where null)
+     * @param weights     the weights of event j (NaN where null)
+     */
+    void fill(int m, int[] rows, int[][] depth, double[][] observables, double[][] weights) {
+        int nw = layout.weights();
         int[] steps = layout.steps(), depthOf = layout.depthOf(), observableOf = layout.observableOf();
         int[] offsets = layout.offsets(), weightsUsed = layout.weightsUsed();
         double[][] edges = layout.edges();
         boolean[] fold = layout.fold();
-        if (w == null) w = new double[nw];
-        for (int i = 0; i < n; i++) {
-            boolean selected = false, any = false;
-            for (int r = 0; r < regions; r++) {
-                int d = depth[r][i];
-                if (d == 0) continue;
-                any = true;
-                selected |= d == steps[r];
-            }
-            if (!any) continue;
-            double w0 = weights[0][i];
-            for (int r = 0; r < regions; r++) {
-                int d = depth[r][i];
-                double[] weighted = stepWeighted[r];
-                long[] raw = stepRaw[r];
-                for (int k = 0; k < d; k++) {
-                    weighted[k] += w0;
-                    raw[k]++;
-                }
-            }
-            if (!selected) continue;
-            for (int k = 0; k < nw; k++) {
-                double v = weights[k][i];
-                if (!Double.isFinite(v)) badWeight[k]++;
-                w[k] = v;
-            }
+        for (int k = 0; k < nw; k++) {
+            double[] wk = weights[k];
+            long bad = 0;
+            for (int j = 0; j < m; j++) bad += (Double.doubleToRawLongBits(wk[j]) & EXPONENT) == EXPONENT ? 1 : 0;
+            badWeight[k] += bad;
+        }
+        for (int j = 0; j < m; j++) {
+            int i = rows == null ? j : rows[j];
             for (int e = 0; e < depthOf.length; e++) {
                 int r = depthOf[e];
                 if (depth[r][i] != steps[r]) continue;
-                double x = observables[observableOf[e]][i];
+                double x = observables[observableOf[e]][j];
                 if (Double.isNaN(x)) {
                     badObservable[e]++;
                     continue;
@@ -170,7 +207,7 @@ final class Tally implements Serializable {
                 entries[cell]++;
                 int base = cell * nw;
                 for (int k = 0, used = weightsUsed[e]; k < used; k++) {
-                    double v = w[k];
+                    double v = weights[k][j];
                     sum[base + k] += v;
                     square[base + k] += v * v;
                 }
@@ -180,13 +217,32 @@ final class Tally implements Serializable {
 
     /**
      * The bin of x (not NaN) per docs/build-format.md: bin b holds edges[b] ≤ x < edges[b+1];
-     * outside the edges −1 (dropped) or the end bin (folded).
+     * outside the edges −1 (dropped) or the end bin (folded). The bin is first guessed as if the
+     * edges were equally spaced, then confirmed by the very comparisons a binary search makes
+     * (edges[b] ≤ x < edges[b+1], which only one b meets), so the answer is the binary search's
+     * for any edges; where neither the guess nor a neighbour holds x (uneven edges), the binary
+     * search decides.
      */
     static int bin(double x, double[] edges, boolean fold) {
         int n = edges.length - 1;
-        if (x < edges[0]) return fold ? 0 : -1;
-        if (x >= edges[n]) return fold ? n - 1 : -1;
-        int lo = 0, hi = n;   // edges[lo] <= x < edges[hi]
+        double lo = edges[0], hi = edges[n];
+        if (x < lo) return fold ? 0 : -1;
+        if (x >= hi) return fold ? n - 1 : -1;
+        // lo <= x < hi: the guess lies in [0, n] (rounding may give n, an overflow of hi - lo NaN → 0)
+        int g = Math.min((int) ((x - lo) / (hi - lo) * n), n - 1);
+        if (x < edges[g]) {
+            if (g > 0 && x >= edges[g - 1]) return g - 1;
+        } else if (x < edges[g + 1]) {
+            return g;
+        } else if (g + 2 <= n && x < edges[g + 2]) {
+            return g + 1;
+        }
+        return search(x, edges);
+    }
+
+    /** The binary search of {@link #bin}, for edges[0] ≤ x < edges[n]. */
+    static int search(double x, double[] edges) {
+        int lo = 0, hi = edges.length - 1;   // edges[lo] <= x < edges[hi]
         while (hi - lo > 1) {
             int mid = (lo + hi) >>> 1;
             if (x < edges[mid]) hi = mid;
