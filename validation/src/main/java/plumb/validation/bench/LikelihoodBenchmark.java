@@ -22,6 +22,7 @@ import java.util.concurrent.TimeUnit;
  * Cost of one likelihood evaluation on the generated models. Divide by
  * {@link CompiledModel#entries()} (printed by the setup) for the cost per (sample, bin, variation)
  * entry. The baseline is the value alone; the Hessian pass is measured too because Newton fits use it.
+ * {@code bareLoop} is the bound of value + gradient: the same entries' arithmetic alone ({@link BareLoop}).
  */
 @State(Scope.Thread)
 @BenchmarkMode(Mode.AverageTime)
@@ -38,6 +39,8 @@ public class LikelihoodBenchmark {
     private double[] x;
     private double[] gradient;
     private double[] hessian;
+    private BareLoop bare;
+    private double[] rho;
 
     @Setup
     public void setup() {
@@ -47,6 +50,10 @@ public class LikelihoodBenchmark {
         x[m.poi()] = 1.1; // off the nominal so no branch is trivially skipped
         gradient = new double[m.nParams()];
         hessian = new double[m.nParams() * m.nParams()];
+        bare = new BareLoop(m);
+        rho = new double[m.nBins()];
+        nll.valueAndGradient(x, gradient);
+        nll.binWeights(rho, new double[m.nBins()]);   // the bins' weights at x, as the gradient pass has them
         System.out.printf("%n%s model: %d entries, %d parameters, %d MC-statistics parameters%n",
                 size, m.entries(), m.nParams(), m.nGamma());
     }
@@ -59,6 +66,12 @@ public class LikelihoodBenchmark {
     @Benchmark
     public double valueAndGradient() {
         return nll.valueAndGradient(x, gradient);
+    }
+
+    @Benchmark
+    public double bareLoop() {
+        Arrays.fill(gradient, 0);
+        return bare.pass(x, rho, gradient);
     }
 
     @Benchmark
