@@ -20,7 +20,8 @@ import java.util.TreeSet;
 /**
  * The table of {@code bench-compare}: the same JMH benchmarks run with an older and a newer
  * benchmarks jar, one row per benchmark and parameter set, the two scores with JMH's errors and
- * their ratio new/old. Reads a plan file, one benchmark a line:
+ * their ratio new/old, and the same for the process CPU time per operation where the runs had
+ * {@link CpuTimeProfiler}. Reads a plan file, one benchmark a line:
  * {@code NAME<TAB>OLD.json<TAB>NEW.json}, each file JMH's JSON result of that benchmark's run
  * ({@code -rf json -rff FILE}), or {@code -} where that jar has no such benchmark. A run that left
  * no result (the benchmark threw) shows as failed. Scores of time modes are put in the newer
@@ -30,12 +31,20 @@ public final class BenchComparison {
 
     private static final ObjectMapper JSON = new ObjectMapper();
 
-    /** One score of a JMH result file. */
-    record Score(String benchmark, String mode, Map<String, String> params, double score, double error, String unit) {
+    /** One score of a JMH result file, with the CPU time per operation (null where not measured). */
+    record Score(String benchmark, String mode, Map<String, String> params, Value time, Value cpu) {
     }
 
-    /** One line of the table; {@code note} says what stands in for a missing score or a missing parameter. */
-    record Row(String benchmark, String params, String mode, String old, String recent, String ratio, String note) {
+    /** A score with JMH's error (NaN where it has none) and its unit. */
+    record Value(double score, double error, String unit) {
+    }
+
+    /**
+     * One line of the table; {@code note} says what stands in for a missing score or a missing
+     * parameter; the CPU cells are empty where the runs did not measure it.
+     */
+    record Row(String benchmark, String params, String mode, String old, String recent, String ratio,
+               String oldCpu, String recentCpu, String cpuRatio, String note) {
     }
 
     private BenchComparison() {
@@ -75,11 +84,15 @@ public final class BenchComparison {
                 Map.Entry<String, JsonNode> p = it.next();
                 params.put(p.getKey(), p.getValue().asText());
             }
-            JsonNode m = r.path("primaryMetric");
-            out.add(new Score(benchmark, r.path("mode").asText(), params, number(m.path("score")),
-                    number(m.path("scoreError")), m.path("scoreUnit").asText()));
+            JsonNode cpu = r.path("secondaryMetrics").path(CpuTimeProfiler.LABEL);
+            out.add(new Score(benchmark, r.path("mode").asText(), params, value(r.path("primaryMetric")),
+                    cpu.isMissingNode() ? null : value(cpu)));
         }
         return out;
+    }
+
+    private static Value value(JsonNode metric) {
+        return new Value(number(metric.path("score")), number(metric.path("scoreError")), metric.path("scoreUnit").asText());
     }
 
     /** JMH writes "NaN" as a string where it has no error (fewer than two iterations). */
@@ -102,13 +115,11 @@ public final class BenchComparison {
     static List<Row> compare(String benchmark, List<Score> old, List<Score> recent) {
         String name = shortName(benchmark);
         List<Row> rows = new ArrayList<>();
+        String noOld = old == null ? "not in old jar" : "failed (no result)";
+        String noNew = recent == null ? "not in new jar" : "failed (no result)";
         if (recent == null || recent.isEmpty()) {
-            String missing = recent == null ? "not in new jar" : "failed (no result)";
-            if (old == null || old.isEmpty()) {
-                rows.add(new Row(name, "", "", old == null ? "not in old jar" : "failed (no result)", missing, "", ""));
-            } else {
-                for (Score o : old) rows.add(new Row(name, params(o.params()), o.mode(), cell(o, o.unit()), missing, "", ""));
-            }
+            if (old == null || old.isEmpty()) rows.add(row(name, "", "", noOld, null, noNew, null, ""));
+            else for (Score o : old) rows.add(row(name, params(o.params()), o.mode(), null, o, noNew, null, ""));
             return rows;
         }
         Set<String> oldKeys = new TreeSet<>();
@@ -116,12 +127,8 @@ public final class BenchComparison {
         List<Score> unmatched = old == null ? new ArrayList<>() : new ArrayList<>(old);
         for (Score n : recent) {
             String params = params(n.params());
-            if (old == null) {
-                rows.add(new Row(name, params, n.mode(), "not in old jar", cell(n, n.unit()), "", ""));
-                continue;
-            }
-            if (old.isEmpty()) {
-                rows.add(new Row(name, params, n.mode(), "failed (no result)", cell(n, n.unit()), "", ""));
+            if (old == null || old.isEmpty()) {
+                rows.add(row(name, params, n.mode(), noOld, null, null, n, ""));
                 continue;
             }
             Set<String> newOnly = new TreeSet<>(n.params().keySet());
@@ -129,20 +136,39 @@ public final class BenchComparison {
             String note = newOnly.isEmpty() ? "" : "old jar has no parameter " + String.join(", ", newOnly);
             Score o = match(n, old);
             if (o == null) {
-                rows.add(new Row(name, params, n.mode(), "no such parameters in old jar", cell(n, n.unit()), "", note));
+                rows.add(row(name, params, n.mode(), "no such parameters in old jar", null, null, n, note));
                 continue;
             }
             unmatched.remove(o);
-            double oldScore = inUnit(o.score(), o.unit(), n.unit());
-            double oldError = inUnit(o.error(), o.unit(), n.unit());
-            String oldCell = Double.isNaN(oldScore) ? cell(o, o.unit()) : cell(oldScore, oldError, n.unit());
-            String ratio = Double.isNaN(oldScore) ? "" : String.format(Locale.ROOT, "%.2f", n.score() / oldScore);
-            rows.add(new Row(name, params, n.mode(), oldCell, cell(n, n.unit()), ratio, note));
+            rows.add(row(name, params, n.mode(), null, o, null, n, note));
         }
-        for (Score o : unmatched) {
-            rows.add(new Row(name, params(o.params()), o.mode(), cell(o, o.unit()), "no such parameters in new jar", "", ""));
-        }
+        for (Score o : unmatched) rows.add(row(name, params(o.params()), o.mode(), null, o, "no such parameters in new jar", null, ""));
         return rows;
+    }
+
+    /** A row from the older and newer score, either standing for its text where missing (null). */
+    private static Row row(String name, String params, String mode, String oldText, Score o, String newText, Score n, String note) {
+        String[] time = pair(o == null ? null : o.time(), oldText, n == null ? null : n.time(), newText);
+        Value oldCpu = o == null ? null : o.cpu(), newCpu = n == null ? null : n.cpu();
+        // one run without CPU time: no CPU cells rather than one alone that reads like a comparison
+        String[] cpu = o != null && n != null && (oldCpu == null || newCpu == null)
+                ? new String[] {"", "", ""} : pair(oldCpu, "", newCpu, "");
+        return new Row(name, params, mode, time[0], time[1], time[2], cpu[0], cpu[1], cpu[2], note);
+    }
+
+    /** Old cell, new cell and ratio; the older value in the newer one's unit where both are times per operation. */
+    private static String[] pair(Value o, String oldText, Value n, String newText) {
+        if (o == null || n == null) {
+            return new String[] {o == null ? orEmpty(oldText) : cell(o), n == null ? orEmpty(newText) : cell(n), ""};
+        }
+        double oldScore = inUnit(o.score(), o.unit(), n.unit());
+        if (Double.isNaN(oldScore)) return new String[] {cell(o), cell(n), ""};
+        double oldError = inUnit(o.error(), o.unit(), n.unit());
+        return new String[] {cell(oldScore, oldError, n.unit()), cell(n), String.format(Locale.ROOT, "%.2f", n.score() / oldScore)};
+    }
+
+    private static String orEmpty(String s) {
+        return s == null ? "" : s;
     }
 
     /** The older score of the same mode whose parameters agree with the newer one's on every parameter both have. */
@@ -172,8 +198,8 @@ public final class BenchComparison {
         return String.join(" ", kv);
     }
 
-    private static String cell(Score s, String unit) {
-        return cell(s.score(), s.error(), unit);
+    private static String cell(Value v) {
+        return cell(v.score(), v.error(), v.unit());
     }
 
     /** "1.86 ± 0.21 ms/op", three significant digits; no error where JMH has none. */
@@ -210,25 +236,36 @@ public final class BenchComparison {
         };
     }
 
-    /** The table with aligned columns, headed by the two labels. */
+    /** The table with aligned columns, headed by the two labels; CPU columns where any run measured CPU time. */
     static void print(List<Row> rows, String oldLabel, String newLabel, PrintStream out) {
-        String[] head = {"benchmark", "params", "mode", "old " + oldLabel, "new " + newLabel, "new/old", ""};
+        boolean cpu = false;
+        for (Row r : rows) cpu |= !r.oldCpu().isEmpty() || !r.recentCpu().isEmpty();
         List<String[]> cells = new ArrayList<>();
-        cells.add(head);
-        for (Row r : rows) cells.add(new String[] {r.benchmark(), r.params(), r.mode(), r.old(), r.recent(), r.ratio(), r.note()});
-        int[] width = new int[head.length];
+        cells.add(cpu
+                ? new String[] {"benchmark", "params", "mode", "old " + oldLabel, "new " + newLabel, "new/old",
+                        "CPU old", "CPU new", "new/old", ""}
+                : new String[] {"benchmark", "params", "mode", "old " + oldLabel, "new " + newLabel, "new/old", ""});
+        for (Row r : rows) {
+            cells.add(cpu
+                    ? new String[] {r.benchmark(), r.params(), r.mode(), r.old(), r.recent(), r.ratio(),
+                            r.oldCpu(), r.recentCpu(), r.cpuRatio(), r.note()}
+                    : new String[] {r.benchmark(), r.params(), r.mode(), r.old(), r.recent(), r.ratio(), r.note()});
+        }
+        int columns = cells.get(0).length;
+        int[] width = new int[columns];
         for (String[] c : cells) {
-            for (int i = 0; i < c.length; i++) width[i] = Math.max(width[i], c[i].length());
+            for (int i = 0; i < columns; i++) width[i] = Math.max(width[i], c[i].length());
         }
         for (String[] c : cells) {
             StringBuilder line = new StringBuilder();
-            for (int i = 0; i < c.length; i++) {
-                boolean right = i >= 3 && i <= 5;
+            for (int i = 0; i < columns; i++) {
+                boolean right = i >= 3 && i < columns - 1;
                 String pad = " ".repeat(width[i] - c[i].length());
-                line.append(right ? pad + c[i] : c[i] + (i < c.length - 1 ? pad : "")).append(i < c.length - 1 ? "  " : "");
+                line.append(right ? pad + c[i] : c[i] + pad).append("  ");
             }
             out.println(line.toString().stripTrailing());
         }
-        out.println("new/old: ratio of the scores (per operation: below 1 the new jar is faster); ± is JMH's 99.9 % error");
+        out.println("new/old: ratio of the scores (per operation: below 1 the new jar is faster); ± is JMH's 99.9 % error"
+                + (cpu ? "; CPU: process CPU time per operation (all threads, JIT and GC included)" : ""));
     }
 }

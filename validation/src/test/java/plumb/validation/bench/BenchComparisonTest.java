@@ -22,6 +22,19 @@ class BenchComparisonTest {
 
     /** One JMH JSON result entry; {@code error} is a JSON value (JMH writes "NaN" as a string). */
     private static String entry(String benchmark, String mode, String params, double score, String error, String unit) {
+        return entry(benchmark, mode, params, score, error, unit, "");
+    }
+
+    /** The same with a CPU time per operation as {@link CpuTimeProfiler} reports it. */
+    private static String entry(String benchmark, String mode, String params, double score, String error, String unit,
+                                double cpu, double cpuError, String cpuUnit) {
+        return entry(benchmark, mode, params, score, error, unit, """
+                "%s" : { "score" : %s, "scoreError" : %s, "scoreConfidence" : [ 0, 0 ], "scoreUnit" : "%s", "rawData" : [ [ 1 ] ] }
+                """.formatted(CpuTimeProfiler.LABEL, cpu, cpuError, cpuUnit));
+    }
+
+    private static String entry(String benchmark, String mode, String params, double score, String error, String unit,
+                                String secondary) {
         return """
                 {
                     "jmhVersion" : "1.37",
@@ -37,8 +50,8 @@ class BenchComparisonTest {
                         "scoreUnit" : "%s",
                         "rawData" : [ [ 1, 2, 3 ] ]
                     },
-                    "secondaryMetrics" : { }
-                }""".formatted(benchmark, mode, params, score, error, unit);
+                    "secondaryMetrics" : { %s }
+                }""".formatted(benchmark, mode, params, score, error, unit, secondary);
     }
 
     private Path file(String name, String... entries) throws IOException {
@@ -130,6 +143,33 @@ class BenchComparisonTest {
         // the ratio column is right-aligned: the header's and the row's end at the same place
         assertEquals(lines[0].indexOf("new/old") + "new/old".length(), lines[1].indexOf("0.55") + "0.55".length());
         assertTrue(lines[1].startsWith("FitBenchmark.newtonFit  size=medium  avgt"), lines[1]);
+    }
+
+    @Test
+    void cpuTimeBesideTheWallTimeWhereBothRunsMeasuredIt() throws IOException {
+        Path old = file("c.old.json",
+                entry("FitBenchmark.newtonFit", "avgt", "\"size\" : \"medium\"", 1.86, "0.2", "ms/op", 1800, 100, "us/op"),
+                entry("FitBenchmark.newtonFit", "avgt", "\"size\" : \"large\"", 129, "12", "ms/op"));
+        Path recent = file("c.new.json",
+                entry("FitBenchmark.newtonFit", "avgt", "\"size\" : \"medium\"", 1.02, "0.5", "ms/op", 0.9, 0.05, "ms/op"),
+                entry("FitBenchmark.newtonFit", "avgt", "\"size\" : \"large\"", 43, "5", "ms/op", 40, 2, "ms/op"));
+        List<BenchComparison.Row> rows = BenchComparison.rows(plan(
+                "plumb.validation.bench.FitBenchmark.newtonFit\t" + old + "\t" + recent));
+        BenchComparison.Row medium = rows.get(0), large = rows.get(1);
+        assertEquals("1.80 ± 0.100 ms/op", medium.oldCpu());
+        assertEquals("0.900 ± 0.0500 ms/op", medium.recentCpu());
+        assertEquals("0.50", medium.cpuRatio());
+        // the old run of large has no CPU time: no CPU cells at all
+        assertEquals("", large.oldCpu());
+        assertEquals("", large.recentCpu());
+        assertEquals("", large.cpuRatio());
+        assertEquals("0.33", large.ratio());
+
+        ByteArrayOutputStream bytes = new ByteArrayOutputStream();
+        BenchComparison.print(rows, "a", "b", new PrintStream(bytes, true, StandardCharsets.UTF_8));
+        String[] lines = bytes.toString(StandardCharsets.UTF_8).split("\n");
+        assertTrue(lines[0].contains("CPU old") && lines[0].contains("CPU new"), lines[0]);
+        assertTrue(lines[1].endsWith("0.50"), lines[1]);
     }
 
     @Test
