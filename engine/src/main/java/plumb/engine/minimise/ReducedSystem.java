@@ -1,6 +1,9 @@
 package plumb.engine.minimise;
 
 import plumb.engine.linalg.CholeskySolver;
+import plumb.engine.linalg.FillOrder;
+
+import java.util.Arrays;
 
 /**
  * The Hessian restricted to a set of variables, factored by Cholesky, with work arrays sized once
@@ -18,12 +21,27 @@ final class ReducedSystem {
     final double[] solution;
     private final CholeskySolver cholesky;
 
+    /**
+     * Fewest variables for which the system is factored in a fill-reducing order
+     * ({@link FillOrder}): below it the order costs more than it saves, and the systems of small
+     * models are factored exactly as before.
+     */
+    static final int ORDERED_FROM = 400;
+    /** Whether the current factor is in {@link #order}; else in system order. */
+    private boolean ordered;
+    /** order[p]: the system position factored p-th; pattern and index set it was made for. */
+    private int[] order;
+    private long[] orderPattern;
+    private int[] orderIndex;
+    private final double[] permuted;
+
     ReducedSystem(int n) {
         this.n = n;
         this.index = new int[n];
         this.matrix = new double[n * n];
         this.rhs = new double[n];
         this.solution = new double[n];
+        this.permuted = new double[n];
         this.cholesky = CholeskySolver.create(n);
     }
 
@@ -78,12 +96,59 @@ final class ReducedSystem {
                 matrix[out + a] = d + lambda * Math.max(Math.abs(d), floor);
             }
         }
+        ordered = k >= ORDERED_FROM;
+        if (!ordered) return cholesky.decompose(matrix, k);
+        permute(k);
         return cholesky.decompose(matrix, k);
+    }
+
+    /**
+     * Rewrites the lower triangle of {@code matrix} (system order) in the fill-reducing order, made
+     * anew only when the non-zero pattern or the variables changed since the last one.
+     */
+    private void permute(int k) {
+        long[] pattern = FillOrder.pattern(matrix, k);
+        if (order == null || order.length != k || !Arrays.equals(pattern, orderPattern)
+                || !Arrays.equals(index, 0, k, orderIndex, 0, k)) {
+            order = FillOrder.minimumDegree(pattern, k);
+            orderPattern = pattern;
+            orderIndex = Arrays.copyOf(index, k);
+        }
+        // both triangles in a work array, then the permuted matrix's row p, column q (q ≤ p) is
+        // the system's (order[p], order[q])
+        double[] full = fullWork(k);
+        for (int a = 0; a < k; a++) {
+            final int row = a * k;
+            for (int b = 0; b <= a; b++) {
+                full[row + b] = matrix[row + b];
+                full[b * k + a] = matrix[row + b];
+            }
+        }
+        for (int p = 0; p < k; p++) {
+            final int row = order[p] * k, out = p * k;
+            for (int q = 0; q <= p; q++) matrix[out + q] = full[row + order[q]];
+        }
+    }
+
+    /** k² work array of the ordered case (the symmetric matrix, then the inverse), made on first use. */
+    private double[] full;
+
+    private double[] fullWork(int k) {
+        if (full == null || full.length < k * k) full = new double[n * n];
+        return full;
     }
 
     /** Solves the factored system for v_F into {@link #solution}; returns v_Fᵀ H_FF⁻¹ v_F. */
     double solve(double[] v) {
         final int k = size;
+        if (ordered) {
+            for (int p = 0; p < k; p++) rhs[p] = v[index[order[p]]];
+            cholesky.solve(rhs, permuted);
+            for (int p = 0; p < k; p++) solution[order[p]] = permuted[p];
+            double sum = 0;
+            for (int p = 0; p < k; p++) sum += rhs[p] * permuted[p];
+            return sum;
+        }
         for (int a = 0; a < k; a++) {
             rhs[a] = v[index[a]];
         }
@@ -97,7 +162,17 @@ final class ReducedSystem {
 
     /** Writes the inverse of the factored matrix (k·k, stride k) into out. */
     void invert(double[] out) {
-        cholesky.invert(out);
+        if (!ordered) {
+            cholesky.invert(out);
+            return;
+        }
+        final int k = size;
+        double[] inverse = fullWork(k);
+        cholesky.invert(inverse);
+        for (int p = 0; p < k; p++) {
+            final int row = order[p] * k, in = p * k;
+            for (int q = 0; q < k; q++) out[row + order[q]] = inverse[in + q];
+        }
     }
 
     /**
