@@ -3,94 +3,129 @@ package plumb.validation.bench;
 import plumb.engine.compile.CompiledModel;
 import plumb.engine.compile.ModelCompiler;
 import plumb.engine.inference.FitResult;
-import plumb.engine.inference.FitSettings;
+import plumb.engine.inference.Fitter;
 import plumb.engine.inference.Impacts;
 import plumb.engine.inference.PostfitCovariance;
+import plumb.engine.inference.Problem;
 import plumb.engine.inference.Yields;
 import plumb.engine.likelihood.BinnedNll;
 import plumb.engine.likelihood.DataSet;
 import plumb.engine.linalg.CholeskySolver;
-import plumb.engine.minimise.BoundedNewton;
-import plumb.engine.minimise.MinimiserOptions;
-import plumb.engine.minimise.MinimumResult;
-import plumb.engine.minimise.MinimumStatus;
+import plumb.engine.linalg.FillOrder;
 import plumb.engine.model.Model;
 import plumb.engine.model.ModelReader;
 
 import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryMXBean;
 import java.lang.management.ThreadMXBean;
 import java.nio.file.Path;
 import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
 
 /**
- * Thread-CPU figures of every stage of the work on a big model, for a machine too busy for wall
- * times: reading, compiling, one value+gradient and one value+gradient+Hessian, N Newton
- * iterations from the nominal values, then at the point they reach a factorisation and inverse of
- * the Hessian, the γ variances, the block post-fit covariance, the yields with errors, the
- * linearised ranking and the grouped breakdown. Each stage is timed on its own, so the figures
- * hold whether or not N iterations converge.
- * {@code java -Xmx4g -cp validation/target/benchmarks.jar plumb.validation.bench.ScaleFigures MODEL.json N}
+ * Figures of the whole chain of work on a big model, stage by stage, as the commands run it:
+ * reading, compiling, the fit with errors ({@code plumb fit}: Newton, the kink and other-side
+ * checks, the covariance and the γ errors), then at its minimum one value + gradient + Hessian
+ * and its factorisation in the parameters' order and in the fill-reducing one Newton uses (the cost
+ * of a Newton iteration, timed N times), the block post-fit
+ * covariance, the yields with errors ({@code plumb yields}), the linearised ranking and the grouped
+ * breakdown ({@code plumb impacts --exact-top 0}). Each stage prints the calling thread's CPU
+ * time, the process's CPU time (every thread: the second thread of the Hessian and the
+ * factorisation, the garbage collector, the compiler) and the wall time, so the figures mean
+ * something on a busy machine (CPU) and on a quiet one (wall).
+ * {@code java -Xmx4g -cp validation/target/benchmarks.jar plumb.validation.bench.ScaleFigures MODEL.json [N]}
  */
 public final class ScaleFigures {
 
     private static final ThreadMXBean THREADS = ManagementFactory.getThreadMXBean();
-    private static long mark;
+    private static final com.sun.management.OperatingSystemMXBean OS =
+            (com.sun.management.OperatingSystemMXBean) ManagementFactory.getOperatingSystemMXBean();
+    private static final MemoryMXBean MEMORY = ManagementFactory.getMemoryMXBean();
+
+    private static long threadMark, processMark, wallMark;
+    private static long threadStart, processStart, wallStart;
 
     private ScaleFigures() {
     }
 
-    private static void lap(String stage) {
-        long now = THREADS.getCurrentThreadCpuTime();
-        System.out.printf("%-40s %7.2f s%n", stage, (now - mark) * 1e-9);
-        mark = THREADS.getCurrentThreadCpuTime();
+    private static void mark() {
+        threadMark = THREADS.getCurrentThreadCpuTime();
+        processMark = OS.getProcessCpuTime();
+        wallMark = System.nanoTime();
+    }
+
+    /** Prints the stage's figures since the last mark and marks again. */
+    private static double lap(String stage) {
+        long t = THREADS.getCurrentThreadCpuTime(), p = OS.getProcessCpuTime(), w = System.nanoTime();
+        double wall = (w - wallMark) * 1e-9;
+        System.out.printf(Locale.ROOT, "%-52s %8.2f %8.2f %8.2f%n", stage, (t - threadMark) * 1e-9,
+                (p - processMark) * 1e-9, wall);
+        mark();
+        return wall;
     }
 
     public static void main(String[] args) {
-        mark = THREADS.getCurrentThreadCpuTime();
+        if (args.length < 1) {
+            System.err.println("usage: ScaleFigures MODEL.json [N: times the Newton iteration's pieces are timed, default 3]");
+            System.exit(2);
+        }
+        int repeats = args.length > 1 ? Integer.parseInt(args[1]) : 3;
+        System.out.printf(Locale.ROOT, "%-52s %8s %8s %8s%n", "stage (seconds)", "thread", "process", "wall");
+        mark();
+        threadStart = threadMark;
+        processStart = processMark;
+        wallStart = wallMark;
         Model model = ModelReader.read(Path.of(args[0]));
         lap("read");
         CompiledModel m = ModelCompiler.compile(model);
-        lap("compile");
-        DataSet data = DataSet.observed(m);
-        BinnedNll nll = new BinnedNll(m, data);
+        model = null;
+        lap("compile (" + m.nParams() + " parameters, " + m.nGamma() + " MC-statistics γ)");
+
+        Problem problem = Problem.observed(m);
+        Fitter fitter = new Fitter(problem);
+        FitResult best = fitter.fit();
+        lap("fit with errors: " + best.status() + ", " + best.iterations() + " iterations, "
+                + best.evaluations() + " evaluations");
+        System.out.printf(Locale.ROOT, "  -ln L %.6f, mu %.6f ± %.6f%n", best.nll(), best.values()[m.poi()],
+                best.errors()[m.poi()]);
+
         int n = m.nParams();
-        double[] x = Arrays.copyOf(m.nominal(), n), g = new double[n], h = new double[n * n];
-        nll.valueAndGradient(x, g);
-        lap("value+gradient");
-        nll.valueGradientHessian(x, g, h);
-        lap("value+gradient+Hessian");
-        int iterations = Integer.parseInt(args[1]);
-        BoundedNewton newton = new BoundedNewton(n, MinimiserOptions.defaults().withRestart(false).withMaxIterations(iterations));
-        MinimumResult r = newton.minimise(nll, x, Arrays.copyOf(m.lower(), n), Arrays.copyOf(m.upper(), n),
-                Arrays.copyOf(m.fixed(), n));
-        lap("Newton: " + r.iterations() + " iterations, " + r.evaluations() + " evaluations");
+        BinnedNll nll = fitter.likelihood();
+        double[] x = Arrays.copyOf(best.values(), n), g = new double[n], h = new double[n * n];
         CholeskySolver cholesky = CholeskySolver.create(n);
-        if (!cholesky.decompose(r.hessian(), n)) {
-            System.out.println("the Hessian is not positive definite at that point (" + r.status() + "): stop");
-            return;
+        double[] permuted = new double[n * n];
+        for (int r = 0; r < repeats; r++) {
+            nll.valueGradientHessian(x, g, h);
+            lap("  at the minimum: value + gradient + Hessian");
+            boolean definite = cholesky.decompose(h, n);
+            lap("  at the minimum: factor " + n + "², parameters' order" + (definite ? "" : " (not definite)"));
+            int[] order = FillOrder.minimumDegree(FillOrder.pattern(h, n), n);
+            lap("  at the minimum: minimum-degree order (made once per fit)");
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j <= i; j++) permuted[i * n + j] = h[order[i] * n + order[j]];
+            }
+            definite = cholesky.decompose(permuted, n);
+            lap("  at the minimum: factor " + n + "², that order" + (definite ? "" : " (not definite)"));
         }
-        lap("factor of the Hessian, " + n + "²");
-        double[] cov = new double[n * n];
-        cholesky.invert(cov);
-        lap("inverse of the Hessian");
-        double[] values = new double[m.nAll()], errors = new double[m.nAll()], var = new double[m.nGamma()];
-        nll.allValues(r.x(), values);
-        for (int i = 0; i < n; i++) errors[i] = Math.sqrt(Math.max(cov[i * n + i], 0));
-        nll.gammaVariances(r.x(), cov, var);
-        for (int i = 0; i < var.length; i++) errors[n + i] = Math.sqrt(var[i]);
-        lap("γ variances, " + m.nGamma());
-        boolean[] held = Arrays.copyOf(m.fixed(), m.nAll());
-        FitResult best = new FitResult(MinimumStatus.CONVERGED, r.value(), values, errors, cov, held,
-                r.evaluations(), r.iterations(), 0);
+
         PostfitCovariance post = PostfitCovariance.of(nll, best);
-        lap("block post-fit covariance");
-        Yields.compute(m, data, m.nominal(), held, best, post);
-        lap("yields with errors");
-        Impacts impacts = new Impacts(m, data, FitSettings.defaults(), new int[0], new double[0], best, false);
+        lap("block post-fit covariance" + (post == null ? " (not positive definite)" : ""));
+        if (post == null) return;
+        List<Yields.ChannelYields> yields = Yields.compute(problem, best, post);
+        lap("yields with errors (" + yields.size() + " channels)");
+        Impacts impacts = new Impacts(problem, best, false);
+        impacts.postfitCovariance();
+        lap("impacts: block post-fit covariance");
         impacts.linearised();
-        lap("linearised ranking");
+        lap("impacts: linearised ranking");
         Impacts.Breakdown breakdown = impacts.breakdown();
-        lap("grouped breakdown");
-        System.out.printf("status %s, -ln L %.6f, σ(POI) %.6f%n", r.status(), r.value(), breakdown.total());
+        lap("impacts: grouped breakdown (σ(POI) " + String.format(Locale.ROOT, "%.6f", breakdown.total()) + ")");
+
+        long t = THREADS.getCurrentThreadCpuTime(), p = OS.getProcessCpuTime(), w = System.nanoTime();
+        System.out.printf(Locale.ROOT, "%-52s %8.2f %8.2f %8.2f%n", "all stages", (t - threadStart) * 1e-9,
+                (p - processStart) * 1e-9, (w - wallStart) * 1e-9);
+        System.out.printf(Locale.ROOT, "heap in use at the end %.2f GB (max %.2f GB)%n",
+                MEMORY.getHeapMemoryUsage().getUsed() / 1e9, Runtime.getRuntime().maxMemory() / 1e9);
     }
 }
