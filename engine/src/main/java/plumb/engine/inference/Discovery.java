@@ -89,7 +89,7 @@ public final class Discovery {
         FitResult best = fitter.fit(start, -1, 0);
         if (!PoiProfile.minimumFound(best)) return Double.NaN;
         if (best.values()[m.poi()] <= 0) return 0;
-        FitResult zero = fitter.fit(best.values(), m.poi(), 0);
+        FitResult zero = fitter.refitHolding(best, m.poi(), 0);
         if (!PoiProfile.minimumFound(zero)) return Double.NaN;
         return Math.max(0, 2 * (zero.nll() - best.nll()));
     }

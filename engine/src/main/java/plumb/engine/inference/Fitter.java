@@ -39,6 +39,11 @@ public final class Fitter {
     private boolean computeErrors = true;
     private boolean computeChecks = true;
     private boolean searchOtherSides = true;
+    /** The last result {@link #fitFrom} returned and the minimum behind it (for {@link #refitHolding}). */
+    private FitResult lastResult;
+    private MinimumResult lastMinimum;
+    private DataSet lastData;
+    private ConditionalStart conditionalStart;
 
     /**
      * @param held   parameters (index &lt; nAll) to hold in every fit, with their values in {@code heldValues}
@@ -200,7 +205,32 @@ public final class Fitter {
         List<FitResult.OtherMinimum> others = otherMinima(best, met);
         best = new MinimumResult(best.status(), best.x(), best.value(), best.gradient(), best.hessian(), best.fixed(),
                 best.decrement(), iterations, evaluations);
-        return toResult(best, held, System.nanoTime() - t0, others);
+        FitResult result = toResult(best, held, System.nanoTime() - t0, others);
+        lastResult = result;
+        lastMinimum = best;
+        lastData = nll.data();
+        return result;
+    }
+
+    /**
+     * A fit of the current data with parameter {@code hold} held at {@code holdValue}, following
+     * {@code best}, a fit of the same data by this fitter (a toy's conditional fit after its best
+     * fit). When {@code best} is the last result of this fitter and its data are still set, the fit
+     * starts near the conditional minimum, found with the Hessian of best's minimum
+     * ({@link ConditionalStart}: fewer Newton iterations); otherwise from best's values with
+     * θ_hold moved, as {@code fit(best.values(), hold, holdValue)}.
+     */
+    public FitResult refitHolding(FitResult best, int hold, double holdValue) {
+        double[] start = Arrays.copyOf(best.values(), dim);
+        start[hold] = holdValue;
+        for (int i = 0; i < dim; i++) if (baseHeld[i] && i != hold) start[i] = baseStart[i];
+        boolean[] held = baseHeld.clone();
+        held[hold] = true;
+        if (best == lastResult && lastData == nll.data() && !hasKinks(held)) {
+            if (conditionalStart == null) conditionalStart = new ConditionalStart(nll, lower, upper);
+            conditionalStart.improve(lastMinimum, hold, holdValue, start);
+        }
+        return fit(start, hold, holdValue);
     }
 
     /**

@@ -207,7 +207,7 @@ public final class ToyLimits {
                 w.fitter.setData(Toys.generate(m, w.expected, generating, c.channels, seedSb, i, true));
                 FitResult best = w.fitter.fit(w.start.of(w.fitter), -1, 0);
                 fits[0]++;
-                double q = PoiProfile.minimumFound(best) ? qTilde(m, w.fitter, best, mu, fits) : Double.NaN;
+                double q = PoiProfile.minimumFound(best) ? qTilde(m, w.fitter, best, true, mu, fits) : Double.NaN;
                 return new Outcome(q, fits[0]);
             }
             BackgroundToy toy;
@@ -222,13 +222,18 @@ public final class ToyLimits {
                 toy = c.background(m, w.fitter, w.expectedZero, w.startZero, i - n);
             }
             if (toy.best() == null) return new Outcome(Double.NaN, 0);
-            double q = qTilde(m, w.fitter, toy.best(), mu, fits);
+            // a kept toy's best fit is not the fitter's last one: plain starts, as where toys are refitted
+            double q = qTilde(m, w.fitter, toy.best(), false, mu, fits);
             return new Outcome(q, fits[0]);
         }
     }
 
-    /** q̃μ of the fitter's data given its best fit; NaN when a fit fails. Adds the fits made to {@code fits[0]}. */
-    private static double qTilde(CompiledModel m, Fitter fitter, FitResult best, double mu, int[] fits) {
+    /**
+     * q̃μ of the fitter's data given its best fit; NaN when a fit fails. Adds the fits made to
+     * {@code fits[0]}. With {@code justFitted} (best is the fitter's last fit, on every runner) the
+     * conditional fit starts from {@link Fitter#refitHolding}, else from best's values.
+     */
+    private static double qTilde(CompiledModel m, Fitter fitter, FitResult best, boolean justFitted, double mu, int[] fits) {
         double muHat = best.values()[m.poi()];
         if (muHat > mu) return 0;
         double denominator = best.nll();
@@ -238,7 +243,7 @@ public final class ToyLimits {
             if (!PoiProfile.minimumFound(zero)) return Double.NaN;
             denominator = zero.nll();
         }
-        FitResult at = fitter.fit(best.values(), m.poi(), mu);
+        FitResult at = justFitted && muHat >= 0 ? fitter.refitHolding(best, m.poi(), mu) : fitter.fit(best.values(), m.poi(), mu);
         fits[0]++;
         return PoiProfile.minimumFound(at) ? Math.max(0, 2 * (at.nll() - denominator)) : Double.NaN;
     }
