@@ -135,11 +135,27 @@ final class ParquetPass {
      * once more on its own, so that one unreadable table sends only itself to the row path.
      */
     static List<HistogramJob.Sums> runAll(SparkSession spark, List<Input> inputs) {
-        return runAll(spark, inputs, TaskPlan.TASK_BYTES);
+        return runAll(spark, inputs, TaskPlan.TASK_BYTES, MERGED_ABOVE);
     }
 
     /** As above, with tasks of {@code taskBytes} (tests cut files into more tasks). */
     static List<HistogramJob.Sums> runAll(SparkSession spark, List<Input> inputs, long taskBytes) {
+        return runAll(spark, inputs, taskBytes, MERGED_ABOVE);
+    }
+
+    /**
+     * Above this many tasks the executors add up the tallies of {@link #MERGED} consecutive tasks
+     * before the driver gets them: a cluster's thousands of tasks would otherwise each send their
+     * sums to the driver (tens of KB each, up to MB for many bins and weights), past Spark's
+     * default limit of 1 GB of results per job.
+     */
+    static final int MERGED_ABOVE = 1024;
+
+    /** Consecutive tasks of one pass whose tallies an executor adds up, in order. */
+    static final int MERGED = 32;
+
+    /** As above; above {@code mergedAbove} tasks the executors merge blocks of {@link #MERGED} tasks' tallies. */
+    static List<HistogramJob.Sums> runAll(SparkSession spark, List<Input> inputs, long taskBytes, int mergedAbove) {
         List<HistogramJob.Sums> out = new ArrayList<>();
         List<TaskPlan.Task> tasks;
         try {
@@ -149,21 +165,30 @@ final class ParquetPass {
             return out;
         }
         List<Tally> parts;
+        int[] passOf;
         try {
-            parts = collect(spark, inputs, tasks);
+            if (tasks.size() > mergedAbove) {
+                int[] blockOf = blocks(tasks, MERGED);
+                parts = collectMerged(spark, inputs, tasks, blockOf);
+                passOf = new int[parts.size()];
+                for (int t = 0; t < tasks.size(); t++) passOf[blockOf[t]] = tasks.get(t).pass();
+            } else {
+                parts = collect(spark, inputs, tasks);
+                passOf = tasks.stream().mapToInt(TaskPlan.Task::pass).toArray();
+            }
         } catch (Exception e) {   // reading failed (Spark's exceptions are checked ones in Java's eyes): the row path reads again and says why in Spark's words
             if (inputs.size() == 1) {
                 out.add(null);
                 return out;
             }
-            for (Input in : inputs) out.add(runAll(spark, List.of(in), taskBytes).get(0));
+            for (Input in : inputs) out.add(runAll(spark, List.of(in), taskBytes, mergedAbove).get(0));
             return out;
         }
         Tally[] totals = new Tally[inputs.size()];
         boolean[] refused = new boolean[inputs.size()];
         for (int i = 0; i < totals.length; i++) totals[i] = new Tally(inputs.get(i).layout());
-        for (int t = 0; t < tasks.size(); t++) {   // in task order: the same sums on every run
-            int pass = tasks.get(t).pass();
+        for (int t = 0; t < parts.size(); t++) {   // in task order: the same sums on every run
+            int pass = passOf[t];
             if (parts.get(t).refused != null) refused[pass] = true;
             else totals[pass].merge(parts.get(t));
         }
@@ -180,6 +205,64 @@ final class ParquetPass {
 
     /** The Spark job: one task per planned task, its tally back in the same order. */
     private static List<Tally> collect(SparkSession spark, List<Input> inputs, List<TaskPlan.Task> tasks) {
+        return tallies(spark, inputs, tasks).collect();
+    }
+
+    /**
+     * Blocks of at most {@code size} consecutive tasks of one pass: the block of each task (the
+     * tasks are in pass order).
+     */
+    static int[] blocks(List<TaskPlan.Task> tasks, int size) {
+        int[] blockOf = new int[tasks.size()];
+        int block = -1, inBlock = size;
+        for (int t = 0; t < tasks.size(); t++) {
+            if (inBlock == size || tasks.get(t).pass() != tasks.get(t - 1).pass()) {
+                block++;
+                inBlock = 0;
+            }
+            blockOf[t] = block;
+            inBlock++;
+        }
+        return blockOf;
+    }
+
+    /**
+     * The job with the executors adding up each block's tallies in task order (Spark groups a
+     * block's tallies on one executor, in no set order: they are sorted by task first), one
+     * tally per block back, in block order. A refused tally makes its block's refused.
+     */
+    private static List<Tally> collectMerged(SparkSession spark, List<Input> inputs, List<TaskPlan.Task> tasks,
+                                             int[] blockOf) {
+        int blocks = blockOf.length == 0 ? 0 : blockOf[blockOf.length - 1] + 1;
+        List<scala.Tuple2<Integer, Tally>> merged = tallies(spark, inputs, tasks)
+                .mapPartitionsWithIndex((task, it) -> {
+                    List<scala.Tuple2<Integer, scala.Tuple2<Integer, Tally>>> out = new ArrayList<>();
+                    while (it.hasNext()) out.add(new scala.Tuple2<>(blockOf[task], new scala.Tuple2<>(task, it.next())));
+                    return out.iterator();
+                }, true)
+                .mapToPair(x -> x)
+                .groupByKey(Math.max(1, Math.min(blocks, spark.sparkContext().defaultParallelism() * 4)))
+                .mapValues(block -> {
+                    List<scala.Tuple2<Integer, Tally>> inOrder = new ArrayList<>();
+                    block.forEach(inOrder::add);
+                    inOrder.sort(java.util.Comparator.comparing(scala.Tuple2::_1));
+                    Tally sum = null;
+                    for (scala.Tuple2<Integer, Tally> t : inOrder) {
+                        if (sum == null) sum = t._2();
+                        else if (t._2().refused != null) sum.refused = t._2().refused;
+                        else if (sum.refused == null) sum.merge(t._2());
+                    }
+                    return sum;
+                })
+                .collect();
+        Tally[] byBlock = new Tally[blocks];
+        for (scala.Tuple2<Integer, Tally> b : merged) byBlock[b._1()] = b._2();
+        return List.of(byBlock);
+    }
+
+    /** The tasks' tallies, one partition per task in plan order. */
+    private static org.apache.spark.api.java.JavaRDD<Tally> tallies(SparkSession spark, List<Input> inputs,
+                                                                  List<TaskPlan.Task> tasks) {
         JavaSparkContext sc = JavaSparkContext.fromSparkContext(spark.sparkContext());
         Program[] programs = inputs.stream().map(Input::program).toArray(Program[]::new);
         Tally.Layout[] layouts = inputs.stream().map(Input::layout).toArray(Tally.Layout[]::new);
@@ -190,8 +273,7 @@ final class ParquetPass {
         JOBS.incrementAndGet();
         return sc.parallelize(tasks, Math.max(1, tasks.size()))
                 .map(task -> tally(task, programs[task.pass()], layouts[task.pass()],
-                        taskConf(conf.value().value(), schemas[task.pass()])))
-                .collect();
+                        taskConf(conf.value().value(), schemas[task.pass()])));
     }
 
     /** Jobs run by {@link #runAll} in this process (tests check that a build's passes share one). */

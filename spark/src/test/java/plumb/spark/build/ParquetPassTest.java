@@ -243,6 +243,14 @@ class ParquetPassTest {
         }
         assertIdentical(one[0].sums(), both.get(0), "pass a on one core");
         assertIdentical(one[1].sums(), both.get(1), "pass b on one core");
+
+        // the executors adding up blocks of tasks' tallies before the driver (as above 1,024 tasks)
+        List<HistogramJob.Sums> merged = ParquetPass.runAll(spark, List.of(a, b), 50_000, 0);
+        assertSameSums(both.get(0), merged.get(0));
+        assertSameSums(both.get(1), merged.get(1));
+        List<HistogramJob.Sums> again = ParquetPass.runAll(spark, List.of(a, b), 50_000, 0);
+        assertIdentical(merged.get(0), again.get(0), "merged blocks, second run");
+        assertIdentical(merged.get(1), again.get(1), "merged blocks, second run");
     }
 
     @Test

@@ -48,4 +48,12 @@ class TaskPlanTest {
         List<List<Group>> groups = List.of(List.of(new Group(4, 100, 10), new Group(120, 200, 10)));
         assertEquals("1: a[4,100) a[120,200); ", show(TaskPlan.cut(1, List.of("a"), groups, 1000)));
     }
+
+    @Test
+    void blocksOfMergedTasksNeverMixPasses() {
+        List<Task> tasks = new java.util.ArrayList<>();
+        for (int pass : new int[] {0, 0, 0, 0, 0, 1, 1, 2}) tasks.add(new Task(pass, new Range[0]));
+        assertEquals("[0, 0, 1, 1, 2, 3, 3, 4]", java.util.Arrays.toString(ParquetPass.blocks(tasks, 2)));
+        assertEquals("[0, 0, 0, 0, 0, 1, 1, 2]", java.util.Arrays.toString(ParquetPass.blocks(tasks, 32)));
+    }
 }
