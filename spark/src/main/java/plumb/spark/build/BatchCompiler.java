@@ -103,8 +103,23 @@ final class BatchCompiler {
         return t instanceof BooleanType ? 0 : t instanceof IntegerType ? 32 : 64;
     }
 
+    /**
+     * The node of each sub-expression compiled so far: an expression met again (a step several
+     * regions share, {@code 2 * w} in twenty weights) is the same node, computed once per batch.
+     * Keys are Spark's trees, equal when they are the same operation on the same columns.
+     */
+    private final Map<Expression, BatchExpr> made = new java.util.HashMap<>();
+
     BatchExpr compile(Expression e) throws Unsupported {
         if (e instanceof Alias a) return compile(a.child());
+        BatchExpr known = made.get(e);
+        if (known != null) return known;
+        BatchExpr x = make(e);
+        made.put(e, x);
+        return x;
+    }
+
+    private BatchExpr make(Expression e) throws Unsupported {
         DataType type = e.dataType();
         Kind kind = kind(type);
         int bits = bits(type);

@@ -23,10 +23,22 @@ abstract class BatchExpr implements Serializable {
     /** How a node holds its values: booleans, whole numbers (int and bigint) or doubles. */
     enum Kind { BOOL, LONG, DOUBLE }
 
-    /** What all nodes of one evaluation share: the batch's size and why it was refused, if it was. */
+    /**
+     * What all nodes of one evaluation share: the batch's size, its stage and why it was refused,
+     * if it was. A stage is one evaluation over the same n events; every stage of every batch
+     * in this process has a number of its own, so a node knows whether it has been computed for it.
+     */
     static final class Batch {
+        private static final java.util.concurrent.atomic.AtomicLong STAGES = new java.util.concurrent.atomic.AtomicLong();
         int n;
+        long stage = STAGES.incrementAndGet();
         String refused;
+
+        /** A new stage over n events (the nodes' values from earlier stages are stale). */
+        void next(int n) {
+            this.n = n;
+            stage = STAGES.incrementAndGet();
+        }
 
         void refuse(String why) {
             if (refused == null) refused = why;
@@ -43,6 +55,8 @@ abstract class BatchExpr implements Serializable {
     transient boolean[] nul;
     /** Whether any event of the batch is null (nul may then be skipped). */
     transient boolean anyNull;
+    /** The stage the arrays hold (0: none). */
+    private transient long evaluated;
 
     BatchExpr(Kind kind, int bits) {
         this.kind = kind;
@@ -63,8 +77,19 @@ abstract class BatchExpr implements Serializable {
 
     abstract BatchExpr[] children();
 
-    /** Fills the value and null arrays for the batch's n events. */
-    abstract void eval(Batch batch);
+    /**
+     * Fills the value and null arrays for the batch's n events, once per {@link Batch#next
+     * stage}: a node shared by several expressions (the compiler makes one node per distinct
+     * sub-expression) is computed once.
+     */
+    final void eval(Batch batch) {
+        if (evaluated == batch.stage) return;
+        compute(batch);
+        evaluated = batch.stage;
+    }
+
+    /** The node's own loop over the batch, its children first. */
+    abstract void compute(Batch batch);
 
     /** The value of event i as a double (NaN where null): what the histogram loop reads. */
     final double asDouble(int i) {
@@ -111,7 +136,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             // filled by the reader
         }
     }
@@ -139,7 +164,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             int n = batch.n;
             if (filled >= n) return;   // the arrays keep the constant from batch to batch
             for (int i = 0; i < n; i++) {
@@ -180,7 +205,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             c.eval(batch);
             int n = batch.n;
@@ -260,7 +285,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             int n = batch.n;
             nullsOf(n, a);
@@ -301,7 +326,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             if (c != null) c.eval(batch);
             int n = batch.n;
@@ -364,13 +389,20 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             c.eval(batch);
             int n = batch.n;
+            boolean constant = c instanceof Constant k && !k.isNullValue;
             switch (a.kind) {
-                case DOUBLE -> doubles(a.d, c.d, n);
-                case LONG -> longs(a.l, c.l, n);
+                case DOUBLE -> {
+                    if (constant && !Double.isNaN(((Constant) c).dv)) doubles(a.d, ((Constant) c).dv, n);
+                    else doubles(a.d, c.d, n);
+                }
+                case LONG -> {
+                    if (constant) longs(a.l, ((Constant) c).lv, n);
+                    else longs(a.l, c.l, n);
+                }
                 case BOOL -> {
                     for (int i = 0; i < n; i++) b[i] = test(Boolean.compare(a.b[i], c.b[i]));
                 }
@@ -414,6 +446,29 @@ abstract class BatchExpr implements Serializable {
             }
         }
 
+        /** As {@link #doubles(double[], double[], int)} with y a number (not NaN) for every event. */
+        private void doubles(double[] x, double y, int n) {
+            boolean[] out = b;
+            switch (op) {
+                case LT -> { for (int i = 0; i < n; i++) out[i] = x[i] < y; }
+                case LE -> { for (int i = 0; i < n; i++) out[i] = x[i] <= y; }
+                case GT -> { for (int i = 0; i < n; i++) out[i] = y < x[i] | x[i] != x[i]; }
+                case GE -> { for (int i = 0; i < n; i++) out[i] = y <= x[i] | x[i] != x[i]; }
+                case EQ, EQ_NULL_SAFE -> { for (int i = 0; i < n; i++) out[i] = x[i] == y; }
+            }
+        }
+
+        private void longs(long[] x, long y, int n) {
+            boolean[] out = b;
+            switch (op) {
+                case LT -> { for (int i = 0; i < n; i++) out[i] = x[i] < y; }
+                case LE -> { for (int i = 0; i < n; i++) out[i] = x[i] <= y; }
+                case GT -> { for (int i = 0; i < n; i++) out[i] = x[i] > y; }
+                case GE -> { for (int i = 0; i < n; i++) out[i] = x[i] >= y; }
+                case EQ, EQ_NULL_SAFE -> { for (int i = 0; i < n; i++) out[i] = x[i] == y; }
+            }
+        }
+
         private void longs(long[] x, long[] y, int n) {
             boolean[] out = b;
             switch (op) {
@@ -447,7 +502,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             if (c != null) c.eval(batch);
             int n = batch.n;
@@ -465,7 +520,9 @@ abstract class BatchExpr implements Serializable {
                     boolean and = op == Logic.AND;
                     anyNull = false;
                     if (!a.anyNull && !c.anyNull) {
-                        for (int i = 0; i < n; i++) b[i] = and ? a.b[i] && c.b[i] : a.b[i] || c.b[i];
+                        boolean[] x = a.b, y = c.b, out = b;
+                        if (and) for (int i = 0; i < n; i++) out[i] = x[i] & y[i];
+                        else for (int i = 0; i < n; i++) out[i] = x[i] | y[i];
                         return;
                     }
                     for (int i = 0; i < n; i++) {
@@ -517,8 +574,10 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
-            for (BatchExpr e : children()) e.eval(batch);
+        void compute(Batch batch) {
+            for (BatchExpr e : conditions) e.eval(batch);
+            for (BatchExpr e : values) e.eval(batch);
+            if (otherwise != null) otherwise.eval(batch);
             int n = batch.n;
             anyNull = false;
             for (int i = 0; i < n; i++) {
@@ -562,7 +621,7 @@ abstract class BatchExpr implements Serializable {
         }
 
         @Override
-        void eval(Batch batch) {
+        void compute(Batch batch) {
             a.eval(batch);
             int n = batch.n;
             nullsOf(n, a);

@@ -78,7 +78,7 @@ final class BatchTally {
     String add(ColumnarBatch read) {
         int n = read.numRows();
         load(read, stepColumns, null, n);
-        batch.n = n;
+        batch.next(n);
         for (BatchExpr[] s : program.steps()) for (BatchExpr e : s) e.eval(batch);
         if (batch.refused != null) return batch.refused;
         for (int r = 0; r < depth.length; r++) depth(program.steps()[r], depth[r], n);
@@ -103,7 +103,7 @@ final class BatchTally {
             int[] rows = a == n ? null : passed;
             BatchExpr first = program.weights()[0];
             load(read, firstWeightColumns, rows, a);
-            batch.n = a;
+            batch.next(a);
             first.eval(batch);
             if (batch.refused != null) return batch.refused;
             tally.flow(a, rows, depth, doubles(first, wBuffer[0], a));
@@ -111,7 +111,7 @@ final class BatchTally {
         if (b == 0) return null;
         int[] rows = b == n ? null : selected;
         load(read, filledColumns, rows, b);
-        batch.n = b;
+        batch.next(b);
         for (BatchExpr e : program.observables()) e.eval(batch);
         for (BatchExpr e : program.weights()) e.eval(batch);
         if (batch.refused != null) return batch.refused;

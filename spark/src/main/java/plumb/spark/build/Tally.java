@@ -41,6 +41,7 @@ final class Tally implements Serializable {
     private final double[][] stepWeighted;  // [distinct region][step], cumulative
     private final long[][] stepRaw;
     private transient double[] w;           // one event's weights
+    private transient int[] gathered;       // one region's depths of the events of a batch
     /** The exponent bits of a double: all set for ±∞ and NaN. */
     private static final long EXPONENT = 0x7ff0000000000000L;
     /** Set when the batch evaluation refused a table (see {@link BatchExpr}): these numbers are then not used. */
@@ -133,8 +134,13 @@ final class Tally implements Serializable {
     // leaves the sum as it was (a sum that starts at +0.0 never becomes −0.0, the one value that
     // +0.0 would change), so the sums are those of the row path bit for bit.
     void flow(int m, int[] rows, int[][] depth, double[] w0) {
+        if (rows != null && (gathered == null || gathered.length < m)) gathered = new int[Math.max(m, 4096)];
         for (int r = 0; r < depth.length; r++) {
             int[] dr = depth[r];
+            if (rows != null) {
+                for (int j = 0; j < m; j++) gathered[j] = dr[rows[j]];
+                dr = gathered;
+            }
             double[] weighted = stepWeighted[r];
             long[] raw = stepRaw[r];
             int k = 0;
@@ -142,7 +148,7 @@ final class Tally implements Serializable {
                 double s0 = weighted[k], s1 = weighted[k + 1];
                 long n0 = 0, n1 = 0;
                 for (int j = 0; j < m; j++) {
-                    int d = dr[rows == null ? j : rows[j]];
+                    int d = dr[j];
                     long bits = Double.doubleToRawLongBits(w0[j]);
                     int past0 = (k - d) >> 31, past1 = (k + 1 - d) >> 31;   // −1 where the event passed the step, else 0
                     s0 += Double.longBitsToDouble(bits & past0);
@@ -159,7 +165,7 @@ final class Tally implements Serializable {
                 double s0 = weighted[k];
                 long n0 = 0;
                 for (int j = 0; j < m; j++) {
-                    int past0 = (k - dr[rows == null ? j : rows[j]]) >> 31;
+                    int past0 = (k - dr[j]) >> 31;
                     s0 += Double.longBitsToDouble(Double.doubleToRawLongBits(w0[j]) & past0);
                     n0 -= past0;
                 }

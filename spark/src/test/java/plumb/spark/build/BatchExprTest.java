@@ -178,6 +178,48 @@ class BatchExprTest {
         assertEquals(List.of(), wrong, "expressions whose values differ from Spark's");
     }
 
+    @Test
+    void sharedSubExpressionsAreOneNodeComputedOncePerStageWithSparksValues() throws Exception {
+        // expressions compiled together share the node of a repeated sub-expression (a step that
+        // several regions share, 2 * w in many weights); evaluated in one stage per batch, the
+        // values stay Spark's, batch after batch (a stale value from the batch before would show)
+        List<Row> rows = randomRows(14, 2_000, false);
+        Dataset<Row> table = spark.createDataFrame(rows, SCHEMA);
+        List<String> sql = List.of("2 * a - b", "2 * a + b", "a < b", "a < b AND i > 3", "CASE WHEN a < b THEN 2 * a END",
+                "i > 3", "a > 0.5", "abs(a) < 4 AND a < b", "2 * a");
+        List<Row> expected = table.selectExpr(sql.toArray(String[]::new)).collectAsList();
+        Map<String, BatchExpr.Column> columns = new LinkedHashMap<>();
+        BatchCompiler compiler = new BatchCompiler(columns);
+        List<BatchExpr> roots = new ArrayList<>();
+        for (Expression e : analysed(table, sql)) roots.add(compiler.compile(e));
+        BatchExpr twiceA = roots.get(8);
+        assertTrue(((BatchExpr.Arithmetic) roots.get(0)).a == twiceA && ((BatchExpr.Arithmetic) roots.get(1)).a == twiceA,
+                "2 * a is one node");
+        assertTrue(((BatchExpr.Logical) roots.get(3)).a == roots.get(2), "a < b is one node");
+        assertTrue(((BatchExpr.Logical) roots.get(3)).c == roots.get(5), "i > 3 is one node");
+        int batchSize = 300;
+        for (BatchExpr r : roots) r.allocate(batchSize);
+        BatchExpr.Batch batch = new BatchExpr.Batch();
+        for (int from = 0; from < rows.size(); from += batchSize) {
+            int n = Math.min(batchSize, rows.size() - from);
+            fill(columns, rows, from, n);
+            batch.next(n);
+            for (BatchExpr r : roots) r.eval(batch);
+            assertNull(batch.refused);
+            for (int k = 0; k < roots.size(); k++) {
+                BatchExpr r = roots.get(k);
+                for (int i = 0; i < n; i++) {
+                    Object mine = r.isNull(i) ? null : switch (r.kind) {
+                        case DOUBLE -> r.d[i];
+                        case LONG -> r.l[i];
+                        case BOOL -> r.b[i];
+                    };
+                    assertSame(expected.get(from + i).get(k), mine, sql.get(k) + " in row " + (from + i));
+                }
+            }
+        }
+    }
+
     /** Spark's value and ours: both null, or the same number (same bits for doubles: NaN, −0.0) or boolean. */
     static void assertSame(Object expected, Object actual, String what) {
         if (expected == null || actual == null) {
