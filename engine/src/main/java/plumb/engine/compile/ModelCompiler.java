@@ -180,7 +180,16 @@ public final class ModelCompiler {
         IntList sampleChannel = new IntList();
         List<Boolean> sampleMc = new ArrayList<>();
         IntList entryStart = new IntList();
-        DoubleList nominal = new DoubleList();
+        // The big tables sized once from the model (a shape's entries counted even if pruned
+        // below): growing them by doubling copied hundreds of megabytes on a big model.
+        long entries = 0, shapeEntries = 0;
+        for (Channel ch : channels) {
+            for (Sample s : ch.samples()) {
+                entries += ch.bins();
+                for (Variation v : s.variations()) if (v.shape() != null) shapeEntries += ch.bins();
+            }
+        }
+        DoubleList nominal = new DoubleList(capacity(entries));
         IntList mulStart = new IntList();
         IntList mulParam = new IntList();
         IntList mulLocal = new IntList();
@@ -190,8 +199,8 @@ public final class ModelCompiler {
         IntList shapeLocal = new IntList();
         IntList shapeMode = new IntList();
         IntList shapeCoeffStart = new IntList();
-        DoubleList shapeS = new DoubleList();
-        DoubleList shapeA = new DoubleList();
+        DoubleList shapeS = new DoubleList(capacity(shapeEntries));
+        DoubleList shapeA = new DoubleList(capacity(shapeEntries));
         double[] coeffs = new double[NormInterpolation.COEFFS];
         TreeSet<Integer> oneSided = new TreeSet<>();
 
@@ -465,9 +474,22 @@ public final class ModelCompiler {
     }
 
     /** Growable double array for the compiler (not used in hot paths). */
+    /** An initial capacity: the count, within the largest array (beyond it adding fails as it would anyway). */
+    private static int capacity(long count) {
+        return (int) Math.min(Math.max(count, 16), Integer.MAX_VALUE - 8);
+    }
+
     static final class DoubleList {
-        private double[] data = new double[16];
+        private double[] data;
         private int size;
+
+        DoubleList() {
+            this(16);
+        }
+
+        DoubleList(int capacity) {
+            data = new double[Math.max(capacity, 1)];
+        }
 
         void add(double v) {
             if (size == data.length) data = Arrays.copyOf(data, size * 2);
@@ -486,8 +508,9 @@ public final class ModelCompiler {
             return data[i];
         }
 
+        /** The values; the list's own array when full (the list is not used after). */
         double[] toArray() {
-            return Arrays.copyOf(data, size);
+            return size == data.length ? data : Arrays.copyOf(data, size);
         }
     }
 }

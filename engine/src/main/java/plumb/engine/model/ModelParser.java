@@ -382,7 +382,8 @@ final class ModelParser {
         if (t != JsonToken.VALUE_NUMBER_INT && t != JsonToken.VALUE_NUMBER_FLOAT) {
             throw wrongType(index < 0 ? path : index(path, index), "a number");
         }
-        double v = p.getDoubleValue();
+        double v = DecimalText.exact(p.getTextCharacters(), p.getTextOffset(), p.getTextLength());
+        if (Double.isNaN(v)) v = p.getDoubleValue();
         if (!Double.isFinite(v)) {
             throw new ModelException(source, index < 0 ? path : index(path, index),
                     "%s, expected a finite number (beyond the range of a double)", p.getText());
