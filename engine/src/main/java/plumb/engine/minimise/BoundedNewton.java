@@ -172,7 +172,8 @@ public final class BoundedNewton extends BoxMinimiser {
             hIsCurvature = useCurvature;
             curvatureAllowed = true;
             final boolean fullStep = alphaAccepted == 1;
-            hessianFirst = fullStep;
+            // Among kinks a full step is often refused: a value first costs less than a Hessian.
+            hessianFirst = fullStep && !hingesSeen;
             lambda = fullStep ? (lam < 1e-8 ? 0 : lam * 0.1) : lam;
             if (previous - f <= 4 * Math.ulp(Math.max(1.0, Math.abs(f)))
                     && newtonDefinite && decrement <= options.fallbackTolerance() && !hIsCurvature) {

@@ -14,7 +14,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
  * The clip kinks the likelihood reports to the minimiser ({@link BinnedNll#hingesAlong}): the
  * entry whose unclipped yield a step takes through zero, its offset and gradient against the
  * unclipped yield itself, and its slope against the jump of −ln L's directional derivative across
- * the kink, by one-sided finite differences (common practice).
+ * the kink, by one-sided finite differences (common practice), with γ at its conditional minimum
+ * (profiled layout) or a variable held in the difference (explicit layout).
  */
 class BinnedNllHingesTest {
 
@@ -36,13 +37,16 @@ class BinnedNllHingesTest {
     }
 
     @ParameterizedTest
-    @CsvSource({"5,false", "5,true", "7,true"})
-    void aValleyCrossedIsReportedWithItsOffsetGradientAndSlope(double observed1, boolean mc) {
+    @CsvSource({"5,false,false", "5,true,false", "7,true,false", "7,true,true"})
+    void aValleyCrossedIsReportedWithItsOffsetGradientAndSlope(double observed1, boolean mc, boolean explicit) {
         CompiledModel m = model(observed1, mc);
-        BinnedNll nll = new BinnedNll(m, DataSet.observed(m));
+        BinnedNll nll = new BinnedNll(m, DataSet.observed(m), explicit);
         int a = m.indexOf("a"), b = m.indexOf("b"), n = nll.dimension();
         double[] x = new double[n];
         for (int i = 0; i < n; i++) x[i] = m.nominal(i);
+        if (explicit) {
+            x[m.nParams() + 1] = 1.1; // the γ of bin 1, a variable of the explicit layout
+        }
         x[a] = 0.2;
         x[b] = 1.149; // u = 4 + 0.6 − 4.596 = 0.004
         double[] d = new double[n];
