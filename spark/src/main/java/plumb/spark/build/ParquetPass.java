@@ -269,7 +269,8 @@ final class ParquetPass {
         String[] schemas = inputs.stream().map(in -> requested(in.program()).json()).toArray(String[]::new);
         // The driver's Hadoop settings, shipped once per job and read once per executor (parsing
         // Hadoop's default XML files per file cost more than reading a small file's footer).
-        Broadcast<SerializableConfiguration> conf = sc.broadcast(new SerializableConfiguration(readerConf(spark)));
+        boolean local = inputs.stream().allMatch(in -> in.files().stream().allMatch(ParquetPass::onLocalDisk));
+        Broadcast<SerializableConfiguration> conf = sc.broadcast(new SerializableConfiguration(readerConf(spark, local)));
         JOBS.incrementAndGet();
         return sc.parallelize(tasks, Math.max(1, tasks.size()))
                 .map(task -> tally(task, programs[task.pass()], layouts[task.pass()],
@@ -279,11 +280,19 @@ final class ParquetPass {
     /** Jobs run by {@link #runAll} in this process (tests check that a build's passes share one). */
     static final java.util.concurrent.atomic.AtomicLong JOBS = new java.util.concurrent.atomic.AtomicLong();
 
+    /** Parquet's switch for reading a row group's column chunks as one vectored (asynchronous) read. */
+    static final String VECTORED_READS = "parquet.hadoop.vectored.io.enabled";
+
     /**
      * The reader's Hadoop settings: the session's, with those Spark's Parquet scan sets for its
      * own reader (binary is not text, INT96 is not a timestamp, names match whatever their case).
+     * On the local disk ({@code localFiles}) column chunks are read plainly in the task's thread
+     * unless the session says otherwise: Parquet's vectored reads go through Java's asynchronous
+     * file channel and its thread pool there, which cost about a third more CPU per event in the
+     * benchmark's tasks (README, "Building from events: speed"); on a remote store they fetch
+     * ranges in parallel and stay.
      */
-    static Configuration readerConf(SparkSession spark) {
+    static Configuration readerConf(SparkSession spark, boolean localFiles) {
         Configuration c = new Configuration(spark.sparkContext().hadoopConfiguration());
         c.set("parquet.read.support.class", ParquetReadSupport.class.getName());
         c.setBoolean(SQLConf.PARQUET_BINARY_AS_STRING().key(), false);
@@ -291,7 +300,14 @@ final class ParquetPass {
         c.setBoolean(SQLConf.CASE_SENSITIVE().key(), false);
         c.setBoolean(SQLConf.PARQUET_INFER_TIMESTAMP_NTZ_ENABLED().key(), false);
         c.setBoolean(SQLConf.LEGACY_PARQUET_NANOS_AS_LONG().key(), false);
+        if (localFiles && c.get(VECTORED_READS) == null) c.setBoolean(VECTORED_READS, false);
         return c;
+    }
+
+    /** Whether a file is on this machine's file system (a file: URI or a path without scheme). */
+    static boolean onLocalDisk(String file) {
+        String scheme = new Path(file).toUri().getScheme();
+        return scheme == null || scheme.equals("file");
     }
 
     /** A task's own copy of the shared settings, with the columns its pass reads (a copy, not a parse). */

@@ -231,7 +231,7 @@ class ParquetPassTest {
         List<TaskPlan.Task> tasks = TaskPlan.tasks(spark.sparkContext().hadoopConfiguration(), List.of(a, b), 50_000);
         assertTrue(tasks.size() > 2 * files.size(), tasks.size() + " tasks");
         Tally[] one = {new Tally(a.layout()), new Tally(b.layout())};
-        org.apache.hadoop.conf.Configuration shared = ParquetPass.readerConf(spark);
+        org.apache.hadoop.conf.Configuration shared = ParquetPass.readerConf(spark, true);
         for (TaskPlan.Task t : tasks) {
             ParquetPass.Input in = t.pass() == 0 ? a : b;
             try {
@@ -243,6 +243,20 @@ class ParquetPassTest {
         }
         assertIdentical(one[0].sums(), both.get(0), "pass a on one core");
         assertIdentical(one[1].sums(), both.get(1), "pass b on one core");
+
+        // Parquet's vectored reads (off on the local disk unless the session sets them): the same bits
+        assertTrue(ParquetPass.onLocalDisk(files.get(0)) && !ParquetPass.onLocalDisk("s3a://bucket/t.parquet"));
+        assertEquals("false", ParquetPass.readerConf(spark, true).get(ParquetPass.VECTORED_READS));
+        assertEquals(null, ParquetPass.readerConf(spark, false).get(ParquetPass.VECTORED_READS));
+        spark.sparkContext().hadoopConfiguration().setBoolean(ParquetPass.VECTORED_READS, true);
+        try {
+            assertEquals("true", ParquetPass.readerConf(spark, true).get(ParquetPass.VECTORED_READS), "the session's choice");
+            List<HistogramJob.Sums> vectored = ParquetPass.runAll(spark, List.of(a, b), 50_000);
+            assertIdentical(both.get(0), vectored.get(0), "vectored reads");
+            assertIdentical(both.get(1), vectored.get(1), "vectored reads");
+        } finally {
+            spark.sparkContext().hadoopConfiguration().unset(ParquetPass.VECTORED_READS);
+        }
 
         // the executors adding up blocks of tasks' tallies before the driver (as above 1,024 tasks)
         List<HistogramJob.Sums> merged = ParquetPass.runAll(spark, List.of(a, b), 50_000, 0);
