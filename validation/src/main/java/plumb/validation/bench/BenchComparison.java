@@ -156,15 +156,32 @@ public final class BenchComparison {
         return new Row(name, params, mode, time[0], time[1], time[2], cpu[0], cpu[1], cpu[2], note);
     }
 
-    /** Old cell, new cell and ratio; the older value in the newer one's unit where both are times per operation. */
+    /**
+     * Old cell, new cell and ratio; both in the unit the newer score reads best in (the older one
+     * converted) where both are times per operation.
+     */
     private static String[] pair(Value o, String oldText, Value n, String newText) {
         if (o == null || n == null) {
-            return new String[] {o == null ? orEmpty(oldText) : cell(o), n == null ? orEmpty(newText) : cell(n), ""};
+            return new String[] {o == null ? orEmpty(oldText) : cell(readable(o)), n == null ? orEmpty(newText) : cell(readable(n)), ""};
         }
         double oldScore = inUnit(o.score(), o.unit(), n.unit());
         if (Double.isNaN(oldScore)) return new String[] {cell(o), cell(n), ""};
-        double oldError = inUnit(o.error(), o.unit(), n.unit());
-        return new String[] {cell(oldScore, oldError, n.unit()), cell(n), String.format(Locale.ROOT, "%.2f", n.score() / oldScore)};
+        String ratio = String.format(Locale.ROOT, "%.2f", n.score() / oldScore);
+        Value shown = readable(n);
+        Value old = new Value(inUnit(o.score(), o.unit(), shown.unit()), inUnit(o.error(), o.unit(), shown.unit()), shown.unit());
+        return new String[] {cell(old), cell(shown), ratio};
+    }
+
+    /** The value in the next larger time unit while it reads 10,000 or more (123,456 ms/op as 123 s/op). */
+    static Value readable(Value v) {
+        String[] units = {"ns/op", "us/op", "ms/op", "s/op"};
+        Value r = v;
+        for (int i = 0; i < units.length - 1; i++) {
+            if (r.unit().equals(units[i]) && Math.abs(r.score()) >= 1e4) {
+                r = new Value(r.score() / 1000, r.error() / 1000, units[i + 1]);
+            }
+        }
+        return r;
     }
 
     private static String orEmpty(String s) {

@@ -182,4 +182,21 @@ class BenchComparisonTest {
         assertEquals(0.407, BenchComparison.inUnit(407, "us/op", "ms/op"), 1e-15);
         assertTrue(Double.isNaN(BenchComparison.inUnit(1, "ops/s", "ms/op")));
     }
+
+    @Test
+    void largeTimesStepUpTheirUnit() throws IOException {
+        Path old = file("r.old.json",
+                entry("ImpactsBenchmark.exactRanking", "ss", "\"size\" : \"large\"", 113000, "22800", "ms/op"));
+        Path recent = file("r.new.json",
+                entry("ImpactsBenchmark.exactRanking", "ss", "\"size\" : \"large\"", 65100, "\"NaN\"", "ms/op"));
+        BenchComparison.Row r = BenchComparison.rows(plan(
+                "plumb.validation.bench.ImpactsBenchmark.exactRanking\t" + old + "\t" + recent)).get(0);
+        assertEquals("113 ± 22.8 s/op", r.old());
+        assertEquals("65.1 s/op", r.recent());
+        assertEquals("0.58", r.ratio());   // 65.1 / 113 = 0.576
+        // two steps where needed, none below 10,000 or for other units
+        assertEquals("s/op", BenchComparison.readable(new BenchComparison.Value(2.5e7, 1, "us/op")).unit());
+        assertEquals("ms/op", BenchComparison.readable(new BenchComparison.Value(9999, 1, "ms/op")).unit());
+        assertEquals("ops/s", BenchComparison.readable(new BenchComparison.Value(1e6, 1, "ops/s")).unit());
+    }
 }
