@@ -38,8 +38,6 @@ final class HingeStep {
     private double[] t = new double[0];
     /** 2·(m(0) − m(d)) of the last step. */
     double decrement;
-    /** Whether the last step stops on some hinge (a t_e strictly inside (0, 1)). */
-    boolean onKink;
 
     HingeStep(int n) {
         this.n = n;
@@ -171,7 +169,7 @@ final class HingeStep {
         }
     }
 
-    /** The decrement 2·(m(0) − m(d)) of the step and whether it stops on a hinge. */
+    /** The decrement 2·(m(0) − m(d)) of the step. */
     private void measure(ReducedSystem system, double[] step, int solved) {
         final int m = hinges.size();
         // H d = −(g₀ + Jt) on the free set, so g₀ᵀd + ½dᵀHd = ½(g₀ᵀd − Σ t_e a_e ∇u_eᵀd).
@@ -180,14 +178,12 @@ final class HingeStep {
             final int i = system.index[a];
             model += 0.5 * g0[i] * step[i];
         }
-        onKink = false;
         for (int e = 0; e < m; e++) {
             final double along = hinges.along(e, step);
             final double a = hinges.slope(e), u = hinges.offset(e);
             model += a * (Math.max(0, u + along) - Math.max(0, u));
             if (e < solved) {
                 model -= 0.5 * t[e] * a * along;
-                onKink |= t[e] > 0 && t[e] < 1;
             } else if (u >= 0) {
                 model -= a * along; // added after the last solve: still counted in g₀
             }
