@@ -81,9 +81,12 @@ public final class BuildSpeed {
         SparkSession spark = session[0];
         int cores = spark.sparkContext().defaultParallelism();
         Timing build, scan;
+        java.util.Map<String, Double> before, after;
         try {
+            before = ThreadCpu.byGroup();
             build = Timing.of(() -> EventBuild.build(BuildSpecReader.read(spec), spark, dir.resolve("model.json"),
                     new PrintWriter(new StringWriter()), new PrintWriter(new StringWriter())));
+            after = ThreadCpu.byGroup();
             scan = Timing.of(() -> scanOnly(spark, dir));
         } finally {
             runner[0].close();
@@ -99,6 +102,13 @@ public final class BuildSpeed {
         System.out.printf(Locale.ROOT, "%-44s %9.2f %9.2f%n", "Spark start (context, session, first task)", start.wall(),
                 start.cpu());
         line("plumb build (Spark, all cores)", n, build);
+        if (!after.isEmpty()) {
+            StringBuilder split = new StringBuilder("  the build's CPU s by thread:");
+            for (String g : after.keySet()) {
+                split.append(String.format(Locale.ROOT, " %s %.2f,", g, after.get(g) - before.getOrDefault(g, 0.0)));
+            }
+            System.out.println(split.substring(0, split.length() - 1));
+        }
         line("Spark reading the same columns only", n, scan);
         line("plain Java, one thread, columns in memory", boundEvents, new Timing(loop[0], loop[1]));
         double boundRate = boundEvents / loop[1];
@@ -235,5 +245,47 @@ public final class BuildSpeed {
         for (double v : sums) check += v;
         for (double v : flow) check += v;
         return check;
+    }
+
+    /**
+     * CPU seconds of this process's threads so far, by kind (Linux: read from /proc/self/task;
+     * empty elsewhere): Spark's tasks, the driver's main thread, the JIT compilers, the garbage
+     * collector, and the rest (Spark's scheduler and I/O threads, exited threads not counted).
+     */
+    static final class ThreadCpu {
+        private ThreadCpu() {
+        }
+
+        static String kind(String thread) {
+            if (thread.startsWith("Executor task")) return "tasks";
+            if (thread.equals("main") || thread.equals("java")) return "driver";
+            if (thread.startsWith("C1 Compiler") || thread.startsWith("C2 Compiler")) return "JIT";
+            if (thread.startsWith("GC Thread") || thread.startsWith("G1 ")) return "GC";
+            return "other";
+        }
+
+        static java.util.Map<String, Double> byGroup() {
+            java.util.Map<String, Double> out = new java.util.LinkedHashMap<>();
+            for (String k : new String[] {"tasks", "driver", "JIT", "GC", "other"}) out.put(k, 0.0);
+            Path tasks = Path.of("/proc/self/task");
+            if (!Files.isDirectory(tasks)) return java.util.Map.of();
+            try (var list = Files.list(tasks)) {
+                for (Path t : (Iterable<Path>) list::iterator) {
+                    String stat;
+                    try {
+                        stat = Files.readString(t.resolve("stat"));
+                    } catch (java.io.IOException e) {   // the thread ended meanwhile
+                        continue;
+                    }
+                    String name = stat.substring(stat.indexOf('(') + 1, stat.lastIndexOf(')'));
+                    String[] f = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
+                    // user + system time in clock ticks, 100 per second on Linux
+                    out.merge(kind(name), (Long.parseLong(f[11]) + Long.parseLong(f[12])) / 100.0, Double::sum);
+                }
+            } catch (java.io.IOException | RuntimeException e) {
+                return java.util.Map.of();
+            }
+            return out;
+        }
     }
 }
