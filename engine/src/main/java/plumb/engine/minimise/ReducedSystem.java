@@ -97,8 +97,7 @@ final class ReducedSystem {
             }
         }
         ordered = k >= ORDERED_FROM;
-        if (!ordered) return cholesky.decompose(matrix, k);
-        permute(k);
+        if (ordered) permute(k);
         return cholesky.decompose(matrix, k);
     }
 
