@@ -272,23 +272,29 @@ class ParquetPassTest {
         // one file is one partition of the row path and one task of the batches: the same events
         // added in the same order, so the same bits (cut flow, Σw, Σw², counts)
         List<String> files = table("bits", 23, 9_000);
-        HistogramJob job = job("CASE WHEN n_ph > 2 THEN w * 0.9 ELSE w END");
-        for (String file : files) {
-            String view = view(List.of(file));
-            HistogramJob.Sums rows = job.run(spark, view, null);
-            long before = ParquetPass.PASSES.get();
-            HistogramJob.Sums batches = job.run(spark, view, List.of(file));
-            assertEquals(before + 1, ParquetPass.PASSES.get(), "the pass went over column batches");
-            assertArrayEquals(rows.entries(), batches.entries());
-            assertArrayEquals(rows.badObservable(), batches.badObservable());
-            assertArrayEquals(rows.badWeights(), batches.badWeights());
-            for (int r = 0; r < rows.flow().raw().length; r++) {
-                assertArrayEquals(rows.flow().raw()[r], batches.flow().raw()[r], "cut flow counts");
-                assertArrayEquals(bits(rows.flow().weighted()[r]), bits(batches.flow().weighted()[r]), "cut flow Σw");
-            }
-            for (int k = 0; k < rows.sums().length; k++) {
-                assertArrayEquals(bits(rows.sums()[k]), bits(batches.sums()[k]), "Σw of weight " + k);
-                assertArrayEquals(bits(rows.squares()[k]), bits(batches.squares()[k]), "Σw² of weight " + k);
+        // some events in no region's cut flow, some in a cut flow but not selected; and one-step
+        // regions, one of them keeping every event (every event in the cut flow and selected)
+        Region all = region("all", new double[] {100, 120, 140}, Outside.DROP, "m", "true");
+        Region one = region("one", new double[] {100, 110, 120, 130, 140}, Outside.FOLD, "m", "n_ph >= 1");
+        for (HistogramJob job : List.of(job("CASE WHEN n_ph > 2 THEN w * 0.9 ELSE w END"),
+                new HistogramJob(List.of(all, one), List.of("m", "m"), List.of("w", "w_alt", "2 * w - w_alt")))) {
+            for (String file : files) {
+                String view = view(List.of(file));
+                HistogramJob.Sums rows = job.run(spark, view, null);
+                long before = ParquetPass.PASSES.get();
+                HistogramJob.Sums batches = job.run(spark, view, List.of(file));
+                assertEquals(before + 1, ParquetPass.PASSES.get(), "the pass went over column batches");
+                assertArrayEquals(rows.entries(), batches.entries());
+                assertArrayEquals(rows.badObservable(), batches.badObservable());
+                assertArrayEquals(rows.badWeights(), batches.badWeights());
+                for (int r = 0; r < rows.flow().raw().length; r++) {
+                    assertArrayEquals(rows.flow().raw()[r], batches.flow().raw()[r], "cut flow counts");
+                    assertArrayEquals(bits(rows.flow().weighted()[r]), bits(batches.flow().weighted()[r]), "cut flow Σw");
+                }
+                for (int k = 0; k < rows.sums().length; k++) {
+                    assertArrayEquals(bits(rows.sums()[k]), bits(batches.sums()[k]), "Σw of weight " + k);
+                    assertArrayEquals(bits(rows.squares()[k]), bits(batches.squares()[k]), "Σw² of weight " + k);
+                }
             }
         }
     }
