@@ -213,7 +213,10 @@ public final class EventBuild {
             progress(++pass, passes, "data");
             planned.add(pass(new HistogramJob(dataRegions, observables(dataRegions), List.of("1")), dataView));
         }
-        List<HistogramJob.Sums> results = HistogramJob.runAll(spark, planned);
+        List<HistogramJob.Sums> results;
+        try (TaskProgress shown = TaskProgress.start(spark, err)) {
+            results = HistogramJob.runAll(spark, planned);
+        }
         int next = 0;
         for (SampleSpec s : spec.samples()) {
             List<Region> regions = assembly.regions(s);
